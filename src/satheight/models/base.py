@@ -1,0 +1,155 @@
+"""Shared shape of every J-Sw function family.
+
+A family is a class with
+
+* ``name``: registry key used in project files;
+* ``param_names``: ordered parameter names;
+* ``bounds``: ``{name: (low, high)}`` used both to validate given parameters
+  and as least-squares bounds when fitting;
+* ``equation(j, **params)``: a pure vectorised static method giving Sw [fraction]
+  from J [-];
+* ``initial_guess(j, sw)``: starting values for a fit.
+
+Instances follow scikit-learn's estimator convention: ``fit(j, sw)`` returns
+``self`` and sets ``params_`` and ``j_range_``; ``predict(j)`` before fit (or
+before :meth:`JSwFunction.from_params`) raises :class:`NotFittedError`.
+"""
+
+from __future__ import annotations
+
+from typing import ClassVar
+
+import numpy as np
+
+from ..errors import ModelError, NotFittedError
+
+
+class JSwFunction:
+    """Base class of a J-Sw function family (see module docstring)."""
+
+    name: ClassVar[str] = ""
+    param_names: ClassVar[tuple[str, ...]] = ()
+    bounds: ClassVar[dict[str, tuple[float, float]]] = {}
+    description: ClassVar[str] = ""
+
+    def __init__(self):
+        self.params_: dict[str, float] | None = None
+        self.j_range_: tuple[float, float] | None = None
+        self.stderr_: dict[str, float] | None = None
+        self.rmse_: float | None = None
+
+    # --- construction -------------------------------------------------------------
+    @classmethod
+    def from_params(cls, params: dict[str, float], j_range=None, where: str = "") -> "JSwFunction":
+        """Make a ready-to-predict function from given parameters, validated against ``bounds``.
+
+        Raises
+        ------
+        ModelError
+            If a parameter is missing, unknown, not a number or out of bounds; the
+            message names ``where`` (e.g. the project-file key).
+        """
+        missing = [p for p in cls.param_names if p not in params]
+        if missing:
+            raise ModelError(f"{cls.name} function needs parameter(s) {', '.join(missing)}",
+                             where=where or None,
+                             hint=f"give all of {', '.join(cls.param_names)}")
+        unknown = [p for p in params if p not in cls.param_names]
+        if unknown:
+            raise ModelError(f"{cls.name} function has no parameter(s) {', '.join(unknown)}",
+                             where=where or None,
+                             hint=f"its parameters are {', '.join(cls.param_names)}")
+        clean = {}
+        for p in cls.param_names:
+            v = params[p]
+            if isinstance(v, bool) or not isinstance(v, (int, float)) or not np.isfinite(v):
+                raise ModelError(f"parameter {p} must be a finite number, got {v!r}",
+                                 where=where or None)
+            lo, hi = cls.bounds[p]
+            if not (lo <= v <= hi):
+                raise ModelError(f"parameter {p} = {v} is outside its allowed range [{lo}, {hi}]",
+                                 where=where or None)
+            clean[p] = float(v)
+        cls.check_params(clean, where)
+        obj = cls()
+        obj.params_ = clean
+        if j_range is not None:
+            lo, hi = float(j_range[0]), float(j_range[1])
+            if not (0 <= lo < hi):
+                raise ModelError(f"calibrated J range [{lo}, {hi}] must satisfy 0 <= j_min < j_max",
+                                 where=where or None)
+            obj.j_range_ = (lo, hi)
+        return obj
+
+    @classmethod
+    def check_params(cls, params: dict[str, float], where: str = "") -> None:
+        """Extra consistency checks between parameters (override where needed)."""
+
+    # --- the function -------------------------------------------------------------
+    @staticmethod
+    def equation(j, **params):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def predict(self, j) -> np.ndarray:
+        """Water saturation [fraction] at Leverett J [-] (array in, array out).
+
+        J <= 0 (at or below the free-water level) gives Sw = 1. NaN J gives NaN.
+        Results are clipped to [0, 1].
+        """
+        if self.params_ is None:
+            raise NotFittedError(f"{self.name} function has no parameters yet",
+                                 hint="call fit(j, sw) or build it with from_params(...)")
+        j = np.asarray(j, dtype=float)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            sw = self.equation(np.where(j > 0, j, np.inf), **self.params_)
+            sw = np.where(j > 0, sw, 1.0)
+        sw = np.clip(sw, 0.0, 1.0)
+        return np.where(np.isnan(j), np.nan, sw)
+
+    # --- fitting ------------------------------------------------------------------
+    def initial_guess(self, j: np.ndarray, sw: np.ndarray) -> dict[str, float]:
+        """Starting values for a least-squares fit (override for a better start)."""
+        return {p: float(np.clip(1.0, *self.bounds[p])) for p in self.param_names}
+
+    def fit(self, j, sw) -> "JSwFunction":
+        """Least-squares fit in saturation space with parameter bounds.
+
+        Parameters
+        ----------
+        j : array_like
+            Leverett J of each point [-], positive.
+        sw : array_like
+            Measured water saturation [fraction].
+
+        Returns
+        -------
+        self
+        """
+        from scipy.optimize import curve_fit
+
+        j = np.asarray(j, dtype=float)
+        sw = np.asarray(sw, dtype=float)
+        ok = np.isfinite(j) & np.isfinite(sw) & (j > 0)
+        if ok.sum() <= len(self.param_names):
+            raise ModelError(f"{self.name}: need more than {len(self.param_names)} usable "
+                             f"points to fit, got {int(ok.sum())}",
+                             hint="add data points with J > 0 and finite Sw")
+        j, sw = j[ok], sw[ok]
+        guess = self.initial_guess(j, sw)
+        lo = [self.bounds[p][0] for p in self.param_names]
+        hi = [self.bounds[p][1] for p in self.param_names]
+        p0 = [float(np.clip(guess[p], lo[i] + 1e-12 * (hi[i] - lo[i]), hi[i])) for i, p in enumerate(self.param_names)]
+
+        def f(x, *p):
+            return np.clip(self.equation(x, **dict(zip(self.param_names, p))), 0.0, 1.0)
+
+        popt, pcov = curve_fit(f, j, sw, p0=p0, bounds=(lo, hi), maxfev=20000)
+        self.params_ = dict(zip(self.param_names, map(float, popt)))
+        with np.errstate(invalid="ignore"):
+            self.stderr_ = dict(zip(self.param_names, map(float, np.sqrt(np.diag(pcov)))))
+        self.rmse_ = float(np.sqrt(np.mean((f(j, *popt) - sw) ** 2)))
+        self.j_range_ = (float(j.min()), float(j.max()))
+        return self
+
+    def __repr__(self) -> str:
+        return f"{type(self).__name__}(params_={self.params_}, j_range_={self.j_range_})"

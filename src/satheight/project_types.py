@@ -1,0 +1,132 @@
+"""Plain typed objects a project file is read into. All quantities are SI.
+
+See :mod:`satheight.project` for the reader and the README for the file format.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+
+@dataclass(frozen=True)
+class FunctionSpec:
+    """A J-Sw function as named in a project file.
+
+    Attributes
+    ----------
+    family : str
+        Registry key in :data:`satheight.models.FAMILIES` (``"power_law"``, ``"brooks_corey"``).
+    params : dict[str, float]
+        The family's parameters, dimensionless.
+    j_range : tuple[float, float] or None
+        J range the function was calibrated on; samples outside it are flagged.
+    """
+
+    family: str
+    params: dict[str, float]
+    j_range: tuple[float, float] | None = None
+
+
+@dataclass(frozen=True)
+class ZoneSpec:
+    """One zone: its depth window, contact, fluids and J-Sw function.
+
+    Attributes
+    ----------
+    name : str
+    top, base : float or None
+        Field-wide zone window in TVDSS [m], positive down. ``None`` when every
+        well gives its own tops.
+    fwl : float
+        Free-water level, TVDSS [m].
+    water_density, hydrocarbon_density : float
+        Densities at reservoir conditions [kg/m^3].
+    hydrocarbon : str
+        ``"oil"``, ``"gas"`` or ``"air"``.
+    sigma_cos_theta : float
+        Interfacial tension times cosine of contact angle at reservoir conditions [N/m].
+    function : FunctionSpec
+    """
+
+    name: str
+    top: float | None
+    base: float | None
+    fwl: float
+    water_density: float
+    hydrocarbon_density: float
+    hydrocarbon: str
+    sigma_cos_theta: float
+    function: FunctionSpec
+
+
+@dataclass(frozen=True)
+class WellSpec:
+    """One well of the project.
+
+    Attributes
+    ----------
+    name : str
+        Name used in outputs (defaults to the LAS file's WELL item or stem).
+    las : pathlib.Path
+        Absolute path of the LAS file (resolved relative to the project file).
+    datum_elevation : float or None
+        Elevation of the log depth reference (KB, drill floor, ground) above the
+        TVDSS datum [m]. ``None``: take it from the LAS header.
+    curves : dict[str, str]
+        Role -> mnemonic overrides (roles: porosity, permeability, resistivity, sw).
+    tops : dict[str, tuple[float, float]]
+        Zone name -> (top, base) in this well's measured depth [m].
+    """
+
+    name: str | None
+    las: Path
+    datum_elevation: float | None = None
+    curves: dict[str, str] = field(default_factory=dict)
+    tops: dict[str, tuple[float, float]] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class LogSwSpec:
+    """How log water saturation is obtained.
+
+    Attributes
+    ----------
+    method : str
+        ``"curve"`` (use the well's Sw curve), ``"archie"`` (compute from Rt and
+        porosity) or ``"auto"`` (curve if the well has one, else Archie).
+    a, m, n : float
+        Archie tortuosity factor, cementation and saturation exponents.
+    rw : float or None
+        Formation-water resistivity at formation temperature [ohm.m].
+    """
+
+    method: str = "auto"
+    a: float = 1.0
+    m: float = 2.0
+    n: float = 2.0
+    rw: float | None = None
+
+
+@dataclass(frozen=True)
+class Project:
+    """A whole project file, validated.
+
+    Attributes
+    ----------
+    path : pathlib.Path
+        The project file.
+    name : str
+    unit_system : str
+        ``"metric"`` or ``"field"``: units of bare numbers in the file and of outputs.
+    wells : list[WellSpec]
+    zones : list[ZoneSpec]
+    log_sw : LogSwSpec
+    """
+
+    path: Path
+    name: str
+    unit_system: str
+    wells: list[WellSpec]
+    zones: list[ZoneSpec]
+    log_sw: LogSwSpec

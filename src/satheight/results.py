@@ -1,0 +1,97 @@
+"""Containers that carry one well's computed results between engine, writers and plots."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from .well import Well
+
+# Bit flags of the SHM_FLAG curve. A sample may carry several (sum of bits).
+FLAG_NO_ZONE = 1          #: sample lies in no zone: no SHM saturation computed
+FLAG_BAD_POROSITY = 2     #: porosity missing, zero, negative or above 1: Sw is NaN
+FLAG_BAD_PERMEABILITY = 4  #: permeability missing, zero or negative: Sw is NaN
+FLAG_J_BELOW_RANGE = 8    #: J above zero but below the calibrated range of the function
+FLAG_J_ABOVE_RANGE = 16   #: J above the calibrated range of the function (extrapolated)
+
+FLAG_MEANINGS = {
+    FLAG_NO_ZONE: "outside every zone",
+    FLAG_BAD_POROSITY: "porosity missing or outside (0, 1]",
+    FLAG_BAD_PERMEABILITY: "permeability missing or not positive",
+    FLAG_J_BELOW_RANGE: "J below the calibrated range of the J-Sw function",
+    FLAG_J_ABOVE_RANGE: "J above the calibrated range of the J-Sw function",
+}
+
+
+@dataclass
+class ShmResult:
+    """Per-sample saturation-height results, all SI float64 arrays of one length.
+
+    Attributes
+    ----------
+    zone : numpy.ndarray of int
+        Index of the zone each sample falls in, -1 where none.
+    hafwl : numpy.ndarray
+        Height above the free-water level [m] (negative below it), NaN outside zones.
+    pc : numpy.ndarray
+        Reservoir capillary pressure [Pa], 0 at and below the FWL, NaN outside zones.
+    j : numpy.ndarray
+        Leverett J [-], NaN where porosity or permeability is unusable.
+    sw : numpy.ndarray
+        Predicted water saturation [fraction], 1 at and below the FWL.
+    flag : numpy.ndarray of int
+        Sum of the FLAG_* bits above.
+    """
+
+    zone: np.ndarray
+    hafwl: np.ndarray
+    pc: np.ndarray
+    j: np.ndarray
+    sw: np.ndarray
+    flag: np.ndarray
+
+
+@dataclass
+class WellResult:
+    """Everything computed for one well: what writers, summaries and plots read.
+
+    Attributes
+    ----------
+    well : Well
+        The loaded input well (unchanged).
+    tvdss : numpy.ndarray
+        True vertical depth below the depth datum (sea level) [m], positive down.
+    zones : list
+        The :class:`satheight.engine.ZoneModel` objects used for this well (with
+        this well's top and base).
+    shm : ShmResult
+        Saturation-height results.
+    phi, k : numpy.ndarray
+        Porosity [fraction] and permeability [m^2] used, in SI.
+    rt : numpy.ndarray or None
+        Deep resistivity [ohm.m] if present.
+    sw_log : numpy.ndarray or None
+        Log (resistivity-derived or given) water saturation [fraction].
+    sw_log_source : str
+        ``"curve:<MNEMONIC>"`` or ``"archie"`` or ``"none"``.
+    roles : dict[str, str | None]
+        Mnemonic used for each role (porosity, permeability, resistivity, sw).
+    summary : dict
+        The JSON-ready per-well and per-zone comparison (filled by
+        :func:`satheight.compare.summarise`).
+    """
+
+    well: Well
+    tvdss: np.ndarray
+    zones: list
+    shm: ShmResult
+    phi: np.ndarray
+    k: np.ndarray
+    rt: np.ndarray | None
+    sw_log: np.ndarray | None
+    sw_log_source: str
+    roles: dict[str, str | None]
+    datum_elevation: float = 0.0
+    summary: dict[str, Any] = field(default_factory=dict)

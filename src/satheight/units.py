@@ -1,0 +1,190 @@
+"""Units at the boundary: parse quantities written as text and convert to SI.
+
+Inside the engine everything is SI (m, Pa, kg/m^3, N/m, m^2, ohm.m) and porosity
+and saturation are fractions. This module is the only place that knows unit
+names. A quantity may be a bare number (it then takes a default unit, usually the
+project's declared unit system) or text such as ``"1990 m"``, ``"6529 ft"``,
+``"1.08 g/cm3"``, ``"0.45 psi/ft"`` or ``"26 mN/m"``.
+
+Density may also be given as a pressure gradient (``psi/ft``, ``kPa/m``,
+``bar/m``, ``Pa/m``); it is turned into a density by dividing by standard gravity
+(common practice: a gradient of fluid at rest is rho * g).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from typing import Mapping
+
+from . import constants as C
+from .errors import UnitError
+
+# Each kind maps normalised unit names to (factor, offset): SI = value * factor + offset.
+_LENGTH = {"m": 1.0, "meter": 1.0, "meters": 1.0, "metre": 1.0, "metres": 1.0,
+           "ft": C.FOOT, "feet": C.FOOT, "foot": C.FOOT, "f": C.FOOT,
+           "cm": 0.01, "mm": 0.001, "km": 1000.0, "in": 0.0254}
+_PRESSURE = {"pa": 1.0, "kpa": 1e3, "mpa": 1e6, "bar": 1e5, "psi": C.PSI, "psia": C.PSI,
+             "atm": 101325.0}
+_DENSITY = {"kg/m3": 1.0, "kg/m^3": 1.0, "g/cm3": C.G_PER_CM3, "g/cc": C.G_PER_CM3,
+            "g/cm^3": C.G_PER_CM3, "gcc": C.G_PER_CM3, "g/ml": C.G_PER_CM3,
+            "lb/ft3": C.LB_PER_FT3, "lbm/ft3": C.LB_PER_FT3, "lb/ft^3": C.LB_PER_FT3,
+            "sg": C.G_PER_CM3}
+# gradients: pressure per length, converted to density by / g
+_GRADIENT = {"psi/ft": C.PSI / C.FOOT, "kpa/m": 1e3, "pa/m": 1.0, "bar/m": 1e5,
+             "mpa/m": 1e6, "psi/m": C.PSI}
+_TENSION = {"n/m": 1.0, "mn/m": 1e-3, "dyn/cm": C.DYNE_PER_CM, "dyne/cm": C.DYNE_PER_CM,
+            "dynes/cm": C.DYNE_PER_CM}
+_PERMEABILITY = {"md": C.MILLIDARCY, "mdarcy": C.MILLIDARCY, "millidarcy": C.MILLIDARCY,
+                 "d": C.DARCY, "darcy": C.DARCY, "m2": 1.0, "m^2": 1.0, "um2": 1e-12,
+                 "µm2": 1e-12}
+_RESISTIVITY = {"ohm.m": 1.0, "ohmm": 1.0, "ohm-m": 1.0, "ohm m": 1.0, "ohm*m": 1.0,
+                "ohm·m": 1.0, "ohms": 1.0, "ohm": 1.0, "Ω.m": 1.0, "Ωm": 1.0}
+_FRACTION = {"": 1.0, "frac": 1.0, "fraction": 1.0, "v/v": 1.0, "dec": 1.0, "decimal": 1.0,
+             "m3/m3": 1.0, "ft3/ft3": 1.0, "%": 0.01, "pct": 0.01, "percent": 0.01,
+             "pu": 0.01, "p.u.": 0.01, "pu.": 0.01}
+_TEMPERATURE = {"degc": (1.0, 273.15), "c": (1.0, 273.15), "°c": (1.0, 273.15),
+                "k": (1.0, 0.0), "degf": (5 / 9, 273.15 - 32 * 5 / 9),
+                "f": (5 / 9, 273.15 - 32 * 5 / 9), "°f": (5 / 9, 273.15 - 32 * 5 / 9)}
+_ANGLE = {"deg": math.pi / 180, "degree": math.pi / 180, "degrees": math.pi / 180,
+          "°": math.pi / 180, "rad": 1.0}
+
+#: Unit tables by quantity kind. Values are SI factors.
+KINDS: dict[str, Mapping[str, float]] = {
+    "length": _LENGTH,
+    "pressure": _PRESSURE,
+    "density": _DENSITY,
+    "tension": _TENSION,
+    "permeability": _PERMEABILITY,
+    "resistivity": _RESISTIVITY,
+    "fraction": _FRACTION,
+    "angle": _ANGLE,
+}
+
+#: Default unit of each kind in each declared unit system of a project file.
+UNIT_SYSTEMS: dict[str, dict[str, str]] = {
+    "metric": {"length": "m", "pressure": "kPa", "density": "kg/m3", "tension": "mN/m",
+               "permeability": "mD", "resistivity": "ohm.m", "fraction": "frac",
+               "angle": "deg", "temperature": "degC"},
+    "field": {"length": "ft", "pressure": "psi", "density": "g/cm3", "tension": "dyn/cm",
+              "permeability": "mD", "resistivity": "ohm.m", "fraction": "frac",
+              "angle": "deg", "temperature": "degF"},
+}
+
+_NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
+_QUANTITY = re.compile(rf"^\s*({_NUMBER})\s*(.*?)\s*$")
+
+
+def normalise_unit(unit: str | None) -> str:
+    """Lower-case a unit name and drop blanks around it (``" G/CC "`` -> ``"g/cc"``)."""
+    if unit is None:
+        return ""
+    u = unit.strip().lower().replace("³", "3").replace("²", "2")
+    return u
+
+
+def factor(unit: str | None, kind: str) -> float:
+    """SI factor of ``unit`` for a quantity of ``kind``.
+
+    Parameters
+    ----------
+    unit : str
+        Unit name, case-insensitive (``"ft"``, ``"psi"``, ``"g/cm3"``).
+    kind : str
+        One of :data:`KINDS`.
+
+    Returns
+    -------
+    float
+        Multiply a value in ``unit`` by this to get SI.
+
+    Raises
+    ------
+    UnitError
+        If the unit is unknown for that kind; the message lists the known units.
+    """
+    table = KINDS.get(kind)
+    if table is None:
+        raise UnitError(f"unknown quantity kind {kind!r}", hint=f"use one of {sorted(KINDS)}")
+    u = normalise_unit(unit)
+    if u in table:
+        return table[u]
+    raise UnitError(f"unit {unit!r} is not a {kind} unit",
+                    hint="use one of " + ", ".join(repr(k) for k in table if k))
+
+
+def to_si(value, unit: str | None, kind: str):
+    """Convert ``value`` (scalar or array) from ``unit`` to SI for ``kind``."""
+    if kind == "temperature":
+        scale, offset = _temperature(unit)
+        return value * scale + offset
+    return value * factor(unit, kind)
+
+
+def from_si(value, unit: str | None, kind: str):
+    """Convert ``value`` (scalar or array) from SI to ``unit`` for ``kind``."""
+    if kind == "temperature":
+        scale, offset = _temperature(unit)
+        return (value - offset) / scale
+    return value / factor(unit, kind)
+
+
+def _temperature(unit):
+    u = normalise_unit(unit)
+    if u in _TEMPERATURE:
+        return _TEMPERATURE[u]
+    raise UnitError(f"unit {unit!r} is not a temperature unit", hint="use degC, degF or K")
+
+
+def split_quantity(text: str) -> tuple[float, str]:
+    """Split ``"1990 m"`` into ``(1990.0, "m")``; a bare number gives unit ``""``.
+
+    Raises
+    ------
+    UnitError
+        If the text does not start with a number.
+    """
+    m = _QUANTITY.match(text)
+    if not m:
+        raise UnitError(f"{text!r} is not a number with an optional unit",
+                        hint='write it like "1990 m" or "1.08 g/cm3"')
+    return float(m.group(1)), m.group(2)
+
+
+def parse_quantity(value, kind: str, default_unit: str | None = None) -> float:
+    """Parse a number or a text quantity into SI.
+
+    Parameters
+    ----------
+    value : float, int or str
+        ``2000``, ``"2000"``, ``"6529 ft"``, ``"0.45 psi/ft"``...
+    kind : str
+        Quantity kind (see :data:`KINDS`, plus ``"temperature"``). For ``"density"``,
+        a pressure-gradient unit is also accepted and converted with standard gravity.
+    default_unit : str, optional
+        Unit of a bare number. If ``None``, a bare number is taken as SI already.
+
+    Returns
+    -------
+    float
+        The value in SI: m, Pa, kg/m^3, N/m, m^2, ohm.m, fraction, rad or K.
+    """
+    if isinstance(value, bool):
+        raise UnitError(f"expected a {kind} value, got a true/false value {value!r}")
+    if isinstance(value, (int, float)):
+        number, unit = float(value), ""
+    elif isinstance(value, str):
+        number, unit = split_quantity(value)
+    else:
+        raise UnitError(f"expected a {kind} value as a number or text like '10 m', got {value!r}")
+    if not math.isfinite(number):
+        raise UnitError(f"{value!r} is not a finite number")
+    if unit == "":
+        if default_unit is None:
+            return number
+        unit = default_unit
+    if kind == "density":
+        u = normalise_unit(unit)
+        if u in _GRADIENT:
+            return number * _GRADIENT[u] / C.STANDARD_GRAVITY
+    return float(to_si(number, unit, kind))
