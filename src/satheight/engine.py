@@ -1,0 +1,228 @@
+"""Pure per-depth saturation-height computation: no I/O, no plotting.
+
+For every sample of a well:
+
+1. zone membership from TVDSS and each zone's top and base;
+2. height above the free-water level ``h = z_FWL - z`` (TVDSS, positive down);
+3. reservoir capillary pressure ``Pc = (rho_w - rho_hc) * g * h``;
+4. Leverett J ``J = Pc * sqrt(k / phi) / (sigma cos theta)``;
+5. water saturation from the zone's J-Sw function, Sw = 1 at and below the FWL;
+6. flags where porosity or permeability are unusable (Sw NaN there) and where J
+   lies outside the range the function was calibrated on.
+
+Everything is SI: depths [m], pressure [Pa], density [kg/m^3], permeability [m^2],
+sigma*cos(theta) [N/m], porosity and saturation as fractions. Zones are handled
+by masks (one numpy pass per zone), never by a Python loop over samples.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Sequence
+
+import numpy as np
+
+from .constants import STANDARD_GRAVITY
+from .errors import SatHeightError
+from .models.base import JSwFunction
+from .results import (FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_J_ABOVE_RANGE,
+                      FLAG_J_BELOW_RANGE, FLAG_NO_ZONE, ShmResult)
+
+
+def height_above_fwl(tvdss, fwl):
+    """Height above the free-water level [m].
+
+    Parameters
+    ----------
+    tvdss : array_like
+        True vertical depth below the datum of each sample [m], positive down.
+    fwl : float or array_like
+        Free-water level, TVDSS [m].
+
+    Returns
+    -------
+    numpy.ndarray
+        ``fwl - tvdss`` [m]; negative below the FWL.
+    """
+    return np.asarray(fwl, dtype=float) - np.asarray(tvdss, dtype=float)
+
+
+def capillary_pressure_from_height(h, rho_water, rho_hydrocarbon, g=STANDARD_GRAVITY):
+    """Reservoir capillary pressure from height above the FWL [Pa].
+
+    ``Pc = (rho_w - rho_hc) * g * h``: the pressure difference between the two
+    continuous fluid columns at rest, which meet at the FWL (Pc = 0 there).
+
+    Parameters
+    ----------
+    h : array_like
+        Height above the FWL [m].
+    rho_water, rho_hydrocarbon : float or array_like
+        Densities at reservoir conditions [kg/m^3].
+    g : float
+        Acceleration of gravity [m/s^2], standard gravity 9.80665 (3rd CGPM 1901).
+
+    References
+    ----------
+    Hydrostatics of two immiscible fluids; e.g. Tiab, D. and Donaldson, E. C.,
+    Petrophysics, chapter on capillary pressure (common practice).
+    """
+    return (np.asarray(rho_water, dtype=float) - np.asarray(rho_hydrocarbon, dtype=float)) * g * np.asarray(h, dtype=float)
+
+
+def leverett_j(pc, k, phi, sigma_cos_theta):
+    """Leverett J-function, dimensionless.
+
+    Parameters
+    ----------
+    pc : array_like
+        Capillary pressure [Pa].
+    k : array_like
+        Permeability [m^2].
+    phi : array_like
+        Porosity [fraction].
+    sigma_cos_theta : float or array_like
+        Interfacial tension times cosine of the contact angle [N/m].
+
+    Returns
+    -------
+    numpy.ndarray
+        ``J = Pc * sqrt(k / phi) / (sigma cos theta)``. In field units
+        (Pc psi, k mD, sigma dyn/cm) the same J is ``0.2166 * Pc * sqrt(k/phi) / (sigma cos theta)``.
+
+    References
+    ----------
+    Leverett, M. C., 1941. Capillary behavior in porous solids. Trans. AIME 142, 152-169.
+    """
+    pc = np.asarray(pc, dtype=float)
+    return pc * np.sqrt(np.asarray(k, dtype=float) / np.asarray(phi, dtype=float)) / np.asarray(sigma_cos_theta, dtype=float)
+
+
+def pc_from_j(j, k, phi, sigma_cos_theta):
+    """Capillary pressure [Pa] from Leverett J [-]; the inverse of :func:`leverett_j`."""
+    return np.asarray(j, dtype=float) * np.asarray(sigma_cos_theta, dtype=float) / np.sqrt(
+        np.asarray(k, dtype=float) / np.asarray(phi, dtype=float))
+
+
+@dataclass(frozen=True)
+class ZoneModel:
+    """One zone as the engine uses it, for one well.
+
+    Attributes
+    ----------
+    name : str
+    top, base : float
+        Zone window in TVDSS [m] for this well (top inclusive, base exclusive).
+    fwl : float
+        Free-water level TVDSS [m].
+    water_density, hydrocarbon_density : float
+        [kg/m^3] at reservoir conditions.
+    hydrocarbon : str
+        ``"oil"``, ``"gas"`` or ``"air"``.
+    sigma_cos_theta : float
+        [N/m] at reservoir conditions.
+    function : JSwFunction
+        Ready-to-predict J-Sw function.
+    """
+
+    name: str
+    top: float
+    base: float
+    fwl: float
+    water_density: float
+    hydrocarbon_density: float
+    hydrocarbon: str
+    sigma_cos_theta: float
+    function: JSwFunction
+
+    @property
+    def delta_rho(self) -> float:
+        """Density difference water minus hydrocarbon [kg/m^3]."""
+        return self.water_density - self.hydrocarbon_density
+
+
+def assign_zones(tvdss, zones: Sequence[ZoneModel]) -> np.ndarray:
+    """Index of the zone each sample falls in (top <= z < base), -1 where none.
+
+    Where windows overlap the first zone in the list wins (the project reader
+    rejects overlapping field-wide windows; per-well tops are checked by the caller).
+    """
+    z = np.asarray(tvdss, dtype=float)
+    idx = np.full(z.shape, -1, dtype=np.int64)
+    for i in range(len(zones) - 1, -1, -1):
+        zn = zones[i]
+        idx[(z >= zn.top) & (z < zn.base)] = i
+    return idx
+
+
+def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+    """Saturation-height model at every sample.
+
+    Parameters
+    ----------
+    tvdss : array_like
+        TVDSS of each sample [m], positive down.
+    phi : array_like
+        Porosity [fraction]. NaN, <= 0 or > 1 gives Sw NaN and FLAG_BAD_POROSITY.
+    k : array_like
+        Permeability [m^2]. NaN or <= 0 gives Sw NaN and FLAG_BAD_PERMEABILITY.
+    zones : sequence of ZoneModel
+
+    Returns
+    -------
+    ShmResult
+        Arrays of the input length. Outside every zone all values are NaN and
+        the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
+        Sw = 1 whatever the porosity and permeability (they are still flagged).
+        J outside the function's calibrated range keeps its Sw but is flagged.
+    """
+    z = np.asarray(tvdss, dtype=float)
+    phi = np.asarray(phi, dtype=float)
+    k = np.asarray(k, dtype=float)
+    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
+        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
+                             f"{z.shape}, {phi.shape}, {k.shape}")
+    n = z.size
+    zone = assign_zones(z, zones)
+    in_zone = zone >= 0
+
+    # per-sample zone parameters by fancy indexing (NaN where no zone)
+    def per_sample(values):
+        table = np.append(np.asarray(values, dtype=float), np.nan)
+        return table[zone]  # index -1 picks the trailing NaN
+
+    fwl = per_sample([zn.fwl for zn in zones])
+    drho = per_sample([zn.delta_rho for zn in zones])
+    sct = per_sample([zn.sigma_cos_theta for zn in zones])
+
+    h = fwl - z
+    pc = np.maximum(drho * STANDARD_GRAVITY * h, 0.0)
+    with np.errstate(invalid="ignore"):
+        bad_phi = ~((phi > 0) & (phi <= 1))
+        bad_k = ~(k > 0)
+    flag = np.zeros(n, dtype=np.int64)
+    flag[~in_zone] |= FLAG_NO_ZONE
+    flag[in_zone & bad_phi] |= FLAG_BAD_POROSITY
+    flag[in_zone & bad_k] |= FLAG_BAD_PERMEABILITY
+
+    usable = ~(bad_phi | bad_k)
+    below = in_zone & (h <= 0)
+    j = np.full(n, np.nan)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        np.divide(pc * np.sqrt(k / phi), sct, out=j, where=in_zone & usable)
+    j[below] = 0.0
+
+    sw = np.full(n, np.nan)
+    sw[below] = 1.0
+    for i, zn in enumerate(zones):
+        m = (zone == i) & usable & ~below
+        if not m.any():
+            continue
+        ji = j[m]
+        sw[m] = zn.function.predict(ji)
+        rng = zn.function.j_range_
+        if rng is not None:
+            lo_bits = np.where(ji < rng[0], FLAG_J_BELOW_RANGE, 0)
+            hi_bits = np.where(ji > rng[1], FLAG_J_ABOVE_RANGE, 0)
+            flag[m] |= lo_bits | hi_bits
+    return ShmResult(zone=zone, hafwl=h, pc=pc, j=j, sw=sw, flag=flag)

@@ -1,0 +1,174 @@
+"""Each formula against an outside source, named beside the check.
+
+Values tagged "REFERENCES.md" are the verified check values of the project's
+reference table (shared/REFERENCES.md), which names their origin.
+"""
+
+import math
+
+import numpy as np
+import pytest
+import scipy.constants as sc
+
+from satheight import constants as C
+from satheight import units as U
+from satheight.engine import (capillary_pressure_from_height, height_above_fwl, leverett_j,
+                              pc_from_j)
+from satheight.logsw import archie_sw, formation_factor
+from satheight.models import BrooksCorey, PowerLaw, build_function
+
+
+# --- units and constants -----------------------------------------------------------
+
+def test_psi_equals_nist_and_scipy():
+    # NIST SP 811 (2008) App. B: 1 psi = 6894.757 Pa; library: scipy.constants.psi
+    assert C.PSI == pytest.approx(6894.757293168, rel=1e-12)
+    assert C.PSI == pytest.approx(sc.psi, rel=1e-12)
+
+
+def test_standard_gravity_matches_scipy():
+    # 3rd CGPM (1901); library: scipy.constants.g
+    assert C.STANDARD_GRAVITY == sc.g
+
+
+def test_millidarcy_in_m2():
+    # NIST SP 811: 1 darcy = 9.869233e-13 m^2 (REFERENCES.md #3, from memory there)
+    assert C.MILLIDARCY == pytest.approx(9.869233e-16, rel=1e-12)
+
+
+def test_foot_matches_scipy():
+    # international foot, NIST SP 811; library: scipy.constants.foot
+    assert C.FOOT == pytest.approx(sc.foot, rel=1e-15)
+
+
+def test_field_unit_j_constant():
+    # REFERENCES.md #4: derived from NIST SP 811 psi and darcy: 0.216601 (textbooks print 0.2166)
+    assert C.J_FIELD_CONSTANT == pytest.approx(0.216601, abs=5e-7)
+    assert round(C.J_FIELD_CONSTANT, 4) == 0.2166
+
+
+def test_j_same_in_si_and_field_units():
+    # REFERENCES.md #5: Pc=10 psi, k=100 mD, phi=0.2, sigma cos theta = 26 dyn/cm -> J = 1.86283
+    j_si = leverett_j(10 * C.PSI, 100 * C.MILLIDARCY, 0.2, 26 * C.DYNE_PER_CM)
+    j_field = C.J_FIELD_CONSTANT * 10 * math.sqrt(100 / 0.2) / 26
+    assert j_si == pytest.approx(1.86283, abs=5e-6)
+    assert j_field == pytest.approx(j_si, rel=1e-12)
+
+
+def test_pc_from_j_inverts_j():
+    # identity of the Leverett definition (Leverett 1941)
+    k, phi, sct = 250 * C.MILLIDARCY, 0.23, 0.026
+    pc = np.array([1e3, 5e4, 2e5])
+    assert pc_from_j(leverett_j(pc, k, phi, sct), k, phi, sct) == pytest.approx(pc, rel=1e-12)
+
+
+def test_pc_from_height_reference_value():
+    # REFERENCES.md #7: delta rho 250 kg/m3, h = 100 m -> 245166.25 Pa = 35.5584 psi
+    pc = capillary_pressure_from_height(100.0, 1250.0, 1000.0)
+    assert pc == pytest.approx(245166.25, rel=1e-12)
+    assert pc / C.PSI == pytest.approx(35.5584, abs=5e-5)
+
+
+def test_fresh_water_gradient():
+    # REFERENCES.md #6: 1 g/cc -> 0.433528 psi/ft (trade rule 0.433: common practice)
+    rho = U.parse_quantity("1 g/cm3", "density")
+    grad_psi_ft = rho * C.STANDARD_GRAVITY * C.FOOT / C.PSI
+    assert grad_psi_ft == pytest.approx(0.433528, abs=5e-7)
+    # and the gradient text parses back to the same density
+    assert U.parse_quantity(f"{grad_psi_ft} psi/ft", "density") == pytest.approx(1000.0, rel=1e-12)
+
+
+def test_height_above_fwl_sign():
+    # convention (DESIGN): h = z_FWL - z, TVDSS positive down
+    assert height_above_fwl([2000.0, 2100.0], 2050.0) == pytest.approx([50.0, -50.0])
+
+
+def test_chained_mercury_to_reservoir_height():
+    # REFERENCES.md: mercury Pc 100 psi, k 100 mD, phi 0.2 (sigma cos theta 367.7 dyn/cm, Purcell 1949,
+    # from memory) -> J 1.31720 -> reservoir oil-brine (25.98 dyn/cm) Pc 7.06572 psi -> 65.193 ft at 0.25 g/cc
+    sct_hg = 480 * math.cos(math.radians(140)) * -1 * C.DYNE_PER_CM
+    sct_res = 30 * math.cos(math.radians(30)) * C.DYNE_PER_CM
+    k, phi = 100 * C.MILLIDARCY, 0.2
+    j = leverett_j(100 * C.PSI, k, phi, sct_hg)
+    assert j == pytest.approx(1.31720, abs=5e-5)
+    pc_res = pc_from_j(j, k, phi, sct_res)
+    assert pc_res / C.PSI == pytest.approx(7.06572, abs=5e-5)
+    h = pc_res / (250.0 * C.STANDARD_GRAVITY)
+    assert h / C.FOOT == pytest.approx(65.193, abs=1e-3)
+
+
+# --- Archie --------------------------------------------------------------------------
+
+def test_archie_worked_numbers():
+    # Archie 1942, Trans. AIME 146 (REFERENCES.md, computed): a=1, m=2, n=2, phi 0.2, Rw 0.05, Rt 20
+    assert formation_factor(0.2, 1.0, 2.0) == pytest.approx(25.0)
+    assert archie_sw(20.0, 0.2, 0.05, 1.0, 2.0, 2.0) == pytest.approx(0.25, abs=1e-12)
+    assert archie_sw(20.0, 0.2, 0.05, 1.0, 2.0, 2.5) == pytest.approx(0.32988, abs=5e-6)
+
+
+def test_archie_winsauer_constants():
+    # Winsauer et al. 1952 a=0.62, m=2.15 (from memory; REFERENCES.md computed F 19.7323, Sw 0.22211)
+    assert formation_factor(0.2, 0.62, 2.15) == pytest.approx(19.7323, abs=5e-4)
+    assert archie_sw(20.0, 0.2, 0.05, 0.62, 2.15, 2.0) == pytest.approx(0.22211, abs=5e-6)
+
+
+def test_archie_bad_values_give_nan():
+    sw = archie_sw(np.array([0.0, -1.0, np.nan, 10.0]), np.array([0.2, 0.2, 0.2, 0.0]), 0.05)
+    assert np.isnan(sw).all()
+
+
+# --- J-Sw functions ---------------------------------------------------------------
+
+def test_brooks_corey_reference():
+    # Brooks & Corey 1964, Hydrology Paper 3 (REFERENCES.md, computed): Pd 5, lambda 2, Swr 0.2,
+    # Pc 20 -> Se 0.0625, Sw 0.25; Sw 0.5 -> Pc 8.16497. The same form in J with jd = Pd.
+    f = build_function("brooks_corey", {"swirr": 0.2, "jd": 5.0, "lam": 2.0})
+    assert f.predict([20.0]) == pytest.approx([0.25], abs=1e-12)
+    assert f.predict([8.16497]) == pytest.approx([0.5], abs=1e-5)
+    # below entry the rock stays water-full
+    assert f.predict([4.9, 1.0]) == pytest.approx([1.0, 1.0])
+
+
+def test_power_law_shape():
+    # Sw = swirr + (1 - swirr) a J^-b: normalised saturation halves for each 2^(1/b) in J
+    f = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 2.0})
+    sw = f.predict(np.array([1.0, math.sqrt(2.0), 1e6, 0.0, -3.0]))
+    se = (sw - 0.1) / 0.9
+    assert se[0] == pytest.approx(0.3)
+    assert se[1] == pytest.approx(0.15)
+    assert sw[2] == pytest.approx(0.1, abs=1e-9)
+    assert sw[3] == 1.0 and sw[4] == 1.0  # at and below FWL
+
+
+@pytest.mark.parametrize("cls,params", [
+    (PowerLaw, {"swirr": 0.12, "a": 0.35, "b": 1.4}),
+    (BrooksCorey, {"swirr": 0.08, "jd": 0.15, "lam": 1.2}),
+])
+def test_fit_recovers_parameters(cls, params):
+    # synthetic data from known parameters with noise; recovered within 4 standard errors
+    rng = np.random.default_rng(7)
+    j = np.geomspace(0.2, 20, 120)
+    sw = np.clip(cls.equation(j, **params), 0, 1) + rng.normal(0, 0.01, j.size)
+    f = cls().fit(j, sw)
+    for p, v in params.items():
+        assert abs(f.params_[p] - v) < 4 * f.stderr_[p] + 1e-9, (p, f.params_, f.stderr_)
+    assert f.rmse_ == pytest.approx(0.01, rel=0.3)
+    assert f.j_range_ == (pytest.approx(0.2), pytest.approx(20.0))
+
+
+def test_predict_before_fit_is_an_error():
+    from satheight.errors import NotFittedError
+
+    with pytest.raises(NotFittedError):
+        PowerLaw().predict([1.0])
+
+
+def test_bad_parameters_named():
+    from satheight.errors import ModelError
+
+    with pytest.raises(ModelError, match="lam"):
+        build_function("brooks_corey", {"swirr": 0.1, "jd": 0.2}, where="zones[A].function")
+    with pytest.raises(ModelError, match="unknown J-Sw function family"):
+        build_function("nope", {})
+    with pytest.raises(ModelError, match="outside its allowed range"):
+        build_function("power_law", {"swirr": 1.5, "a": 0.2, "b": 1.0})
