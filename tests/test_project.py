@@ -1,0 +1,650 @@
+"""Tests of the project-file reader (satheight.project).
+
+Unit factors used for expected values (outside sources, written out here rather
+than taken from our own code):
+* 1 ft = 0.3048 m exactly (NIST SP 811, 2008, App. B).
+* 1 psi = 6894.757293168 Pa (NIST SP 811, 2008, App. B).
+* standard gravity g = 9.80665 m/s^2 (3rd CGPM 1901; NIST SP 811).
+* 1 g/cm3 = 1000 kg/m3; 1 dyn/cm = 1 mN/m = 1e-3 N/m (CGS definitions).
+"""
+
+from __future__ import annotations
+
+import copy
+import textwrap
+from pathlib import Path
+
+import pytest
+
+from satheight.errors import InputFileError, ProjectFileError, UnitError
+from satheight.project import load_project, parse_project
+from satheight.project_types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
+
+FT = 0.3048              # m, NIST SP 811 (2008) App. B
+PSI = 6894.757293168     # Pa, NIST SP 811 (2008) App. B
+G = 9.80665              # m/s^2, 3rd CGPM (1901); NIST SP 811
+G_CM3 = 1000.0           # kg/m3 per g/cm3 (definition)
+DYN_CM = 1e-3            # N/m per dyn/cm (CGS definition)
+
+
+# ----------------------------------------------------------------------------------
+# fixtures and helpers
+# ----------------------------------------------------------------------------------
+def _las(path: Path) -> Path:
+    """A tiny dummy LAS file: the reader only checks that it exists."""
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_text("~Version\n VERS. 2.0 :\n~Well\n WELL. DUMMY :\n~A DEPT\n1000 \n")
+    return path
+
+
+@pytest.fixture
+def proj(tmp_path) -> Path:
+    """Path of a (not yet written) project file with its LAS files in place."""
+    _las(tmp_path / "wells" / "A-1.las")
+    _las(tmp_path / "wells" / "B-2.las")
+    return tmp_path / "project.toml"
+
+
+def metric_data() -> dict:
+    """A valid metric project as the dict tomllib would give."""
+    return {
+        "project": {"name": "Example field", "units": "metric"},
+        "log_sw": {"method": "auto", "a": 1.0, "m": 2.0, "n": 2.0, "rw": "0.045 ohm.m"},
+        "wells": [
+            {"las": "wells/A-1.las", "name": "A-1", "datum_elevation": "25 m",
+             "curves": {"porosity": "PHIE", "permeability": "PERM", "resistivity": "RT", "sw": "SW"},
+             "tops": {"Upper": ["2010 m", "2120 m"]}},
+            {"las": "wells/B-2.las"},
+        ],
+        "zones": [
+            {"name": "Upper", "top": "1980 m", "base": "2100 m", "fwl": "2060 m",
+             "hydrocarbon": "oil", "water_density": "1.08 g/cm3",
+             "hydrocarbon_density": "0.75 g/cm3", "sigma_cos_theta": "26 mN/m",
+             "function": {"family": "power_law", "swirr": 0.1, "a": 0.2, "b": 1.5,
+                          "j_min": 0.02, "j_max": 12}},
+            {"name": "Lower", "top": 2100, "base": 2250, "fwl": 2200,
+             "hydrocarbon": "gas", "water_density": "10.6 kPa/m",
+             "hydrocarbon_density": 250, "sigma_cos_theta": 50,
+             "function": {"family": "brooks_corey", "swirr": 0.15, "jd": 0.3, "lam": 1.2}},
+        ],
+    }
+
+
+def zone(data: dict, name: str = "Upper") -> dict:
+    return next(z for z in data["zones"] if z["name"] == name)
+
+
+def expect_error(data: dict, path: Path, key: str, *words: str) -> str:
+    """parse_project must raise ProjectFileError naming the file and ``key``."""
+    with pytest.raises(ProjectFileError) as info:
+        parse_project(data, path)
+    msg = str(info.value)
+    assert str(path) in msg, msg
+    assert f"key {key}" in msg, msg
+    for w in words:
+        assert w in msg, msg
+    return msg
+
+
+METRIC_TOML = """\
+[project]
+name = "Example field"
+units = "metric"
+
+[log_sw]
+method = "auto"
+a = 1.0
+m = 2.0
+n = 2.0
+rw = "0.045 ohm.m"
+
+[[wells]]
+las = "wells/A-1.las"
+name = "A-1"
+datum_elevation = "25 m"
+curves = { porosity = "PHIE", permeability = "PERM", resistivity = "RT", sw = "SW" }
+[wells.tops]
+Upper = ["2010 m", "2120 m"]
+
+[[zones]]
+name = "Upper"
+top = "1980 m"
+base = "2100 m"
+fwl = "2060 m"
+hydrocarbon = "oil"
+water_density = "1.08 g/cm3"
+hydrocarbon_density = "0.75 g/cm3"
+sigma_cos_theta = "26 mN/m"
+[zones.function]
+family = "power_law"
+swirr = 0.1
+a = 0.2
+b = 1.5
+j_min = 0.02
+j_max = 12
+"""
+
+FIELD_TOML = """\
+[project]
+units = "field"
+
+[log_sw]
+method = "archie"
+a = 0.62
+m = 2.15
+n = 2
+rw = 0.05
+
+[[wells]]
+las = "A-1.las"
+datum_elevation = -12
+[wells.tops]
+Gas = [6600, "6900 ft"]
+
+[[zones]]
+name = "Gas"
+fwl = 6760
+hydrocarbon = "gas"
+water_density = "0.433 psi/ft"
+hydrocarbon_density = 0.25
+sigma_cos_theta = "26 dyn/cm"
+[zones.function]
+family = "brooks_corey"
+swirr = 0.15
+jd = 0.3
+lam = 1.2
+
+[[zones]]
+name = "Oil"
+top = "6900 ft"
+base = 7300
+fwl = "2250 m"
+hydrocarbon = "Oil"
+water_density = 1.05
+hydrocarbon_density = "0.30 psi/ft"
+sigma_cos_theta = 30
+[zones.function]
+family = "power_law"
+swirr = 0.1
+a = 0.2
+b = 1.5
+"""
+
+
+# ----------------------------------------------------------------------------------
+# valid files
+# ----------------------------------------------------------------------------------
+def test_valid_metric_file(proj):
+    proj.write_text(METRIC_TOML)
+    p = load_project(proj)
+    assert isinstance(p, Project)
+    assert p.path == proj.resolve() and p.path.is_absolute()
+    assert p.name == "Example field"
+    assert p.unit_system == "metric"
+    assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=pytest.approx(0.045))
+
+    (w,) = p.wells
+    assert isinstance(w, WellSpec)
+    assert w.name == "A-1"
+    assert w.las == (proj.parent / "wells" / "A-1.las").resolve()
+    assert w.las.is_absolute()
+    assert w.datum_elevation == pytest.approx(25.0)
+    assert w.curves == {"porosity": "PHIE", "permeability": "PERM", "resistivity": "RT", "sw": "SW"}
+    assert w.tops == {"Upper": (pytest.approx(2010.0), pytest.approx(2120.0))}
+
+    (z,) = p.zones
+    assert isinstance(z, ZoneSpec)
+    assert z.name == "Upper"
+    assert (z.top, z.base, z.fwl) == (pytest.approx(1980.0), pytest.approx(2100.0),
+                                      pytest.approx(2060.0))
+    assert z.hydrocarbon == "oil"
+    assert z.water_density == pytest.approx(1.08 * G_CM3)          # 1 g/cm3 = 1000 kg/m3
+    assert z.hydrocarbon_density == pytest.approx(0.75 * G_CM3)
+    assert z.sigma_cos_theta == pytest.approx(26 * DYN_CM)          # 26 mN/m = 0.026 N/m
+    assert isinstance(z.function, FunctionSpec)
+    assert z.function.family == "power_law"
+    assert z.function.params == {"swirr": 0.1, "a": 0.2, "b": 1.5}
+    assert z.function.j_range == (0.02, 12.0)
+
+
+def test_valid_metric_dict_bare_numbers_and_gradient(proj):
+    p = parse_project(metric_data(), proj)
+    lower = p.zones[1]
+    # bare numbers are metric: m, kg/m3, mN/m
+    assert (lower.top, lower.base, lower.fwl) == (2100.0, 2250.0, 2200.0)
+    assert lower.hydrocarbon_density == pytest.approx(250.0)
+    assert lower.sigma_cos_theta == pytest.approx(50 * DYN_CM)
+    # a pressure gradient is a density: rho = (dp/dz) / g (fluid at rest; g from CGPM/NIST)
+    assert lower.water_density == pytest.approx(10.6e3 / G)
+    assert lower.function.j_range is None
+    # the second well has defaults
+    b2 = p.wells[1]
+    assert b2.name is None and b2.datum_elevation is None
+    assert b2.curves == {} and b2.tops == {}
+
+
+def test_valid_field_file(tmp_path):
+    _las(tmp_path / "A-1.las")
+    path = tmp_path / "north_field.toml"
+    path.write_text(FIELD_TOML)
+    p = load_project(path)
+    assert p.name == "north_field"               # default: file stem
+    assert p.unit_system == "field"
+    assert p.log_sw.method == "archie"
+    assert (p.log_sw.a, p.log_sw.m, p.log_sw.n) == (0.62, 2.15, 2.0)
+    assert p.log_sw.rw == pytest.approx(0.05)    # ohm.m in both systems
+
+    (w,) = p.wells
+    assert w.name is None
+    assert w.datum_elevation == pytest.approx(-12 * FT)         # may be negative
+    assert w.tops["Gas"] == (pytest.approx(6600 * FT), pytest.approx(6900 * FT))
+
+    gas, oil = p.zones
+    assert gas.top is None and gas.base is None                 # tops come from the well
+    assert gas.fwl == pytest.approx(6760 * FT)
+    # 0.433 psi/ft -> kg/m3 = psi/ft / g. The trade rule "0.433 psi/ft is fresh water"
+    # (common practice) gives about 998.8 kg/m3 with these exact factors.
+    expected_rho_w = 0.433 * PSI / FT / G
+    assert gas.water_density == pytest.approx(expected_rho_w, rel=1e-12)
+    assert gas.water_density == pytest.approx(998.78, abs=0.01)
+    assert gas.hydrocarbon_density == pytest.approx(0.25 * G_CM3)   # bare number: g/cm3
+    assert gas.sigma_cos_theta == pytest.approx(0.026)              # 26 dyn/cm = 0.026 N/m
+    assert gas.function.family == "brooks_corey"
+    assert gas.function.params == {"swirr": 0.15, "jd": 0.3, "lam": 1.2}
+
+    assert oil.top == pytest.approx(6900 * FT) and oil.base == pytest.approx(7300 * FT)
+    assert oil.fwl == pytest.approx(2250.0)                     # explicit unit wins
+    assert oil.hydrocarbon == "oil"                             # choices case-insensitive
+    assert oil.water_density == pytest.approx(1.05 * G_CM3)
+    assert oil.hydrocarbon_density == pytest.approx(0.30 * PSI / FT / G, rel=1e-12)
+    assert oil.sigma_cos_theta == pytest.approx(30 * DYN_CM)
+
+
+def test_defaults_when_optional_tables_missing(proj):
+    data = metric_data()
+    del data["log_sw"]
+    del data["project"]["name"]
+    p = parse_project(data, proj)
+    assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=None)
+    assert p.name == "project"
+
+
+def test_input_dict_is_not_modified(proj):
+    data = metric_data()
+    before = copy.deepcopy(data)
+    parse_project(data, proj)
+    assert data == before
+
+
+def test_fwl_outside_zone_window_is_allowed(proj):
+    data = metric_data()
+    zone(data)["fwl"] = "1900 m"      # whole zone below its FWL
+    zone(data, "Lower")["fwl"] = 3000  # whole zone above its FWL
+    p = parse_project(data, proj)
+    assert p.zones[0].fwl == 1900.0 and p.zones[1].fwl == 3000.0
+
+
+def test_zones_may_touch(proj):
+    data = metric_data()
+    assert zone(data)["base"] == "2100 m" and zone(data, "Lower")["top"] == 2100
+    assert len(parse_project(data, proj).zones) == 2
+
+
+def test_las_path_relative_to_project_folder(tmp_path, monkeypatch):
+    sub = tmp_path / "proj"
+    _las(sub / "logs" / "A-1.las")
+    path = sub / "p.toml"
+    path.write_text(METRIC_TOML.replace("wells/A-1.las", "logs/A-1.las"))
+    monkeypatch.chdir(tmp_path)      # current folder differs from the project folder
+    p = load_project(Path("proj") / "p.toml")
+    assert p.wells[0].las == (sub / "logs" / "A-1.las").resolve()
+    assert p.path == path.resolve()
+
+
+# ----------------------------------------------------------------------------------
+# file-level errors
+# ----------------------------------------------------------------------------------
+def test_missing_file(tmp_path):
+    path = tmp_path / "nope.toml"
+    with pytest.raises(InputFileError) as info:
+        load_project(path)
+    assert str(path) in str(info.value)
+
+
+def test_unreadable_file_is_input_error(tmp_path):
+    folder = tmp_path / "a_folder.toml"
+    folder.mkdir()
+    with pytest.raises(InputFileError) as info:
+        load_project(folder)
+    assert str(folder) in str(info.value)
+
+
+def test_not_utf8_is_input_error(tmp_path):
+    path = tmp_path / "latin1.toml"
+    path.write_bytes(b'[project]\nname = "Caf\xe9"\nunits = "metric"\n')
+    with pytest.raises(InputFileError) as info:
+        load_project(path)
+    assert str(path) in str(info.value) and "UTF-8" in str(info.value)
+
+
+def test_toml_syntax_error_names_line_and_column(tmp_path):
+    path = tmp_path / "bad.toml"
+    path.write_text('[project]\nunits = "metric"\nname = Example field\n')
+    with pytest.raises(ProjectFileError) as info:
+        load_project(path)
+    msg = str(info.value)
+    assert str(path) in msg and "line 3, column" in msg, msg
+
+
+def test_toml_syntax_error_at_end_of_file(tmp_path):
+    path = tmp_path / "bad.toml"
+    path.write_text('[project]\nunits = "metric"\nname = ')
+    with pytest.raises(ProjectFileError) as info:
+        load_project(path)
+    assert str(path) in str(info.value) and "line 3" in str(info.value)
+
+
+# ----------------------------------------------------------------------------------
+# unknown keys (typos)
+# ----------------------------------------------------------------------------------
+def _set(data, where, key, value):
+    where(data)[key] = value
+
+
+@pytest.mark.parametrize("where, typo, key, allowed_word", [
+    (lambda d: d, "zone", "zone", "zones"),
+    (lambda d: d["project"], "unit", "project.unit", "units"),
+    (lambda d: d["log_sw"], "Rw", "log_sw.Rw", "rw"),
+    (lambda d: d["wells"][0], "datum", "wells[A-1].datum", "datum_elevation"),
+    (lambda d: d["wells"][1], "nam", "wells[wells/B-2.las].nam", "name"),
+    (lambda d: zone(d), "fwll", "zones[Upper].fwll", "fwl"),
+    (lambda d: zone(d)["function"], "j_mx", "zones[Upper].function.j_mx", "j_max"),
+    (lambda d: zone(d)["function"], "jd", "zones[Upper].function.jd", "swirr"),
+])
+def test_unknown_key(proj, where, typo, key, allowed_word):
+    data = metric_data()
+    _set(data, where, typo, 1)
+    msg = expect_error(data, proj, key, "unknown key", allowed_word)
+    assert "allowed keys" in msg
+
+
+def test_unknown_key_suggests_close_match(proj):
+    data = metric_data()
+    zone(data)["sigma_cos_tetha"] = 26
+    expect_error(data, proj, "zones[Upper].sigma_cos_tetha", "did you mean 'sigma_cos_theta'")
+
+
+def test_unknown_curve_role(proj):
+    data = metric_data()
+    data["wells"][0]["curves"]["density"] = "RHOB"
+    expect_error(data, proj, "wells[A-1].curves.density", "unknown key",
+                 "porosity, permeability, resistivity, sw")
+
+
+# ----------------------------------------------------------------------------------
+# missing required keys
+# ----------------------------------------------------------------------------------
+@pytest.mark.parametrize("where, drop, key", [
+    (lambda d: d, "project", "project"),
+    (lambda d: d, "wells", "wells"),
+    (lambda d: d, "zones", "zones"),
+    (lambda d: d["project"], "units", "project.units"),
+    (lambda d: d["wells"][0], "las", "wells[A-1].las"),
+    (lambda d: zone(d), "name", "zones[#1].name"),
+    (lambda d: zone(d), "fwl", "zones[Upper].fwl"),
+    (lambda d: zone(d), "hydrocarbon", "zones[Upper].hydrocarbon"),
+    (lambda d: zone(d), "water_density", "zones[Upper].water_density"),
+    (lambda d: zone(d), "hydrocarbon_density", "zones[Upper].hydrocarbon_density"),
+    (lambda d: zone(d), "sigma_cos_theta", "zones[Upper].sigma_cos_theta"),
+    (lambda d: zone(d), "function", "zones[Upper].function"),
+    (lambda d: zone(d)["function"], "family", "zones[Upper].function.family"),
+])
+def test_missing_required_key(proj, where, drop, key):
+    data = metric_data()
+    del where(data)[drop]
+    expect_error(data, proj, key, "missing")
+
+
+def test_zone_top_without_base(proj):
+    data = metric_data()
+    del zone(data)["base"]
+    expect_error(data, proj, "zones[Upper].base", "missing", "both top and base")
+
+
+# ----------------------------------------------------------------------------------
+# wrong types
+# ----------------------------------------------------------------------------------
+@pytest.mark.parametrize("where, name, value, key", [
+    (lambda d: d["project"], "name", 5, "project.name"),
+    (lambda d: d["log_sw"], "a", "1.0", "log_sw.a"),
+    (lambda d: d["log_sw"], "m", True, "log_sw.m"),
+    (lambda d: d["wells"][0], "las", 3, "wells[A-1].las"),
+    (lambda d: d["wells"][0], "curves", "PHIE", "wells[A-1].curves"),
+    (lambda d: d["wells"][0]["curves"], "porosity", 3, "wells[A-1].curves.porosity"),
+    (lambda d: d["wells"][0], "tops", ["2010 m", "2120 m"], "wells[A-1].tops"),
+    (lambda d: d["wells"][0]["tops"], "Upper", "2010 m", "wells[A-1].tops.Upper"),
+    (lambda d: d["wells"][0]["tops"], "Upper", [2010], "wells[A-1].tops.Upper"),
+    (lambda d: zone(d), "fwl", True, "zones[Upper].fwl"),
+    (lambda d: zone(d), "top", [1980, 2100], "zones[Upper].top"),
+    (lambda d: zone(d), "hydrocarbon", 1, "zones[Upper].hydrocarbon"),
+    (lambda d: zone(d), "function", "power_law", "zones[Upper].function"),
+    (lambda d: zone(d)["function"], "a", "0.2", "zones[Upper].function.a"),
+    (lambda d: zone(d)["function"], "j_max", "12", "zones[Upper].function.j_max"),
+])
+def test_wrong_type(proj, where, name, value, key):
+    data = metric_data()
+    where(data)[name] = value
+    expect_error(data, proj, key, "found")
+
+
+def test_wells_must_be_array_of_tables(proj):
+    data = metric_data()
+    data["wells"] = {"las": "wells/A-1.las"}
+    expect_error(data, proj, "wells", "list of tables", "[[wells]]")
+
+
+# ----------------------------------------------------------------------------------
+# units
+# ----------------------------------------------------------------------------------
+def test_unknown_unit_system(proj):
+    data = metric_data()
+    data["project"]["units"] = "imperial"
+    expect_error(data, proj, "project.units", "'imperial'", "'metric'", "'field'")
+
+
+@pytest.mark.parametrize("where, name, value, key", [
+    (lambda d: zone(d), "fwl", "2060 furlongs", "zones[Upper].fwl"),
+    (lambda d: zone(d), "water_density", "1.08 g/m3", "zones[Upper].water_density"),
+    (lambda d: zone(d), "sigma_cos_theta", "26 psi", "zones[Upper].sigma_cos_theta"),
+    (lambda d: zone(d), "top", "about 1980 m", "zones[Upper].top"),
+    (lambda d: d["wells"][0], "datum_elevation", "25 fathoms", "wells[A-1].datum_elevation"),
+    (lambda d: d["wells"][0]["tops"], "Upper", ["2010 m", "2120 yd"], "wells[A-1].tops.Upper"),
+    (lambda d: d["log_sw"], "rw", "0.045 ohm.cm", "log_sw.rw"),
+])
+def test_bad_unit_text_is_wrapped(proj, where, name, value, key):
+    data = metric_data()
+    where(data)[name] = value
+    with pytest.raises(ProjectFileError) as info:
+        parse_project(data, proj)
+    assert not isinstance(info.value, UnitError)
+    msg = str(info.value)
+    bad = value[-1] if isinstance(value, list) else value
+    assert str(proj) in msg and f"key {key}" in msg and repr(bad) in msg, msg
+
+
+# ----------------------------------------------------------------------------------
+# values
+# ----------------------------------------------------------------------------------
+@pytest.mark.parametrize("name, value", [
+    ("water_density", 0), ("water_density", "-1 g/cm3"),
+    ("hydrocarbon_density", 0), ("hydrocarbon_density", "-0.1 g/cm3"),
+])
+def test_non_positive_density(proj, name, value):
+    data = metric_data()
+    zone(data)[name] = value
+    expect_error(data, proj, f"zones[Upper].{name}", "greater than zero")
+
+
+@pytest.mark.parametrize("value", [0, "-26 mN/m", "0 dyn/cm"])
+def test_non_positive_sigma_cos_theta(proj, value):
+    data = metric_data()
+    zone(data)["sigma_cos_theta"] = value
+    expect_error(data, proj, "zones[Upper].sigma_cos_theta", "greater than zero")
+
+
+@pytest.mark.parametrize("rho_w", ["0.70 g/cm3", "0.75 g/cm3"])
+def test_water_not_denser_than_hydrocarbon(proj, rho_w):
+    data = metric_data()
+    zone(data)["water_density"] = rho_w
+    expect_error(data, proj, "zones[Upper].water_density", rho_w, "0.75 g/cm3",
+                 "water must be denser than the hydrocarbon")
+
+
+def test_unknown_hydrocarbon(proj):
+    data = metric_data()
+    zone(data)["hydrocarbon"] = "condensate"
+    expect_error(data, proj, "zones[Upper].hydrocarbon", "'condensate'", "'oil'", "'gas'", "'air'")
+
+
+def test_duplicate_zone_names(proj):
+    data = metric_data()
+    zone(data, "Lower")["name"] = "Upper"
+    zone_list = data["zones"]
+    zone_list[1]["top"], zone_list[1]["base"] = 2300, 2400
+    expect_error(data, proj, "zones[Upper].name", "more than one zone")
+
+
+@pytest.mark.parametrize("top, base", [("2100 m", "2100 m"), ("2100 m", "1980 m")])
+def test_zone_top_not_above_base(proj, top, base):
+    data = metric_data()
+    zone(data)["top"], zone(data)["base"] = top, base
+    expect_error(data, proj, "zones[Upper].top", "not above base")
+
+
+def test_overlapping_zones(proj):
+    data = metric_data()
+    zone(data, "Lower")["top"] = 2050
+    expect_error(data, proj, "zones[Lower]", "'Lower'", "'Upper'", "overlaps")
+
+
+def test_zone_without_window_or_tops(proj):
+    data = metric_data()
+    lower = zone(data, "Lower")
+    del lower["top"], lower["base"]
+    expect_error(data, proj, "zones[Lower].top", "no well gives tops")
+
+
+def test_zone_without_window_but_with_tops_is_fine(proj):
+    data = metric_data()
+    lower = zone(data, "Lower")
+    del lower["top"], lower["base"]
+    data["wells"][1]["tops"] = {"Lower": [2150, 2300]}
+    p = parse_project(data, proj)
+    assert p.zones[1].top is None and p.wells[1].tops == {"Lower": (2150.0, 2300.0)}
+
+
+def test_tops_unknown_zone(proj):
+    data = metric_data()
+    data["wells"][0]["tops"]["Uper"] = [2200, 2300]
+    expect_error(data, proj, "wells[A-1].tops.Uper", "'Uper'", "did you mean 'Upper'")
+
+
+@pytest.mark.parametrize("pair", [["2120 m", "2010 m"], [2010, 2010]])
+def test_tops_top_not_above_base(proj, pair):
+    data = metric_data()
+    data["wells"][0]["tops"]["Upper"] = pair
+    expect_error(data, proj, "wells[A-1].tops.Upper", "not above base")
+
+
+def test_tops_overlapping_in_one_well(proj):
+    data = metric_data()
+    data["wells"][0]["tops"]["Lower"] = [2100, 2300]
+    expect_error(data, proj, "wells[A-1].tops.Lower", "'Lower'", "'Upper'", "overlaps")
+
+
+@pytest.mark.parametrize("which", ["wells", "zones"])
+def test_empty_list(proj, which):
+    data = metric_data()
+    data[which] = []
+    expect_error(data, proj, which, "empty")
+
+
+def test_las_file_missing_names_resolved_path(proj):
+    data = metric_data()
+    data["wells"][0]["las"] = "wells/../wells/C-3.las"
+    msg = expect_error(data, proj, "wells[A-1].las", "not found")
+    assert str((proj.parent / "wells" / "C-3.las").resolve()) in msg
+
+
+def test_duplicate_well_names(proj):
+    data = metric_data()
+    data["wells"][1]["name"] = "A-1"
+    expect_error(data, proj, "wells[A-1].name", "more than one well")
+
+
+# ----------------------------------------------------------------------------------
+# J-Sw function
+# ----------------------------------------------------------------------------------
+@pytest.mark.parametrize("change, key, word", [
+    ({"family": "cubic"}, "zones[Upper].function.family", "power_law"),
+    ({"swirr": 1.5}, "zones[Upper].function", "swirr"),
+    ({"b": 0.0}, "zones[Upper].function", "b"),
+    ({"j_min": 12, "j_max": 2}, "zones[Upper].function.j_min", "j_min < j_max"),
+    ({"j_min": -1}, "zones[Upper].function.j_min", "0 <= j_min"),
+])
+def test_function_errors(proj, change, key, word):
+    data = metric_data()
+    zone(data)["function"].update(change)
+    with pytest.raises(ProjectFileError) as info:
+        parse_project(data, proj)
+    msg = str(info.value)
+    assert str(proj) in msg and f"key {key}" in msg and word in msg, msg
+
+
+def test_function_missing_parameter(proj):
+    data = metric_data()
+    del zone(data)["function"]["b"]
+    expect_error(data, proj, "zones[Upper].function", "b")
+
+
+def test_function_only_one_j_bound(proj):
+    data = metric_data()
+    del zone(data)["function"]["j_max"]
+    expect_error(data, proj, "zones[Upper].function.j_max", "missing", "both j_min and j_max")
+
+
+# ----------------------------------------------------------------------------------
+# log Sw
+# ----------------------------------------------------------------------------------
+def test_log_sw_unknown_method(proj):
+    data = metric_data()
+    data["log_sw"]["method"] = "simandoux"
+    expect_error(data, proj, "log_sw.method", "'simandoux'", "'curve'", "'archie'", "'auto'")
+
+
+def test_archie_without_rw(proj):
+    data = metric_data()
+    data["log_sw"]["method"] = "archie"
+    del data["log_sw"]["rw"]
+    expect_error(data, proj, "log_sw.rw", "archie", "rw")
+
+
+def test_auto_without_rw_is_fine(proj):
+    data = metric_data()
+    del data["log_sw"]["rw"]
+    assert parse_project(data, proj).log_sw.rw is None
+
+
+@pytest.mark.parametrize("name", ["a", "m", "n"])
+@pytest.mark.parametrize("value", [0, -2.0])
+def test_archie_parameters_must_be_positive(proj, name, value):
+    data = metric_data()
+    data["log_sw"][name] = value
+    expect_error(data, proj, f"log_sw.{name}", "greater than zero")
+
+
+@pytest.mark.parametrize("value", [0, "-0.045 ohm.m"])
+def test_rw_must_be_positive(proj, value):
+    data = metric_data()
+    data["log_sw"]["rw"] = value
+    expect_error(data, proj, "log_sw.rw", "greater than zero")
