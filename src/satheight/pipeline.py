@@ -47,6 +47,11 @@ NEW_CURVES = {
 }
 
 
+#: Decimals written for each new curve in the output LAS.
+OUTPUT_DECIMALS = {"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
+                   "SHM_FLAG": 0, "ZONE_ID": 0}
+
+
 @dataclass
 class WellOutcome:
     """What happened to one well in a run."""
@@ -277,8 +282,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     files = []
     las_path = out_dir / f"{stem}.las"
     write_las(las_path, result.well, new_curves=new, parameters=run_parameters(result, project),
-              decimals={"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
-                        "SHM_FLAG": 0, "ZONE_ID": 0})
+              decimals={c.mnemonic: OUTPUT_DECIMALS[c.mnemonic] for c in new})
     files.append(las_path)
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)
