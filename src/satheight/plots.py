@@ -376,6 +376,8 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
             -0.72 / tracks[0].width,
             functions=(lambda v: fwd_si(np.asarray(v) * scale) / scale,
                        lambda v: inv_si(np.asarray(v) * scale) / scale))
+        sec.yaxis.set_ticks_position("left")  # labels outside, clear of the primary scale
+        sec.yaxis.set_label_position("left")
         sec.set_ylabel(f"{other_name} [{length_unit}]", fontsize=9, color="#555555")
         sec.tick_params(axis="y", labelsize=8, colors="#555555")
 
