@@ -469,6 +469,9 @@ def project_text() -> str:
         f"n = {ARCHIE['n']:.1f}",
         f'rw = "{ARCHIE["rw"]:g} ohm.m"              # at formation temperature (invented)',
         "",
+        "[comparison]                    # net-reservoir cutoffs for the SHM vs log Sw statistics",
+        "min_porosity = 0.10             # shale breaks (porosity 0.03-0.08) are left out",
+        "",
     ]
     for spec in WELLS:
         out += ["[[wells]]", f'las = "{spec["name"]}.las"          # relative to this file; {spec["note"]}']

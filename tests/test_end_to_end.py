@@ -230,3 +230,44 @@ def test_inspect_lists_roles(capsys):
     text = capsys.readouterr().out
     assert code == 0
     assert "porosity" in text and "permeability" in text and "PHIE" in text and "PERM" in text
+
+
+def test_constant_rock_profile_through_files(tmp_path):
+    # one rock (constant k/phi): Sw must not increase with height above the FWL and is 1 below it
+    # (common practice: a drainage capillary-pressure profile)
+    md = np.round(np.arange(1000.0, 1100.0, 0.1524), 4)
+    rows = "\n".join(f"{d:.4f} 0.2000 100.000 20.0000" for d in md)
+    las = f"""~Version
+VERS. 2.0 :
+WRAP. NO :
+~Well
+STRT.M {md[0]:.4f} :
+STOP.M {md[-1]:.4f} :
+STEP.M 0.1524 :
+NULL. -999.25 :
+WELL. FLAT-1 :
+EKB .M 25.0 :
+~Curve
+DEPT.M : depth
+PHIE.V/V : porosity
+PERM.MD : permeability
+RT.OHMM : deep resistivity
+~A
+{rows}
+"""
+    (tmp_path / "flat.las").write_text(las)
+    (tmp_path / "p.toml").write_text(PROJECT.format(las="flat.las", fwl="1060 m")
+                                     .replace('top = "970 m"', 'top = "975 m"')
+                                     .replace('base = "980 m"', 'base = "1075 m"'))
+    code = main(["run", str(tmp_path / "p.toml"), "--out", str(tmp_path / "o"), "--no-plots"])
+    assert code == 0
+    out = lasio.read(tmp_path / "o" / "FLAT-1.las")
+    h, sw = out["HAFWL"], out["SW_SHM"]
+    m = np.isfinite(sw)
+    assert m.sum() > 500
+    order = np.argsort(h[m])
+    assert np.all(np.diff(sw[m][order]) <= 1e-12)
+    assert np.all(sw[m & (h <= 0)] == 1.0)
+    assert sw[m & (h > 50)].max() < 0.5
+    # TVDSS = MD - KB elevation for a vertical well
+    np.testing.assert_allclose(out["TVDSS"], out.index - 25.0, atol=1e-4)

@@ -609,3 +609,35 @@ def test_describe_las(tmp_path):
     assert info["header"]["EKB"]["value"] == 30.0
     assert info["header"]["WELL"]["value"] == "TEST-1"
     assert isinstance(info["warnings"], list)
+
+
+def test_curve_value_field_kept_on_write(tmp_path):
+    # LAS 2.0 (CWLS): the value field of a ~Curve line may hold an API log code; it must survive export
+    text = """~Version
+VERS. 2.0 :
+WRAP. NO :
+~Well
+STRT.M 100.0 :
+STOP.M 100.2 :
+STEP.M 0.1 :
+NULL. -999.25 :
+WELL. CODE-1 :
+~Curve
+DEPT.M : depth
+GR  .GAPI 07 310 01 00 : gamma ray
+~A
+100.0 50
+100.1 55
+100.2 60
+"""
+    import lasio
+
+    from satheight.io.las import read_las, write_las
+
+    src = tmp_path / "in.las"
+    src.write_text(text)
+    w = read_las(src)
+    assert w.curve("GR").value == "07 310 01 00"
+    write_las(tmp_path / "out.las", w)
+    back = lasio.read(tmp_path / "out.las")
+    assert back.curves["GR"].value == "07 310 01 00"

@@ -648,3 +648,55 @@ def test_rw_must_be_positive(proj, value):
     data = metric_data()
     data["log_sw"]["rw"] = value
     expect_error(data, proj, "log_sw.rw", "greater than zero")
+
+
+# --- [comparison] cutoffs -----------------------------------------------------------
+
+def _with_comparison(tmp_path, table):
+    las = tmp_path / "w.las"
+    las.write_text("dummy")
+    text = f'''[project]
+units = "metric"
+[comparison]
+{table}
+[[wells]]
+las = "w.las"
+[[zones]]
+name = "Z"
+top = 1000
+base = 1100
+fwl = 1090
+hydrocarbon = "oil"
+water_density = "1.05 g/cm3"
+hydrocarbon_density = "0.8 g/cm3"
+sigma_cos_theta = "26 mN/m"
+[zones.function]
+family = "power_law"
+swirr = 0.1
+a = 0.2
+b = 1.5
+'''
+    p = tmp_path / "c.toml"
+    p.write_text(text)
+    return p
+
+
+def test_comparison_cutoffs_parsed(tmp_path):
+    from satheight.project import load_project
+
+    p = load_project(_with_comparison(tmp_path, 'min_porosity = "8 %"\nmin_permeability = 0.5'))
+    assert p.comparison.min_porosity == pytest.approx(0.08)
+    # bare permeability is mD in both unit systems; 1 mD = 9.869233e-16 m^2 (NIST SP 811)
+    assert p.comparison.min_permeability == pytest.approx(0.5 * 9.869233e-16)
+
+
+@pytest.mark.parametrize("table,key", [("min_porosity = 1.5", "comparison.min_porosity"),
+                                       ('min_permeability = "-1 mD"', "comparison.min_permeability"),
+                                       ("max_gr = 80", "comparison")])
+def test_comparison_errors_name_key(tmp_path, table, key):
+    from satheight.errors import ProjectFileError
+    from satheight.project import load_project
+
+    with pytest.raises(ProjectFileError) as e:
+        load_project(_with_comparison(tmp_path, table))
+    assert "c.toml" in str(e.value) and key in str(e.value)

@@ -8,6 +8,7 @@ internal error (please report it with ``--verbose`` output).
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 import traceback
 from pathlib import Path
@@ -173,6 +174,12 @@ def main(argv=None) -> int:
     except KeyboardInterrupt:
         print("satheight: interrupted", file=sys.stderr)
         return 130
+    except BrokenPipeError:  # output piped into e.g. `head`: not an error of ours
+        try:
+            sys.stdout = open(os.devnull, "w")
+        except OSError:
+            pass
+        return EXIT_OK
     except Exception as exc:  # noqa: BLE001 - last line of defence for the command line
         if args.verbose:
             traceback.print_exc()

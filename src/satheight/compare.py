@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .constants import MILLIDARCY
 from .results import FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_NO_ZONE, WellResult
 
 
@@ -62,14 +63,18 @@ def difference_stats(sw_model, sw_log):
             "samples_compared": int(d.size)}
 
 
-def _block(result: WellResult, mask: np.ndarray, dh: np.ndarray, length_factor: float) -> dict:
+def _block(result: WellResult, zone_mask: np.ndarray, net: np.ndarray, dh: np.ndarray,
+           length_factor: float) -> dict:
     shm = result.shm
     flagged_bits = shm.flag & ~FLAG_NO_ZONE
-    out = {"samples": int(mask.sum()),
-           "samples_flagged": int((mask & (flagged_bits != 0)).sum()),
+    mask = zone_mask & net
+    out = {"samples": int(zone_mask.sum()),
+           "samples_net": int(mask.sum()),
+           "samples_flagged": int((zone_mask & (flagged_bits != 0)).sum()),
            "samples_bad_porosity_or_permeability": int(
-               (mask & ((shm.flag & (FLAG_BAD_POROSITY | FLAG_BAD_PERMEABILITY)) != 0)).sum()),
-           "vertical_thickness": float(dh[mask].sum()) / length_factor}
+               (zone_mask & ((shm.flag & (FLAG_BAD_POROSITY | FLAG_BAD_PERMEABILITY)) != 0)).sum()),
+           "vertical_thickness": float(dh[zone_mask].sum()) / length_factor,
+           "net_vertical_thickness": float(dh[mask].sum()) / length_factor}
     sw_shm = np.where(mask, shm.sw, np.nan)
     if result.sw_log is not None:
         sw_log = np.where(mask, result.sw_log, np.nan)
@@ -86,7 +91,14 @@ def _block(result: WellResult, mask: np.ndarray, dh: np.ndarray, length_factor: 
     return out
 
 
-def summarise(result: WellResult, length_unit: str = "m", length_factor: float = 1.0) -> dict:
+def net_mask(result: WellResult, min_porosity: float = 0.0, min_permeability: float = 0.0):
+    """Samples that count as reservoir: porosity >= cutoff [fraction] and k >= cutoff [m^2]."""
+    with np.errstate(invalid="ignore"):
+        return (result.phi >= min_porosity) & (result.k >= min_permeability)
+
+
+def summarise(result: WellResult, length_unit: str = "m", length_factor: float = 1.0,
+              min_porosity: float = 0.0, min_permeability: float = 0.0) -> dict:
     """Per-well and per-zone comparison of SHM Sw with log Sw, JSON-ready.
 
     Parameters
@@ -96,20 +108,25 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
         Unit name reported for thicknesses (``"m"`` or ``"ft"``).
     length_factor : float
         Metres per ``length_unit`` (1 for m, 0.3048 for ft).
+    min_porosity, min_permeability : float
+        Net-reservoir cutoffs [fraction], [m^2]: only samples at or above both enter
+        the difference statistics and the hydrocarbon pore thickness.
 
     Returns
     -------
     dict
         ``{"well", "sw_log_source", "units", "whole_well": {...}, "zones": {name: {...}}}``
-        where each block holds samples, samples_flagged, samples_compared,
+        where each block holds samples (in the zone), samples_net (passing the cutoffs),
+        samples_flagged, samples_compared,
         mean_difference and rms_difference (SHM minus log, fraction), hcpt_shm and
         hcpt_log (hydrocarbon pore thickness in ``length_unit``) and vertical_thickness.
     """
     dh = sample_thickness(result.tvdss)
+    net = net_mask(result, min_porosity, min_permeability)
     zones = {}
     for i, zn in enumerate(result.zones):
         m = result.shm.zone == i
-        block = _block(result, m, dh, length_factor)
+        block = _block(result, m, net, dh, length_factor)
         block.update({"top_tvdss": zn.top / length_factor, "base_tvdss": zn.base / length_factor,
                       "fwl_tvdss": zn.fwl / length_factor, "hydrocarbon": zn.hydrocarbon,
                       "function": zn.function.name, "parameters": dict(zn.function.params_)})
@@ -120,5 +137,7 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
             "sw_log_source": result.sw_log_source,
             "units": {"thickness": length_unit, "depth": length_unit, "saturation": "fraction"},
             "datum_elevation": result.datum_elevation / length_factor,
-            "whole_well": _block(result, all_zones, dh, length_factor),
+            "cutoffs": {"min_porosity": min_porosity,
+                        "min_permeability_mD": min_permeability / MILLIDARCY},
+            "whole_well": _block(result, all_zones, net, dh, length_factor),
             "zones": zones}

@@ -288,7 +288,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     write_csv(csv_path, result.well, new)
     files.append(csv_path)
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
-    result.summary = summarise(result, length_unit, U.factor(length_unit, "length"))
+    result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
+                               project.comparison.min_porosity, project.comparison.min_permeability)
     json_path = out_dir / f"{stem}_summary.json"
     atomic_write_text(json_path, json.dumps(result.summary, indent=2, allow_nan=False) + "\n")
     files.append(json_path)

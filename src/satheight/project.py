@@ -22,6 +22,10 @@ File format
     n = 2.0                         # saturation exponent [-] > 0
     rw = "0.045 ohm.m"              # formation-water resistivity at formation temperature, > 0. Required when method = "archie"; optional for auto
 
+    [comparison]                    # optional: net-reservoir cutoffs for SHM vs log Sw statistics and HCPT
+    min_porosity = 0.08             # fraction (or "8 %"); default 0
+    min_permeability = "0.1 mD"     # bare number in mD; default 0
+
     [[wells]]
     las = "wells/A-1.las"           # required, relative to the project file; must exist (error names the resolved path)
     name = "A-1"                    # optional, default: the LAS file's well name
@@ -89,14 +93,16 @@ from typing import Any, Iterable
 
 from .errors import InputFileError, ModelError, ProjectFileError, UnitError
 from .models import FAMILIES, build_function, get_family
-from .project_types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
+from .project_types import (ComparisonSpec, FunctionSpec, LogSwSpec, Project, WellSpec,
+                            ZoneSpec)
 from .units import UNIT_SYSTEMS, from_si, parse_quantity
 
 __all__ = ["load_project", "parse_project"]
 
-_TOP_KEYS = ("project", "log_sw", "wells", "zones")
+_TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones")
 _PROJECT_KEYS = ("name", "units")
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw")
+_COMPARISON_KEYS = ("min_porosity", "min_permeability")
 _LOG_SW_METHODS = ("curve", "archie", "auto")
 _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops")
 _CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
@@ -331,6 +337,7 @@ class _Reader:
                                  hint=f"add a {form} section (see the file format in the README)")
         name = self.read_project(data["project"])
         log_sw = self.read_log_sw(data.get("log_sw", {}))
+        comparison = self.read_comparison(data.get("comparison", {}))
         zone_raw = self.array_of_tables(data["zones"], "zones")
         wells_raw = self.array_of_tables(data["wells"], "wells")
 
@@ -360,7 +367,7 @@ class _Reader:
 
         self.check_zone_windows(zones, wells)
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
-                       wells=wells, zones=zones, log_sw=log_sw)
+                       wells=wells, zones=zones, log_sw=log_sw, comparison=comparison)
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
@@ -398,6 +405,24 @@ class _Reader:
                              hint='add rw = "0.045 ohm.m", the water resistivity at formation '
                                   'temperature, or use method = "curve"')
         return LogSwSpec(method=method, a=a, m=m, n=n, rw=rw)
+
+    def read_comparison(self, raw: Any) -> ComparisonSpec:
+        t = self.table(raw, "comparison", _COMPARISON_KEYS)
+        phi = 0.0
+        if "min_porosity" in t:
+            phi = self.quantity(t["min_porosity"], "comparison.min_porosity", "fraction")
+            if not 0.0 <= phi < 1.0:
+                raise self.error("comparison.min_porosity",
+                                 f"expected a porosity cutoff in [0, 1), found {t['min_porosity']!r}",
+                                 hint='write a fraction such as 0.08 or text such as "8 %"')
+        k = 0.0
+        if "min_permeability" in t:
+            k = self.quantity(t["min_permeability"], "comparison.min_permeability", "permeability")
+            if k < 0.0:
+                raise self.error("comparison.min_permeability",
+                                 f"expected a permeability cutoff >= 0, found {t['min_permeability']!r}",
+                                 hint='write a value such as "1 mD"')
+        return ComparisonSpec(min_porosity=phi, min_permeability=k)
 
     def read_zone(self, raw: dict, index: int) -> ZoneSpec:
         key = f"zones[{_label(raw, ('name',), index)}]"

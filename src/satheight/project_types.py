@@ -109,6 +109,23 @@ class LogSwSpec:
 
 
 @dataclass(frozen=True)
+class ComparisonSpec:
+    """Which samples count as reservoir when SHM Sw is compared with log Sw.
+
+    Attributes
+    ----------
+    min_porosity : float
+        Samples with porosity below this [fraction] are left out of the
+        difference statistics and hydrocarbon pore thickness (net reservoir cutoff).
+    min_permeability : float
+        Samples with permeability below this [m^2] are left out likewise.
+    """
+
+    min_porosity: float = 0.0
+    min_permeability: float = 0.0
+
+
+@dataclass(frozen=True)
 class Project:
     """A whole project file, validated.
 
@@ -122,6 +139,7 @@ class Project:
     wells : list[WellSpec]
     zones : list[ZoneSpec]
     log_sw : LogSwSpec
+    comparison : ComparisonSpec
     """
 
     path: Path
@@ -130,3 +148,4 @@ class Project:
     wells: list[WellSpec]
     zones: list[ZoneSpec]
     log_sw: LogSwSpec
+    comparison: ComparisonSpec = field(default_factory=lambda: ComparisonSpec())

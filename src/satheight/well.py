@@ -29,12 +29,15 @@ class Curve:
         Curve description from the file.
     data : numpy.ndarray
         float64 values in the file's unit, nulls replaced by NaN.
+    value : str
+        The value field of the curve's header line (often an API log code), may be empty.
     """
 
     mnemonic: str
     unit: str
     description: str
     data: np.ndarray
+    value: str = ""
 
 
 @dataclass

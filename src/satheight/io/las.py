@@ -85,7 +85,7 @@ class _RawLas:
     version: str
     well_items: list[HeaderItem]
     param_items: list[HeaderItem]
-    curve_defs: list[tuple[str, str, str]]   # (unique mnemonic, unit, description)
+    curve_defs: list[tuple[str, str, str, str]]   # (unique mnemonic, unit, description, value)
     columns: list[np.ndarray]                # one per curve, any dtype, same length
     other: str
     messages: list[str] = field(default_factory=list)
@@ -181,7 +181,8 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
         if it.mnemonic.upper() == "VERS":
             v = _plain(it.value)
             version = str(float(v)) if isinstance(v, (int, float)) else str(v)
-    curve_defs = [(c.mnemonic, str(c.unit or ""), str(c.descr or "")) for c in las.curves]
+    curve_defs = [(c.mnemonic, str(c.unit or ""), str(c.descr or ""),
+                   "" if c.value is None else str(c.value)) for c in las.curves]
     columns = [np.asarray(c.data) for c in las.curves]
     other = las.other if isinstance(las.other, str) else ""
     keep = [m for m in messages if not m.startswith("Could not convert curve")]
@@ -332,8 +333,8 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
                         f"{depth_unit})")
     md = np.asarray(units.to_si(columns[0], depth_unit, "length"), dtype=np.float64)
 
-    curves = {name: Curve(name, unit, descr, col)
-              for (name, unit, descr), col in zip(raw.curve_defs, columns)}
+    curves = {name: Curve(name, unit, descr, col, value)
+              for (name, unit, descr, value), col in zip(raw.curve_defs, columns)}
     well_item = _header_lookup(raw.well_items, "WELL")
     name = str(well_item.value).strip() if well_item is not None else ""
     return Well(
@@ -606,7 +607,7 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
                                        f"{step:.{dec[0]}f}", null_text)),
              "~Curve",
              *_header_lines([(_file_mnemonic(c.mnemonic, keys) if i < len(in_curves)
-                              else c.mnemonic, c.unit, "", c.description)
+                              else c.mnemonic, c.unit, c.value, c.description)
                              for i, c in enumerate(all_curves)])]
     params = [(_file_mnemonic(k, list(well.parameters)), it.unit, _header_value(it.value),
                it.description) for k, it in well.parameters.items()]
