@@ -47,6 +47,10 @@ NEW_CURVES = {
 }
 
 
+#: Caution carried by every summary file.
+CAUTION = ("Results are estimates for review by a qualified professional; local regulations "
+           "and reserves-reporting rules govern their use.")
+
 #: Decimals written for each new curve in the output LAS.
 OUTPUT_DECIMALS = {"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
                    "SHM_FLAG": 0, "ZONE_ID": 0}
@@ -291,7 +295,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
     json_path = out_dir / f"{stem}_summary.json"
-    atomic_write_text(json_path, json.dumps(result.summary, indent=2, allow_nan=False) + "\n")
+    atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
+                                             "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
     if plot:
         from .plots import track_plot
@@ -300,10 +305,6 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
                             units=project.unit_system)
     return files
-
-
-CAUTION = ("Results are estimates for review by a qualified professional; local regulations "
-           "and reserves-reporting rules govern their use.")
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
