@@ -44,12 +44,15 @@ NEW_CURVES = {
     "SW_LOG": "Water saturation from resistivity (Archie)",
     "SHM_FLAG": "Quality flag bits: " + "; ".join(f"{b}={t}" for b, t in FLAG_MEANINGS.items()),
     "ZONE_ID": "Zone number (1-based order of the project file), 0 outside zones",
+    "TVD": "True vertical depth below the log depth reference, positive down",
+    "NORTH": "Offset north of the well head (survey azimuth reference)",
+    "EAST": "Offset east of the well head (survey azimuth reference)",
 }
 
 
 #: Decimals written for each new curve in the output LAS.
 OUTPUT_DECIMALS = {"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
-                   "SHM_FLAG": 0, "ZONE_ID": 0}
+                   "SHM_FLAG": 0, "ZONE_ID": 0, "TVD": 4, "NORTH": 4, "EAST": 4}
 
 
 @dataclass
@@ -114,11 +117,21 @@ def datum_elevation(well: Well, spec: WellSpec) -> float:
         hint='add datum_elevation = "<KB elevation> m" to this well in the project file')
 
 
-def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray) -> list[ZoneModel]:
-    """Engine zones for one well: the well's own tops (MD, turned into TVDSS) or the field-wide window."""
+def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray,
+                   md_to_tvdss=None) -> list[ZoneModel]:
+    """Engine zones for one well: the well's own tops (MD, turned into TVDSS; or TVDSS
+    from the tops file) or the field-wide window.
+
+    ``md_to_tvdss``, if given, maps MD [m] to TVDSS [m] (positive down) along the
+    well's trajectory and is used for MD tops instead of interpolating between samples.
+    """
     out = []
     for zs in project.zones:
-        if zs.name in spec.tops:
+        if zs.name in getattr(spec, "tops_tvdss", {}):
+            top, base = spec.tops_tvdss[zs.name]
+        elif zs.name in spec.tops and md_to_tvdss is not None:
+            top, base = (float(v) for v in md_to_tvdss(np.asarray(spec.tops[zs.name], dtype=float)))
+        elif zs.name in spec.tops:
             top_md, base_md = spec.tops[zs.name]
             top, base = np.interp([top_md, base_md], md, tvdss, left=np.nan, right=np.nan)
             # tops outside the logged interval: extend linearly with the end offsets
@@ -182,16 +195,61 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
         rt, w3 = role_values(well, "resistivity", roles["resistivity"])
         msgs += w3
     elev = datum_elevation(well, spec)
-    tvdss = well.md - elev  # vertical well
-    zones = zones_for_well(project, spec, well.md, tvdss)
+    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
+    msgs += w5
+    tvdss = tvd - elev  # TVDSS = TVD - datum elevation, positive down
+    clash = sorted({"TVD", "NORTH", "EAST"} & {k.upper() for k in well.curves})
+    if clash:
+        msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
+                    "the computed ones are not written (TVDSS is)")
+    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
     sw_log, source, w4 = log_saturation(project, well, roles, phi)
     msgs += w4
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
-                        sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev)
+                        sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
+                        tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None))
     return result, msgs
+
+
+def well_path(spec: WellSpec, well: Well, elev: float):
+    """Trajectory of one well at its log samples.
+
+    Returns
+    -------
+    tvd, north, east : numpy.ndarray
+        TVD below the log depth reference [m] (positive down) and offsets from the
+        well head [m] at every sample: minimum curvature through the survey if the
+        well has one, else a vertical well (TVD = MD, no offset).
+    md_to_tvdss : callable or None
+        MD [m] -> TVDSS [m] along the trajectory (None for a vertical well).
+    warnings : list[str]
+        Survey notes (added tie-in station, samples below the last station).
+    """
+    from .trajectory import vertical
+
+    survey_path = getattr(spec, "survey", None)
+    if survey_path is None:
+        tvd, north, east = vertical(well.md)
+        return tvd, north, east, None, []
+    from .io.survey import read_survey, survey_trajectory
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        survey = read_survey(survey_path, getattr(spec, "survey_format", None))
+        md0 = float(np.nanmin(well.md)) if well.md.size else None
+        traj = survey_trajectory(survey, md0, str(well.source))
+        tvd, north, east = traj.at(well.md)
+    msgs = list(survey.warnings) + [str(c.message) for c in caught]
+
+    def md_to_tvdss(md):
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            return traj.at(md)[0] - elev
+
+    return tvd, north, east, md_to_tvdss, msgs
 
 
 # --------------------------------------------------------------------------------------
@@ -210,6 +268,14 @@ def output_curves(result: WellResult, project: Project) -> list[Curve]:
     dz = u["depth"]
     curves = [
         Curve("TVDSS", dz, NEW_CURVES["TVDSS"], U.from_si(result.tvdss, dz, "length")),
+    ]
+    if result.tvd is not None:
+        # an input curve of the same name (a TVD curve in the LAS file) is kept and ours left out
+        have = {k.upper() for k in result.well.curves}
+        curves += [Curve(mn, dz, NEW_CURVES[mn], U.from_si(v, dz, "length"))
+                   for mn, v in (("TVD", result.tvd), ("NORTH", result.north), ("EAST", result.east))
+                   if mn not in have]
+    curves += [
         Curve("HAFWL", dz, NEW_CURVES["HAFWL"], U.from_si(shm.hafwl, dz, "length")),
         Curve("PC_RES", u["pressure"], NEW_CURVES["PC_RES"], U.from_si(shm.pc, u["pressure"], "pressure")),
         Curve("J", "", NEW_CURVES["J"], shm.j.copy()),
@@ -230,6 +296,9 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
              HeaderItem("SHM_DATUM", u["depth"], round(U.from_si(result.datum_elevation, u["depth"], "length"), 4),
                         "Depth reference elevation above TVDSS datum"),
              HeaderItem("SHM_SWSRC", "", result.sw_log_source, "Source of log Sw")]
+    if getattr(result, "survey", None) is not None:
+        items.append(HeaderItem("SHM_SURVEY", "", Path(result.survey).name,
+                                "Deviation survey (minimum curvature)"))
     if result.sw_log_source == "archie":
         c = project.log_sw
         items += [HeaderItem("ARCHIE_A", "", c.a, "Archie tortuosity factor a"),
