@@ -100,6 +100,8 @@ def _print_run(report, out) -> int:
                 print(f"    note: {m}", file=out)
         else:
             print(f"  {w.name}: FAILED: {w.error}", file=out)
+    for note in getattr(report, "notes", []):
+        print(f"note: {note}", file=out)
     print(f"run summary: {report.summary_file}", file=out)
     print("Caution: results are estimates for review by a qualified professional; local "
           "regulations and reserves-reporting rules govern their use.", file=out)

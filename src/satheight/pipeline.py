@@ -75,6 +75,7 @@ class RunReport:
     out_dir: Path
     wells: list[WellOutcome]
     summary_file: Path | None = None
+    notes: list[str] = field(default_factory=list)
 
     @property
     def failed(self) -> list[WellOutcome]:
@@ -183,6 +184,8 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     well = read_las(spec.las)
     if spec.name:
         well.name = spec.name
+    else:
+        spec = pending_tops(project, spec, well.name)
     msgs = list(well.warnings)
     roles = detect_roles(well, spec.curves)
     phi_mn = require_role(well, "porosity", roles.get("porosity"))
@@ -212,6 +215,30 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
                         tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None))
     return result, msgs
+
+
+def pending_tops(project: Project, spec: WellSpec, well_name: str) -> WellSpec:
+    """``spec`` with the tops-file rows of ``well_name`` (the LAS file's well name) added.
+
+    Raises
+    ------
+    ProjectFileError
+        If a zone of those rows is also given under ``[wells.tops]`` of this well.
+    """
+    rows = getattr(project, "tops_pending", {}).get(well_name)
+    if not rows:
+        return spec
+    md_tops, tv_tops = dict(spec.tops), dict(spec.tops_tvdss)
+    for r in rows:
+        if r.zone in md_tops or r.zone in tv_tops:
+            raise ProjectFileError(f"zone {r.zone!r} of well {well_name!r} is given both under "
+                                   f"[wells.tops] and in the tops file ({project.tops_file}, line {r.line})",
+                                   where=f"{project.path}, key wells[{spec.las.name}].tops.{r.zone}",
+                                   hint="give each well's zone window in one place only")
+        (md_tops if r.depth_type == "MD" else tv_tops)[r.zone] = (r.top, r.base)
+    import dataclasses
+
+    return dataclasses.replace(spec, tops=md_tops, tops_tvdss=tv_tops)
 
 
 def well_path(spec: WellSpec, well: Well, elev: float):
@@ -408,6 +435,12 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
             outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
+    notes = []
+    unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
+    if unused:
+        notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
+                     + " match no well of the project (by name, LAS file name or LAS WELL item) "
+                       "and were not used")
     summary = {
         "program": f"satheight {__version__}",
         "project": str(project.path),
@@ -417,6 +450,9 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                    "summary": o.result.summary if o.result is not None else None}
                   for o in outcomes],
     }
+    if notes:
+        summary["notes"] = notes
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
-    return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path)
+    return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
+                     notes=notes)

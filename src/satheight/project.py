@@ -373,13 +373,14 @@ class _Reader:
             wells.append(w)
 
         tops_file = None
+        pending: dict = {}
         if isinstance(data["project"], dict) and "tops_file" in data["project"]:
             tops_file = self.existing_file(data["project"]["tops_file"], "project.tops_file", "tops")
-            wells = self.merge_tops_file(tops_file, wells, zone_names)
-        self.check_zone_windows(zones, wells)
+            wells, pending = self.merge_tops_file(tops_file, wells, zone_names)
+        self.check_zone_windows(zones, wells, pending)
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
                        wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
-                       tops_file=tops_file)
+                       tops_file=tops_file, tops_pending=pending)
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
@@ -591,8 +592,13 @@ class _Reader:
         return p
 
     def merge_tops_file(self, tops_file: Path, wells: list[WellSpec],
-                        zone_names: list[str]) -> list[WellSpec]:
-        """Add the tops file's rows to the wells; a zone given twice for a well is an error."""
+                        zone_names: list[str]):
+        """Add the tops file's rows to the wells; a zone given twice for a well is an error.
+
+        Rows are matched to a well by its ``name`` or its LAS file stem. Rows of other
+        well names are returned as pending (well name -> rows): they may match a well
+        whose name comes from its LAS file's WELL item, known only when it is read.
+        """
         from .io.tops import read_tops
 
         try:
@@ -605,9 +611,11 @@ class _Reader:
                 by_name.setdefault(label, i)
         md_tops = [dict(w.tops) for w in wells]
         tv_tops = [dict(w.tops_tvdss) for w in wells]
+        pending: dict[str, list] = {}
+        unnamed = any(w.name is None for w in wells)
         for r in rows:
             where = f"{tops_file}, line {r.line}"
-            if r.well not in by_name:
+            if r.well not in by_name and not unnamed:
                 close = difflib.get_close_matches(r.well, list(by_name), n=1)
                 raise self.error("project.tops_file", f"{where}: well {r.well!r} matches no [[wells]] "
                                  "entry (by name or LAS file name)",
@@ -618,6 +626,9 @@ class _Reader:
                 raise self.error("project.tops_file", f"{where}: zone {r.zone!r} is not a [[zones]] name",
                                  hint=(f"did you mean {close[0]!r}? " if close else "")
                                  + "known zones: " + ", ".join(zone_names))
+            if r.well not in by_name:
+                pending.setdefault(r.well, []).append(r)
+                continue
             i = by_name[r.well]
             if r.zone in md_tops[i] or r.zone in tv_tops[i]:
                 raise self.error(f"wells[{wells[i].name or wells[i].las.stem}].tops.{r.zone}",
@@ -631,7 +642,7 @@ class _Reader:
             self.check_overlaps(mt, lambda z, lb=label: f"wells[{lb}].tops.{z}", "measured depth")
             self.check_overlaps(tt, lambda z, lb=label: f"wells[{lb}].tops.{z} (tops file)", "TVDSS")
             out.append(_dc.replace(w, tops=mt, tops_tvdss=tt))
-        return out
+        return out, pending
 
     # --- cross checks ------------------------------------------------------------
     def check_overlaps(self, windows: dict[str, tuple[float, float]], key_of, depth_name: str):
@@ -647,10 +658,12 @@ class _Reader:
                                  hint="zone windows may touch but not overlap; "
                                       "move one top or base")
 
-    def check_zone_windows(self, zones: list[ZoneSpec], wells: list[WellSpec]) -> None:
+    def check_zone_windows(self, zones: list[ZoneSpec], wells: list[WellSpec],
+                           pending: dict | None = None) -> None:
         windows = {z.name: (z.top, z.base) for z in zones if z.top is not None}
         self.check_overlaps(windows, lambda z: f"zones[{z}]", "TVDSS")
         with_tops = {name for w in wells for name in list(w.tops) + list(w.tops_tvdss)}
+        with_tops |= {r.zone for rows in (pending or {}).values() for r in rows}
         for z in zones:
             if z.top is None and z.name not in with_tops:
                 raise self.error(f"zones[{z.name}].top",

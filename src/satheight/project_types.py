@@ -156,6 +156,10 @@ class Project:
     tops_file : pathlib.Path or None
         The formation-tops CSV named by ``[project] tops_file`` (already merged
         into the wells' ``tops`` and ``tops_tvdss``), or ``None``.
+    tops_pending : dict[str, list]
+        Tops-file rows (:class:`satheight.io.tops.TopRow`) of well names that no
+        well has by ``name`` or LAS file stem; matched to a well without an explicit
+        name by the WELL item of its LAS file when the well is read.
     """
 
     path: Path
@@ -166,3 +170,4 @@ class Project:
     log_sw: LogSwSpec
     comparison: ComparisonSpec = field(default_factory=lambda: ComparisonSpec())
     tops_file: Path | None = None
+    tops_pending: dict = field(default_factory=dict)
