@@ -200,3 +200,27 @@ def test_demo_deviated_well_matches_its_generator():
         assert zm.top == pytest.approx(zs["top"], abs=2e-3)
         assert zm.base == pytest.approx(zs["base"], abs=2e-3)
     assert np.nanmax(res.tvdss) - np.nanmin(res.tvdss) < 0.8 * (md[-1] - md[0])  # really deviated
+
+
+def test_cli_depth_axis_and_field_section(field, tmp_path, monkeypatch):
+    import json
+
+    from satheight import plots
+    from satheight.cli import main
+
+    seen = []
+    original = plots.track_plot
+
+    def spy(*args, **kwargs):
+        seen.append(kwargs.get("depth_axis"))
+        return original(*args, **kwargs)
+
+    monkeypatch.setattr(plots, "track_plot", spy)
+    code = main(["run", str(field / "p.toml"), "--out", str(tmp_path / "o"), "--depth-axis", "tvdss"])
+    assert code == 0
+    assert seen == ["tvdss", "tvdss"]
+    summary = json.loads((tmp_path / "o" / "run_summary.json").read_text())
+    assert summary["field_section"] == "field_section.png"
+    assert (tmp_path / "o" / "field_section.png").read_bytes()[:4] == b"\x89PNG"
+    with pytest.raises(SystemExit):
+        main(["run", str(field / "p.toml"), "--depth-axis", "tvd"])

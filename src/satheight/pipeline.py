@@ -76,6 +76,7 @@ class RunReport:
     wells: list[WellOutcome]
     summary_file: Path | None = None
     notes: list[str] = field(default_factory=list)
+    section_file: Path | None = None
 
     @property
     def failed(self) -> list[WellOutcome]:
@@ -370,7 +371,7 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,
-                  plot: bool = True) -> list[Path]:
+                  plot: bool = True, depth_axis: str = "md") -> list[Path]:
     """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = _safe_name(result.well.name)
@@ -394,7 +395,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
 
         files += track_plot(result, out_dir / f"{stem}_tracks.png",
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
-                            units=project.unit_system)
+                            units=project.unit_system, depth_axis=depth_axis)
     return files
 
 
@@ -403,8 +404,12 @@ CAUTION = ("Results are estimates for review by a qualified professional; local 
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True) -> RunReport:
+                plot: bool = True, depth_axis: str = "md") -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
+
+    ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
+    plots. With plots on, the field cross-section of all computed wells is written
+    as ``field_section.png`` (a failure there is a note, not a failed run).
 
     A well that fails (missing curve, bad file) is reported and the others still
     run. The run summary ``run_summary.json`` lists every well, its files and
@@ -419,6 +424,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     out_dir.mkdir(parents=True, exist_ok=True)
     outcomes = []
     names_seen: set[str] = set()
+    locations: dict = {}
     for spec in project.wells:
         label = spec.name or spec.las.stem
         try:
@@ -430,12 +436,25 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                                            where=str(project.path),
                                            hint="give each well a distinct name in the project file")
                 names_seen.add(_safe_name(result.well.name))
-                files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot)
+                files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
+                                      depth_axis=depth_axis)
+                locations[result.well.name] = getattr(spec, "location", None)
             msgs += [str(c.message) for c in caught]
             outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
     notes = []
+    section_file = None
+    ok_results = [o.result for o in outcomes if o.ok and o.result is not None]
+    if plot and ok_results:
+        from .plots import section_plot
+
+        try:
+            section_file = section_plot(ok_results, out_dir / "field_section.png",
+                                        units=project.unit_system, locations=locations,
+                                        title=f"{project.name}: field section, TVDSS")[0]
+        except SatHeightError as exc:
+            notes.append(f"field section not drawn: {exc}")
     unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
     if unused:
         notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
@@ -450,9 +469,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                    "summary": o.result.summary if o.result is not None else None}
                   for o in outcomes],
     }
+    if section_file is not None:
+        summary["field_section"] = section_file.name
     if notes:
         summary["notes"] = notes
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
     return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
-                     notes=notes)
+                     notes=notes, section_file=section_file)
