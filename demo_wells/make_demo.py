@@ -1,6 +1,7 @@
 #!/usr/bin/env python3
-"""Generate the invented Vantrel demo field: four vertical wells as LAS 2.0 files
-and the project file that describes them.
+"""Generate the invented Vantrel demo field: four vertical wells and one deviated
+well as LAS 2.0 files, the deviated well's survey, a tops file and the project file
+that describes them.
 
 Everything here is made up: the field, the wells, the operator, the location and
 every number. Nothing is taken from a real field.
@@ -128,7 +129,27 @@ WELLS = [
         "nulls": [(("GR",), 1963.0, 1972.0)],
         "note": "no EKB in the header: the project file gives datum_elevation",
     },
+    {
+        "name": "VANTREL-5", "depth_unit": "m", "strt": 2080.0, "n": 4060, "ekb": 29.4,
+        "porosity_unit": "v/v", "sw_curve": False, "date": "2023-09-08",
+        "truth": [{"swirr": 0.11, "a": 0.31}, {"lam": 2.6}],
+        "nulls": [],
+        "note": "deviated (build to 37.5 deg): survey, and zone tops in the tops file",
+        # build-and-hold path: vertical to the kick-off MD, constant build rate to the hold
+        # inclination, then straight; stations every `station_step` m in the build and hold
+        "path": {"kop": 1200.0, "build_deg_per_30m": 2.5, "hold_deg": 37.5, "azimuth_deg": 65.0,
+                 "station_step": 30.0, "td": 2790.0},
+    },
 ]
+
+#: Well-head map positions (east, north) [m] in an invented local grid, for the
+#: field cross-section plot.
+LOCATIONS = {"VANTREL-1": (1000.0, 2000.0), "VANTREL-2": (2400.0, 2600.0),
+             "VANTREL-3": (3900.0, 3100.0), "VANTREL-4": (5200.0, 3900.0),
+             "VANTREL-5": (2450.0, 2300.0)}
+
+#: Zone windows of VANTREL-5 in the tops file: Upper Sand in MD, Lower Sand in TVDSS.
+TOPS_DEPTH_TYPE = {"Upper Sand": "MD", "Lower Sand": "TVDSS"}
 
 
 # --- small unit parser for the few texts used above ---------------------------------
@@ -236,6 +257,46 @@ def archie_sw(phi, rt, a=ARCHIE["a"], m=ARCHIE["m"], n=ARCHIE["n"], rw=ARCHIE["r
     return np.clip(sw, 0.0, 1.0)
 
 
+# --- deviated path (closed form, circle and straight line) ----------------------------
+def path_position(path, md):
+    """TVD below KB [m] (positive down), north and east [m] of a build-and-hold path.
+
+    Vertical to ``kop``; a circular arc of radius R = 30 m / build rate [rad] up to the
+    hold inclination; then a straight hold. Closed form (circle geometry), so the
+    stations of :func:`survey_stations` describe it exactly by minimum curvature.
+    """
+    md = np.asarray(md, dtype=float)
+    rate = math.radians(path["build_deg_per_30m"]) / 30.0
+    hold = math.radians(path["hold_deg"])
+    eob = path["kop"] + hold / rate
+    th = np.clip((md - path["kop"]) * rate, 0.0, hold)
+    past = np.clip(md - eob, 0.0, None)
+    tvd = np.where(md <= path["kop"], md, path["kop"] + np.sin(th) / rate + past * math.cos(hold))
+    hd = np.where(md <= path["kop"], 0.0, (1.0 - np.cos(th)) / rate + past * math.sin(hold))
+    az = math.radians(path["azimuth_deg"])
+    return tvd, hd * math.cos(az), hd * math.sin(az)
+
+
+def survey_stations(path):
+    """(MD [m], inclination [deg], azimuth [deg]) of the survey: surface, kick-off, every
+    ``station_step`` m down to TD (the end of the build falls on a station)."""
+    rate = path["build_deg_per_30m"] / 30.0
+    md = np.r_[0.0, np.arange(path["kop"], path["td"] + 1e-9, path["station_step"])]
+    inc = np.clip((md - path["kop"]) * rate, 0.0, path["hold_deg"])
+    return md, inc, np.where(md > path["kop"], path["azimuth_deg"], 0.0)
+
+
+def md_at_tvd(path, tvd):
+    """MD [m] where the hold section of ``path`` reaches TVD ``tvd`` [m] (below the build)."""
+    rate = math.radians(path["build_deg_per_30m"]) / 30.0
+    hold = math.radians(path["hold_deg"])
+    eob = path["kop"] + hold / rate
+    tvd_eob = path["kop"] + math.sin(hold) / rate
+    if tvd < tvd_eob:
+        raise ValueError("only depths in the hold section are supported")
+    return eob + (tvd - tvd_eob) / math.cos(hold)
+
+
 # --- bed model -----------------------------------------------------------------------
 def _shale_beds(rng, top, base):
     """Shale beds 2-8 m thick filling [top, base) TVDSS [m]."""
@@ -318,7 +379,8 @@ def depth_axis(spec):
     dept = np.round(spec["strt"] + step * np.arange(spec["n"]), 4)
     md = dept * (1.0 if spec["depth_unit"] == "m" else FOOT)
     elev = spec["ekb"] if spec["ekb"] is not None else spec["datum"]
-    return dept, md, md - elev, step
+    tvd = path_position(spec["path"], md)[0] if "path" in spec else md
+    return dept, md, tvd - elev, step
 
 
 def build_well(spec, rng):
@@ -428,8 +490,12 @@ def las_text(spec, curves) -> str:
         f"INVENTED DEMO DATA. The {FIELD} field, this well, the company, the location",
         "and every number in this file are made up by demo_wells/make_demo.py",
         f"(numpy seed {SEED}); they describe no real field. {spec['note'].capitalize()}.",
-        "Depths are below the kelly bushing; the wells are vertical (TVDSS = MD - KB elevation).",
     ]
+    if "path" in spec:
+        lines.append(f"DEPT is measured depth below the kelly bushing along a deviated hole; see "
+                     f"{spec['name']}_survey.csv.")
+    else:
+        lines.append("Depths are below the kelly bushing; the wells are vertical (TVDSS = MD - KB elevation).")
     if spec["ekb"] is None:
         lines.append("The KB elevation is not recorded in this file: see the project file.")
     header = "~A  " + " ".join(f"{c:>12}" for c in names)
@@ -461,6 +527,7 @@ def project_text() -> str:
         "[project]",
         'name = "Vantrel demo field (invented)"',
         'units = "metric"                # bare numbers are metric',
+        'tops_file = "demo_tops.csv"     # zone tops of the deviated well (MD or TVDSS per row)',
         "",
         "[log_sw]",
         'method = "auto"                 # use a well\'s SW curve if present, otherwise Archie from RT',
@@ -481,6 +548,10 @@ def project_text() -> str:
         if spec["porosity_unit"] == "%":
             out.append('curves = { porosity = "PHIE", permeability = "PERM" }   '
                        "# optional role -> mnemonic overrides")
+        if "path" in spec:
+            out.append(f'survey = "{spec["name"]}_survey.csv"   # deviation survey: TVDSS by minimum curvature')
+        east, north = LOCATIONS[spec["name"]]
+        out.append(f"location = {{ east = {east:g}, north = {north:g} }}   # well head, invented local grid [m]")
         out.append("")
     for z in ZONES:
         p = z["params"]
@@ -528,7 +599,38 @@ def all_files(seed=SEED) -> dict[str, str]:
     field = build_field(seed)
     files = {f"{s['name']}.las": las_text(s, field[s["name"]]) for s in WELLS}
     files["demo_project.toml"] = project_text()
+    for spec in WELLS:
+        if "path" in spec:
+            files[f"{spec['name']}_survey.csv"] = survey_text(spec)
+    files["demo_tops.csv"] = tops_text()
     return files
+
+
+def survey_text(spec) -> str:
+    """Survey CSV of a deviated well (satheight's layout: MD [m], INC [deg], AZI [deg])."""
+    md, inc, azi = survey_stations(spec["path"])
+    lines = [f"# Deviation survey of {spec['name']} (INVENTED demo data, made by make_demo.py).",
+             "# MD below the kelly bushing, inclination from vertical, azimuth clockwise from grid north.",
+             "MD [m],INC [deg],AZI [deg]"]
+    lines += [f"{m:.2f},{i:.4f},{a:.4f}" for m, i, a in zip(md, inc, azi)]
+    return "\n".join(lines) + "\n"
+
+
+def tops_text() -> str:
+    """Tops CSV: the zone windows of the deviated wells, MD or TVDSS per row."""
+    lines = ["# Zone tops (INVENTED demo data, made by make_demo.py). depth: MD below KB, or TVDSS.",
+             "well,zone,top [m],base [m],depth"]
+    for spec in WELLS:
+        if "path" not in spec:
+            continue
+        for z in ZONES:
+            if TOPS_DEPTH_TYPE[z["name"]] == "MD":
+                top = md_at_tvd(spec["path"], z["top"] + spec["ekb"])
+                base = md_at_tvd(spec["path"], z["base"] + spec["ekb"])
+                lines.append(f"{spec['name']},{z['name']},{top:.3f},{base:.3f},MD")
+            else:
+                lines.append(f"{spec['name']},{z['name']},{z['top']:.3f},{z['base']:.3f},TVDSS")
+    return "\n".join(lines) + "\n"
 
 
 def summary(field) -> str:
@@ -541,7 +643,8 @@ def summary(field) -> str:
             sel = (w["zone"] == iz) & w["sand"] & (w["j_true"] > 0)
             jz = w["j_true"][sel]
             top_sel = sel & (w["tvdss"] < z["top"] + 5.0)
-            hc = ((w["zone"] == iz) & w["sand"] & (w["sw_true"] < 0.5)).sum() * STEP_M
+            dz = np.abs(np.gradient(w["tvdss"]))     # vertical thickness per sample [m]
+            hc = dz[(w["zone"] == iz) & w["sand"] & (w["sw_true"] < 0.5)].sum()
             rows.append(f"{spec['name']:<10} {z['name']:<11} {jz.min():>12.3f} - {jz.max():<11.3f} "
                         f"{np.median(w['j_true'][top_sel]):>14.2f} {hc:>16.1f}")
     return "\n".join(rows)

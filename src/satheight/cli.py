@@ -81,6 +81,9 @@ def build_parser() -> argparse.ArgumentParser:
 def _common_run_options(sp):
     sp.add_argument("--pdf", action="store_true", help="also write each track plot as PDF")
     sp.add_argument("--no-plots", action="store_true", help="skip the plots (faster)")
+    sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="md",
+                    help="main depth scale of the track plots: measured depth (default) or "
+                         "TVDSS (true vertical depth below datum); the other is the second scale")
 
 
 def _print_run(report, out) -> int:
@@ -100,6 +103,10 @@ def _print_run(report, out) -> int:
                 print(f"    note: {m}", file=out)
         else:
             print(f"  {w.name}: FAILED: {w.error}", file=out)
+    if getattr(report, "section_file", None) is not None:
+        print(f"field section: {report.section_file}", file=out)
+    for note in getattr(report, "notes", []):
+        print(f"note: {note}", file=out)
     print(f"run summary: {report.summary_file}", file=out)
     print("Caution: results are estimates for review by a qualified professional; local "
           "regulations and reserves-reporting rules govern their use.", file=out)
@@ -164,7 +171,8 @@ def main(argv=None) -> int:
         else:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
-        report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots)
+        report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
+                             depth_axis=args.depth_axis)
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:

@@ -44,6 +44,9 @@ NEW_CURVES = {
     "SW_LOG": "Water saturation from resistivity (Archie)",
     "SHM_FLAG": "Quality flag bits: " + "; ".join(f"{b}={t}" for b, t in FLAG_MEANINGS.items()),
     "ZONE_ID": "Zone number (1-based order of the project file), 0 outside zones",
+    "TVD": "True vertical depth below the log depth reference, positive down",
+    "NORTH": "Offset north of the well head (survey azimuth reference)",
+    "EAST": "Offset east of the well head (survey azimuth reference)",
 }
 
 
@@ -53,7 +56,7 @@ CAUTION = ("Results are estimates for review by a qualified professional; local 
 
 #: Decimals written for each new curve in the output LAS.
 OUTPUT_DECIMALS = {"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
-                   "SHM_FLAG": 0, "ZONE_ID": 0}
+                   "SHM_FLAG": 0, "ZONE_ID": 0, "TVD": 4, "NORTH": 4, "EAST": 4}
 
 
 @dataclass
@@ -76,6 +79,8 @@ class RunReport:
     out_dir: Path
     wells: list[WellOutcome]
     summary_file: Path | None = None
+    notes: list[str] = field(default_factory=list)
+    section_file: Path | None = None
 
     @property
     def failed(self) -> list[WellOutcome]:
@@ -118,11 +123,21 @@ def datum_elevation(well: Well, spec: WellSpec) -> float:
         hint='add datum_elevation = "<KB elevation> m" to this well in the project file')
 
 
-def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray) -> list[ZoneModel]:
-    """Engine zones for one well: the well's own tops (MD, turned into TVDSS) or the field-wide window."""
+def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray,
+                   md_to_tvdss=None) -> list[ZoneModel]:
+    """Engine zones for one well: the well's own tops (MD, turned into TVDSS; or TVDSS
+    from the tops file) or the field-wide window.
+
+    ``md_to_tvdss``, if given, maps MD [m] to TVDSS [m] (positive down) along the
+    well's trajectory and is used for MD tops instead of interpolating between samples.
+    """
     out = []
     for zs in project.zones:
-        if zs.name in spec.tops:
+        if zs.name in getattr(spec, "tops_tvdss", {}):
+            top, base = spec.tops_tvdss[zs.name]
+        elif zs.name in spec.tops and md_to_tvdss is not None:
+            top, base = (float(v) for v in md_to_tvdss(np.asarray(spec.tops[zs.name], dtype=float)))
+        elif zs.name in spec.tops:
             top_md, base_md = spec.tops[zs.name]
             top, base = np.interp([top_md, base_md], md, tvdss, left=np.nan, right=np.nan)
             # tops outside the logged interval: extend linearly with the end offsets
@@ -174,6 +189,8 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     well = read_las(spec.las)
     if spec.name:
         well.name = spec.name
+    else:
+        spec = pending_tops(project, spec, well.name)
     msgs = list(well.warnings)
     roles = detect_roles(well, spec.curves)
     phi_mn = require_role(well, "porosity", roles.get("porosity"))
@@ -186,16 +203,85 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
         rt, w3 = role_values(well, "resistivity", roles["resistivity"])
         msgs += w3
     elev = datum_elevation(well, spec)
-    tvdss = well.md - elev  # vertical well
-    zones = zones_for_well(project, spec, well.md, tvdss)
+    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
+    msgs += w5
+    tvdss = tvd - elev  # TVDSS = TVD - datum elevation, positive down
+    clash = sorted({"TVD", "NORTH", "EAST"} & {k.upper() for k in well.curves})
+    if clash:
+        msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
+                    "the computed ones are not written (TVDSS is)")
+    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
     sw_log, source, w4 = log_saturation(project, well, roles, phi)
     msgs += w4
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
-                        sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev)
+                        sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
+                        tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None))
     return result, msgs
+
+
+def pending_tops(project: Project, spec: WellSpec, well_name: str) -> WellSpec:
+    """``spec`` with the tops-file rows of ``well_name`` (the LAS file's well name) added.
+
+    Raises
+    ------
+    ProjectFileError
+        If a zone of those rows is also given under ``[wells.tops]`` of this well.
+    """
+    rows = getattr(project, "tops_pending", {}).get(well_name)
+    if not rows:
+        return spec
+    md_tops, tv_tops = dict(spec.tops), dict(spec.tops_tvdss)
+    for r in rows:
+        if r.zone in md_tops or r.zone in tv_tops:
+            raise ProjectFileError(f"zone {r.zone!r} of well {well_name!r} is given both under "
+                                   f"[wells.tops] and in the tops file ({project.tops_file}, line {r.line})",
+                                   where=f"{project.path}, key wells[{spec.las.name}].tops.{r.zone}",
+                                   hint="give each well's zone window in one place only")
+        (md_tops if r.depth_type == "MD" else tv_tops)[r.zone] = (r.top, r.base)
+    import dataclasses
+
+    return dataclasses.replace(spec, tops=md_tops, tops_tvdss=tv_tops)
+
+
+def well_path(spec: WellSpec, well: Well, elev: float):
+    """Trajectory of one well at its log samples.
+
+    Returns
+    -------
+    tvd, north, east : numpy.ndarray
+        TVD below the log depth reference [m] (positive down) and offsets from the
+        well head [m] at every sample: minimum curvature through the survey if the
+        well has one, else a vertical well (TVD = MD, no offset).
+    md_to_tvdss : callable or None
+        MD [m] -> TVDSS [m] along the trajectory (None for a vertical well).
+    warnings : list[str]
+        Survey notes (added tie-in station, samples below the last station).
+    """
+    from .trajectory import vertical
+
+    survey_path = getattr(spec, "survey", None)
+    if survey_path is None:
+        tvd, north, east = vertical(well.md)
+        return tvd, north, east, None, []
+    from .io.survey import read_survey, survey_trajectory
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        survey = read_survey(survey_path, getattr(spec, "survey_format", None))
+        md0 = float(np.nanmin(well.md)) if well.md.size else None
+        traj = survey_trajectory(survey, md0, str(well.source))
+        tvd, north, east = traj.at(well.md)
+    msgs = list(survey.warnings) + [str(c.message) for c in caught]
+
+    def md_to_tvdss(md):
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            return traj.at(md)[0] - elev
+
+    return tvd, north, east, md_to_tvdss, msgs
 
 
 # --------------------------------------------------------------------------------------
@@ -214,6 +300,14 @@ def output_curves(result: WellResult, project: Project) -> list[Curve]:
     dz = u["depth"]
     curves = [
         Curve("TVDSS", dz, NEW_CURVES["TVDSS"], U.from_si(result.tvdss, dz, "length")),
+    ]
+    if result.tvd is not None:
+        # an input curve of the same name (a TVD curve in the LAS file) is kept and ours left out
+        have = {k.upper() for k in result.well.curves}
+        curves += [Curve(mn, dz, NEW_CURVES[mn], U.from_si(v, dz, "length"))
+                   for mn, v in (("TVD", result.tvd), ("NORTH", result.north), ("EAST", result.east))
+                   if mn not in have]
+    curves += [
         Curve("HAFWL", dz, NEW_CURVES["HAFWL"], U.from_si(shm.hafwl, dz, "length")),
         Curve("PC_RES", u["pressure"], NEW_CURVES["PC_RES"], U.from_si(shm.pc, u["pressure"], "pressure")),
         Curve("J", "", NEW_CURVES["J"], shm.j.copy()),
@@ -234,6 +328,9 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
              HeaderItem("SHM_DATUM", u["depth"], round(U.from_si(result.datum_elevation, u["depth"], "length"), 4),
                         "Depth reference elevation above TVDSS datum"),
              HeaderItem("SHM_SWSRC", "", result.sw_log_source, "Source of log Sw")]
+    if getattr(result, "survey", None) is not None:
+        items.append(HeaderItem("SHM_SURVEY", "", Path(result.survey).name,
+                                "Deviation survey (minimum curvature)"))
     if result.sw_log_source == "archie":
         c = project.log_sw
         items += [HeaderItem("ARCHIE_A", "", c.a, "Archie tortuosity factor a"),
@@ -278,7 +375,7 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,
-                  plot: bool = True) -> list[Path]:
+                  plot: bool = True, depth_axis: str = "md") -> list[Path]:
     """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = _safe_name(result.well.name)
@@ -303,13 +400,17 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
 
         files += track_plot(result, out_dir / f"{stem}_tracks.png",
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
-                            units=project.unit_system)
+                            units=project.unit_system, depth_axis=depth_axis)
     return files
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True) -> RunReport:
+                plot: bool = True, depth_axis: str = "md") -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
+
+    ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
+    plots. With plots on, the field cross-section of all computed wells is written
+    as ``field_section.png`` (a failure there is a note, not a failed run).
 
     A well that fails (missing curve, bad file) is reported and the others still
     run. The run summary ``run_summary.json`` lists every well, its files and
@@ -324,6 +425,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     out_dir.mkdir(parents=True, exist_ok=True)
     outcomes = []
     names_seen: set[str] = set()
+    locations: dict = {}
     for spec in project.wells:
         label = spec.name or spec.las.stem
         try:
@@ -335,11 +437,30 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                                            where=str(project.path),
                                            hint="give each well a distinct name in the project file")
                 names_seen.add(_safe_name(result.well.name))
-                files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot)
+                files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
+                                      depth_axis=depth_axis)
+                locations[result.well.name] = getattr(spec, "location", None)
             msgs += [str(c.message) for c in caught]
             outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
+    notes = []
+    section_file = None
+    ok_results = [o.result for o in outcomes if o.ok and o.result is not None]
+    if plot and ok_results:
+        from .plots import section_plot
+
+        try:
+            section_file = section_plot(ok_results, out_dir / "field_section.png",
+                                        units=project.unit_system, locations=locations,
+                                        title=f"{project.name}: field section, TVDSS")[0]
+        except SatHeightError as exc:
+            notes.append(f"field section not drawn: {exc}")
+    unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
+    if unused:
+        notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
+                     + " match no well of the project (by name, LAS file name or LAS WELL item) "
+                       "and were not used")
     summary = {
         "program": f"satheight {__version__}",
         "project": str(project.path),
@@ -349,6 +470,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                    "summary": o.result.summary if o.result is not None else None}
                   for o in outcomes],
     }
+    if section_file is not None:
+        summary["field_section"] = section_file.name
+    if notes:
+        summary["notes"] = notes
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
-    return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path)
+    return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
+                     notes=notes, section_file=section_file)

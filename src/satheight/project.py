@@ -14,6 +14,7 @@ File format
     [project]
     name = "Example field"          # optional, default file stem
     units = "metric"                # "metric" or "field": unit system of bare numbers (units.UNIT_SYSTEMS)
+    tops_file = "tops.csv"          # optional: formation tops per well (io/tops.py layout), relative to this file; merged into the wells' tops
 
     [log_sw]                        # optional table; defaults method="auto", a=1, m=2, n=2
     method = "auto"                 # "curve" (use the well's Sw curve), "archie" (from Rt and porosity), "auto" (curve if present else archie)
@@ -31,6 +32,9 @@ File format
     name = "A-1"                    # optional, default: the LAS file's well name
     datum_elevation = "25 m"        # optional: elevation of the log depth reference (KB, drill floor) above the TVDSS datum (sea level); bare number in project length unit; may be negative (ground below sea level) -> float SI metres; default None (take from LAS header)
     curves = { porosity = "PHIE", permeability = "PERM", resistivity = "RT", sw = "SW" }   # optional role -> mnemonic overrides; roles allowed: porosity, permeability, resistivity, sw
+    survey = "A-1_survey.csv"       # optional: deviation survey (CSV or LAS, io/survey.py layout), relative to this file; without it the well is vertical
+    survey_format = "csv"           # optional: "csv" or "las"; default from the file ending
+    location = { east = 1200, north = 800 }   # optional: well-head map position (project length unit), used by the field cross-section
     [wells.tops]                    # optional: zone name = [top, base] in this well's measured depth (project length unit for bare numbers)
     Upper = ["2010 m", "2120 m"]
 
@@ -83,6 +87,7 @@ name the line and column.
 
 from __future__ import annotations
 
+import dataclasses as _dc
 import datetime as _dt
 import difflib
 import math
@@ -100,11 +105,13 @@ from .units import UNIT_SYSTEMS, from_si, parse_quantity
 __all__ = ["load_project", "parse_project"]
 
 _TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones")
-_PROJECT_KEYS = ("name", "units")
+_PROJECT_KEYS = ("name", "units", "tops_file")
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw")
 _COMPARISON_KEYS = ("min_porosity", "min_permeability")
 _LOG_SW_METHODS = ("curve", "archie", "auto")
-_WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops")
+_WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "survey_format",
+              "location")
+_SURVEY_FORMATS = ("csv", "las")
 _CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
 _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
               "hydrocarbon_density", "sigma_cos_theta", "function")
@@ -365,9 +372,15 @@ class _Reader:
                 well_names.add(w.name)
             wells.append(w)
 
-        self.check_zone_windows(zones, wells)
+        tops_file = None
+        pending: dict = {}
+        if isinstance(data["project"], dict) and "tops_file" in data["project"]:
+            tops_file = self.existing_file(data["project"]["tops_file"], "project.tops_file", "tops")
+            wells, pending = self.merge_tops_file(tops_file, wells, zone_names)
+        self.check_zone_windows(zones, wells, pending)
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
-                       wells=wells, zones=zones, log_sw=log_sw, comparison=comparison)
+                       wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
+                       tops_file=tops_file, tops_pending=pending)
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
@@ -551,7 +564,85 @@ class _Reader:
                                      "(measured depth)", hint="write [top, base] with top < base")
                 tops[zone] = (top, base)
             self.check_overlaps(tops, lambda z: f"{key}.tops.{z}", "measured depth")
-        return WellSpec(name=name, las=las, datum_elevation=datum, curves=curves, tops=tops)
+        survey = survey_format = location = None
+        if "survey" in t:
+            survey = self.existing_file(t["survey"], f"{key}.survey", "survey")
+        if "survey_format" in t:
+            if survey is None:
+                raise self.error(f"{key}.survey_format", "survey_format is given but survey is not",
+                                 hint='add survey = "<file>" or remove survey_format')
+            survey_format = self.text(t["survey_format"], f"{key}.survey_format", _SURVEY_FORMATS)
+        if "location" in t:
+            loc = self.table(t["location"], f"{key}.location", ("east", "north"),
+                             required=("east", "north"), what="a table { east = ..., north = ... }")
+            location = (self.quantity(loc["east"], f"{key}.location.east", "length"),
+                        self.quantity(loc["north"], f"{key}.location.north", "length"))
+        return WellSpec(name=name, las=las, datum_elevation=datum, curves=curves, tops=tops,
+                        survey=survey, survey_format=survey_format, location=location)
+
+    def existing_file(self, value: Any, key: str, what: str) -> Path:
+        """A file path relative to the project file that must exist."""
+        text = self.text(value, key)
+        base_dir = self.path.parent.resolve()
+        p = (base_dir / text).resolve()
+        if not p.is_file():
+            found = "a folder" if p.exists() else "nothing"
+            raise self.error(key, f"{what} file {text!r} not found: looked for {p} and found {found}",
+                             hint=f"paths are relative to the project file's folder {base_dir}")
+        return p
+
+    def merge_tops_file(self, tops_file: Path, wells: list[WellSpec],
+                        zone_names: list[str]):
+        """Add the tops file's rows to the wells; a zone given twice for a well is an error.
+
+        Rows are matched to a well by its ``name`` or its LAS file stem. Rows of other
+        well names are returned as pending (well name -> rows): they may match a well
+        whose name comes from its LAS file's WELL item, known only when it is read.
+        """
+        from .io.tops import read_tops
+
+        try:
+            rows = read_tops(tops_file, self.units["length"])
+        except InputFileError as exc:
+            raise self.error("project.tops_file", f"{exc.where}: {exc.what}", hint=exc.hint) from None
+        by_name: dict[str, int] = {}
+        for i, w in enumerate(wells):
+            for label in {w.name, w.las.stem} - {None}:
+                by_name.setdefault(label, i)
+        md_tops = [dict(w.tops) for w in wells]
+        tv_tops = [dict(w.tops_tvdss) for w in wells]
+        pending: dict[str, list] = {}
+        unnamed = any(w.name is None for w in wells)
+        for r in rows:
+            where = f"{tops_file}, line {r.line}"
+            if r.well not in by_name and not unnamed:
+                close = difflib.get_close_matches(r.well, list(by_name), n=1)
+                raise self.error("project.tops_file", f"{where}: well {r.well!r} matches no [[wells]] "
+                                 "entry (by name or LAS file name)",
+                                 hint=(f"did you mean {close[0]!r}? " if close else "")
+                                 + "remove the row or add the well to the project")
+            if r.zone not in zone_names:
+                close = difflib.get_close_matches(r.zone, zone_names, n=1)
+                raise self.error("project.tops_file", f"{where}: zone {r.zone!r} is not a [[zones]] name",
+                                 hint=(f"did you mean {close[0]!r}? " if close else "")
+                                 + "known zones: " + ", ".join(zone_names))
+            if r.well not in by_name:
+                pending.setdefault(r.well, []).append(r)
+                continue
+            i = by_name[r.well]
+            if r.zone in md_tops[i] or r.zone in tv_tops[i]:
+                raise self.error(f"wells[{wells[i].name or wells[i].las.stem}].tops.{r.zone}",
+                                 f"zone {r.zone!r} of well {r.well!r} is given both here and in the "
+                                 f"tops file ({where})",
+                                 hint="give each well's zone window in one place only")
+            (md_tops if r.depth_type == "MD" else tv_tops)[i][r.zone] = (r.top, r.base)
+        out = []
+        for w, mt, tt in zip(wells, md_tops, tv_tops):
+            label = w.name or w.las.stem
+            self.check_overlaps(mt, lambda z, lb=label: f"wells[{lb}].tops.{z}", "measured depth")
+            self.check_overlaps(tt, lambda z, lb=label: f"wells[{lb}].tops.{z} (tops file)", "TVDSS")
+            out.append(_dc.replace(w, tops=mt, tops_tvdss=tt))
+        return out, pending
 
     # --- cross checks ------------------------------------------------------------
     def check_overlaps(self, windows: dict[str, tuple[float, float]], key_of, depth_name: str):
@@ -567,10 +658,12 @@ class _Reader:
                                  hint="zone windows may touch but not overlap; "
                                       "move one top or base")
 
-    def check_zone_windows(self, zones: list[ZoneSpec], wells: list[WellSpec]) -> None:
+    def check_zone_windows(self, zones: list[ZoneSpec], wells: list[WellSpec],
+                           pending: dict | None = None) -> None:
         windows = {z.name: (z.top, z.base) for z in zones if z.top is not None}
         self.check_overlaps(windows, lambda z: f"zones[{z}]", "TVDSS")
-        with_tops = {name for w in wells for name in w.tops}
+        with_tops = {name for w in wells for name in list(w.tops) + list(w.tops_tvdss)}
+        with_tops |= {r.zone for rows in (pending or {}).values() for r in rows}
         for z in zones:
             if z.top is None and z.name not in with_tops:
                 raise self.error(f"zones[{z.name}].top",

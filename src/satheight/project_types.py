@@ -77,6 +77,15 @@ class WellSpec:
         Role -> mnemonic overrides (roles: porosity, permeability, resistivity, sw).
     tops : dict[str, tuple[float, float]]
         Zone name -> (top, base) in this well's measured depth [m].
+    survey : pathlib.Path or None
+        Absolute path of the deviation survey (CSV or LAS); ``None``: vertical well.
+    survey_format : str or None
+        ``"csv"`` or ``"las"``; ``None``: from the file ending.
+    tops_tvdss : dict[str, tuple[float, float]]
+        Zone name -> (top, base) in TVDSS [m], positive down (from the tops file).
+    location : tuple[float, float] or None
+        Well-head position (east, north) [m] in the field's map coordinates, for
+        the field cross-section; ``None`` if not given.
     """
 
     name: str | None
@@ -84,6 +93,10 @@ class WellSpec:
     datum_elevation: float | None = None
     curves: dict[str, str] = field(default_factory=dict)
     tops: dict[str, tuple[float, float]] = field(default_factory=dict)
+    survey: Path | None = None
+    survey_format: str | None = None
+    tops_tvdss: dict[str, tuple[float, float]] = field(default_factory=dict)
+    location: tuple[float, float] | None = None
 
 
 @dataclass(frozen=True)
@@ -140,6 +153,13 @@ class Project:
     zones : list[ZoneSpec]
     log_sw : LogSwSpec
     comparison : ComparisonSpec
+    tops_file : pathlib.Path or None
+        The formation-tops CSV named by ``[project] tops_file`` (already merged
+        into the wells' ``tops`` and ``tops_tvdss``), or ``None``.
+    tops_pending : dict[str, list]
+        Tops-file rows (:class:`satheight.io.tops.TopRow`) of well names that no
+        well has by ``name`` or LAS file stem; matched to a well without an explicit
+        name by the WELL item of its LAS file when the well is read.
     """
 
     path: Path
@@ -149,3 +169,5 @@ class Project:
     zones: list[ZoneSpec]
     log_sw: LogSwSpec
     comparison: ComparisonSpec = field(default_factory=lambda: ComparisonSpec())
+    tops_file: Path | None = None
+    tops_pending: dict = field(default_factory=dict)

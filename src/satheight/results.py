@@ -81,6 +81,14 @@ class WellResult:
     summary : dict
         The JSON-ready per-well and per-zone comparison (filled by
         :func:`satheight.compare.summarise`).
+    tvd : numpy.ndarray or None
+        True vertical depth below the log depth reference [m], positive down
+        (= MD for a well without a survey).
+    north, east : numpy.ndarray or None
+        Horizontal offsets of each sample from the well head [m] (0 for a well
+        without a survey).
+    survey : pathlib.Path or None
+        The deviation survey used, if any.
     """
 
     well: Well
@@ -95,3 +103,7 @@ class WellResult:
     roles: dict[str, str | None]
     datum_elevation: float = 0.0
     summary: dict[str, Any] = field(default_factory=dict)
+    tvd: np.ndarray | None = None
+    north: np.ndarray | None = None
+    east: np.ndarray | None = None
+    survey: Any = None
