@@ -164,10 +164,11 @@ def lab_to_reservoir_pc(pc_lab, sct_lab, sct_res):
     ----------
     pc_lab : array_like
         Lab capillary pressure [Pa].
-    sct_lab, sct_res : float
+    sct_lab, sct_res : float or array_like
         |sigma*cos(theta)| of the lab and reservoir systems [N/m].
     """
-    return np.asarray(pc_lab, dtype=float) * (float(sct_res) / float(sct_lab))
+    return np.asarray(pc_lab, dtype=float) * (np.asarray(sct_res, dtype=float)
+                                              / np.asarray(sct_lab, dtype=float))
 
 
 def height_from_pc(pc, delta_rho, g=C.STANDARD_GRAVITY):

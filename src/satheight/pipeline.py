@@ -137,9 +137,16 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
 def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
     fn = build_function(zs.function.family, zs.function.params, zs.function.j_range,
                         where=f"{path}, key zones[{zs.name}].function")
+    rock_functions = classifier = None
+    if zs.function.by_rock_type:  # per-depth rock typing from a model file
+        rock_functions = {rt: build_function(f.family, f.params, f.j_range,
+                                             where=f"{path}, key zones[{zs.name}].function")
+                          for rt, f in zs.function.by_rock_type.items()}
+        classifier = zs.function.rock_rule.classify
     return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
                      water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
-                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn)
+                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
+                     rock_functions=rock_functions, rock_classifier=classifier)
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
