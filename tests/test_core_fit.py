@@ -218,3 +218,13 @@ def test_core_demo_files_up_to_date():
     r = subprocess.run([sys.executable, str(DEMO / "make_core_demo.py"), "--check"],
                        capture_output=True, text=True, timeout=120)
     assert r.returncode == 0, r.stderr
+
+
+def test_demo_run_records_model_file(tmp_path):
+    import lasio
+
+    assert main(["demo", "--out", str(tmp_path), "--no-plots"]) == 0
+    las = lasio.read(str(tmp_path / "VANTREL-1.las"))
+    assert las.params["Z1_MFILE"].value == "core_models.json"
+    assert las.params["Z1_ROCK"].value == "Upper Sand"
+    assert las.params["Z2_ROCK"].value == "Lower Sand"

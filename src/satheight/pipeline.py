@@ -260,7 +260,22 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
         if zn.function.j_range_ is not None:
             items += [HeaderItem(p + "JMIN", "", zn.function.j_range_[0], f"Zone {i} calibrated J minimum"),
                       HeaderItem(p + "JMAX", "", zn.function.j_range_[1], f"Zone {i} calibrated J maximum")]
+        items += _model_file_parameters(project, zn, p, i)
     return items
+
+
+def _model_file_parameters(project: Project, zn: ZoneModel, p: str, i: int) -> list[HeaderItem]:
+    """~Parameter items naming the model file and rock type a zone's function came from."""
+    spec = next((z for z in project.zones if z.name == zn.name), None)
+    if spec is None or spec.function.file is None:
+        return []
+    fs = spec.function
+    if fs.by_rock_type:
+        rock = f"per depth by {fs.rock_rule.method} classes: " + ", ".join(fs.by_rock_type)
+    else:
+        rock = fs.rock_type or ""
+    return [HeaderItem(p + "MFILE", "", fs.file.name, f"Zone {i} J-Sw model file"),
+            HeaderItem(p + "ROCK", "", rock, f"Zone {i} rock type of the model file")]
 
 
 def _safe_name(name: str) -> str:
