@@ -50,6 +50,14 @@ File format
     b = 1.5
     j_min = 0.02                    # optional calibrated J range (both or neither), 0 <= j_min < j_max
     j_max = 12
+    # or, instead of family + parameters, a function fitted by `satheight fit`:
+    # [zones.function]
+    # file = "core_models.json"     # model file (models/store.py), relative to the project file
+    # rock_type = "Upper Sand"      # optional if the file holds one rock type; without it and with
+    #                               # several rock types, rock typing is applied per depth (the
+    #                               # file's permeability/FZI class rule on log phi and k)
+    # family = "power_law"          # optional, default the file's selected family
+    # j_min / j_max                 # optional override of the J range covered by the core data
 
 Rules
 -----
