@@ -228,3 +228,45 @@ def test_demo_run_records_model_file(tmp_path):
     assert las.params["Z1_MFILE"].value == "core_models.json"
     assert las.params["Z1_ROCK"].value == "Upper Sand"
     assert las.params["Z2_ROCK"].value == "Lower Sand"
+
+
+# --- option texts of the fit command
+def test_fit_option_parsing():
+    import math
+
+    from satheight.core import LAB_SYSTEMS
+    from satheight.core_workflow import (parse_classes, parse_closure, parse_lab_override,
+                                         parse_reservoir)
+    from satheight.errors import SatHeightError
+
+    name, s = parse_lab_override("mercury_air=485 mN/m,130 deg", LAB_SYSTEMS)
+    assert name == "mercury_air"
+    assert s.sigma_cos_theta == pytest.approx(0.485 * abs(math.cos(math.radians(130))))
+    assert parse_lab_override("oil_brine=26", LAB_SYSTEMS)[1].sigma_cos_theta == pytest.approx(0.026)
+    rt, f = parse_reservoir("Upper Sand=26 mN/m,0.13 psi/ft")
+    # 0.13 psi/ft as a density: 0.13 * 6894.757 / 0.3048 / 9.80665 (NIST SP 811 factors)
+    assert rt == "Upper Sand" and f.delta_rho == pytest.approx(0.13 * 6894.757293168 / 0.3048 / 9.80665)
+    assert parse_reservoir("50 mN/m")[0] == "*"
+    assert parse_closure("auto") == "auto" and parse_closure("none") is None
+    assert parse_closure("5") == pytest.approx(5 * 6894.757293168)
+    assert parse_classes("1,10", "permeability", None).edges == pytest.approx((MD, 10 * MD))
+    for bad, fn in (("oil_brine", lambda t: parse_lab_override(t, LAB_SYSTEMS)),
+                    ("x=26 furlongs", lambda t: parse_lab_override(t, LAB_SYSTEMS)),
+                    ("26 mN/m,-3 kg/m3", parse_reservoir), ("-2 psi", parse_closure),
+                    ("10,1", lambda t: parse_classes(t, "fzi", None))):
+        with pytest.raises(SatHeightError):
+            fn(bad)
+
+
+def test_fixed_closure_pressure_used_for_every_mercury_curve(tmp_path):
+    from satheight.core import core_points
+    from satheight.io.core_data import read_core_files
+
+    ds = read_core_files(CORE_FILES[:2])
+    pts = core_points(ds, closure=50 * 6894.757293168)
+    hg = pts.system == "mercury_air"
+    assert set(pts.closure.values()) == {50 * 6894.757293168}
+    # at and below the closure pressure the corrected mercury saturation is 0 (Sw = 1)
+    assert np.all(pts.sw[hg & (pts.pc_lab <= 50 * 6894.757293168)] == 1.0)
+    raw = core_points(ds, closure=None)
+    np.testing.assert_allclose(raw.sw, raw.sw_raw, rtol=0, atol=1e-15)
