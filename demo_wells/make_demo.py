@@ -90,6 +90,10 @@ ZONES = [
     },
 ]
 
+#: Model file the project's zones refer to (written by make_core_demo.py from the
+#: invented core data); "" writes the zone functions inline instead.
+CORE_MODEL_FILE = "core_models.json"
+
 #: Thin wet sands in the cap shale (outside every zone): (top, base) TVDSS [m], porosity.
 STRINGERS = [(1961.8, 1964.3, 0.17), (1997.5, 1998.9, 0.15)]
 LOG_TOP, LOG_BASE = 1900.0, 2440.0   #: TVDSS span the bed model covers [m]
@@ -568,6 +572,11 @@ def project_text() -> str:
             f'sigma_cos_theta = "{z["sigma_cos_theta"]}"',
             "[zones.function]",
         ]
+        if CORE_MODEL_FILE:  # the functions fitted to the invented core data (make_core_demo.py)
+            out += [f'file = "{CORE_MODEL_FILE}"      # fitted by satheight fit to the invented core data',
+                    f'rock_type = "{z["name"]}"',
+                    f'family = "{z["family"]}"        # the J range comes from the core data', ""]
+            continue
         if z["family"] == "power_law":
             out.append('family = "power_law"            # Sw = swirr + (1 - swirr) * a * J^-b')
         else:

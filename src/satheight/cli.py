@@ -75,7 +75,88 @@ def build_parser() -> argparse.ArgumentParser:
                                    "permeability, resistivity and log Sw.")
     i.add_argument("las", metavar="FILE.las", help="LAS file to inspect")
     i.add_argument("--json", action="store_true", help="print the listing as JSON")
+    _add_fit_parser(sub)
     return p
+
+
+def _add_fit_parser(sub):
+    f = sub.add_parser(
+        "fit", help="fit J-Sw functions per rock type to core capillary-pressure tables",
+        description="Read core capillary-pressure tables (pressure steps, plug table, or "
+                    "single-plug tables), convert lab Pc to J from each plug's porosity and "
+                    "permeability, group plugs into rock types, fit each function family, print "
+                    "a fit table and write the model file, a points table and plots.")
+    f.add_argument("files", nargs="+", metavar="CORE_FILE", help="core-data CSV files")
+    f.add_argument("--out", metavar="DIR", default="core_fit_results",
+                   help="output folder (default: ./core_fit_results); created if missing")
+    f.add_argument("--model-file", default="models.json", metavar="NAME",
+                   help="name of the model file in the output folder (default: models.json)")
+    f.add_argument("--system", metavar="NAME", default=None,
+                   help="lab fluid system of steps that name none (mercury_air, air_brine, "
+                        "oil_brine, gas_brine, air_oil)")
+    f.add_argument("--lab", action="append", default=[], metavar="SYSTEM=VALUE",
+                   help='override a lab system: "mercury_air=480 mN/m,140 deg" or one '
+                        'sigma*cos(theta) "oil_brine=26 mN/m"; repeatable')
+    f.add_argument("--closure", default="auto", metavar="auto|none|PRESSURE",
+                   help="mercury closure correction: picked per curve (auto, default), none, "
+                        "or a pressure such as '5 psi' (bare number: psi)")
+    f.add_argument("--phi-factor", type=float, default=1.0,
+                   help="porosity stress-correction factor (stressed/ambient), default 1")
+    f.add_argument("--k-factor", type=float, default=1.0,
+                   help="permeability stress-correction factor (stressed/ambient), default 1")
+    g = f.add_mutually_exclusive_group()
+    g.add_argument("--group-by", metavar="COLUMN", default=None,
+                   help="rock types from a plug-table column (default: rock_type when every "
+                        "plug has one, else all plugs together)")
+    g.add_argument("--k-classes", metavar="EDGES", default=None,
+                   help="rock types by permeability classes, edges in mD, e.g. 1,10,100")
+    g.add_argument("--fzi-classes", metavar="EDGES", default=None,
+                   help="rock types by flow-zone-indicator classes, edges in um, e.g. 0.5,1,2")
+    f.add_argument("--class-names", metavar="NAMES", default=None,
+                   help="comma-separated names of the classes (one more than the edges)")
+    f.add_argument("--family", action="append", default=None, metavar="NAME",
+                   help="function family to fit (repeatable; default: all)")
+    f.add_argument("--reservoir", action="append", default=[], metavar="[ROCK=]SCT[,DRHO]",
+                   help='reservoir sigma*cos(theta) and water-hydrocarbon density difference, '
+                        'e.g. "Upper Sand=26 mN/m,300 kg/m3"; without ROCK= for every rock type; '
+                        "needed for reservoir Pc, the height axis and height functions")
+    f.add_argument("--no-plots", action="store_true", help="skip the plots")
+
+
+def _fit(args, out) -> int:
+    from .core import LAB_SYSTEMS
+    from .core_workflow import (FitSettings, fit_table, parse_classes, parse_closure,
+                                parse_lab_override, parse_reservoir, run_fit)
+    from .rocktypes import RockTypeRule
+
+    systems = dict(LAB_SYSTEMS)
+    for text in args.lab:
+        name, system = parse_lab_override(text, systems)
+        systems[name] = system
+    rule = None
+    if args.group_by:
+        rule = RockTypeRule("column", args.group_by)
+    elif args.k_classes:
+        rule = parse_classes(args.k_classes, "permeability", args.class_names)
+    elif args.fzi_classes:
+        rule = parse_classes(args.fzi_classes, "fzi", args.class_names)
+    settings = FitSettings(default_system=args.system, systems=systems,
+                           closure=parse_closure(args.closure), phi_factor=args.phi_factor,
+                           k_factor=args.k_factor, rule=rule,
+                           reservoir=dict(parse_reservoir(t) for t in args.reservoir),
+                           model_file=args.model_file, plots=not args.no_plots)
+    if args.family:
+        settings.families = tuple(args.family)
+    run = run_fit(args.files, args.out, settings)
+    print(fit_table(run.fits), file=out)
+    for w in run.warnings:
+        print(f"note: {w}", file=out)
+    print("wrote:", file=out)
+    for f in run.files:
+        print(f"  {f}", file=out)
+    print("Caution: fitted functions are estimates for review by a qualified professional.",
+          file=out)
+    return EXIT_OK
 
 
 def _common_run_options(sp):
@@ -163,6 +244,8 @@ def main(argv=None) -> int:
     try:
         if args.command == "inspect":
             return _inspect(args.las, args.json, sys.stdout)
+        if args.command == "fit":
+            return _fit(args, sys.stdout)
         from .pipeline import run_project
 
         if args.command == "demo":

@@ -26,7 +26,7 @@ from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
 from .models.base import JSwFunction
 from .results import (FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_J_ABOVE_RANGE,
-                      FLAG_J_BELOW_RANGE, FLAG_NO_ZONE, ShmResult)
+                      FLAG_J_BELOW_RANGE, FLAG_NO_ROCK_FUNCTION, FLAG_NO_ZONE, ShmResult)
 
 
 def height_above_fwl(tvdss, fwl):
@@ -123,6 +123,14 @@ class ZoneModel:
         [N/m] at reservoir conditions.
     function : JSwFunction
         Ready-to-predict J-Sw function.
+    rock_functions : dict[str, JSwFunction] or None
+        Optional per-rock-type functions: when given, each sample's rock type is
+        found by ``rock_classifier(phi, k)`` and that type's function is used
+        (``function`` is then not used for Sw). Samples whose type has no function
+        get Sw NaN and FLAG_NO_ROCK_FUNCTION.
+    rock_classifier : callable or None
+        ``(phi [fraction], k [m^2]) -> array of rock-type names``, vectorised
+        (e.g. :meth:`satheight.rocktypes.RockTypeRule.classify`).
     """
 
     name: str
@@ -134,6 +142,8 @@ class ZoneModel:
     hydrocarbon: str
     sigma_cos_theta: float
     function: JSwFunction
+    rock_functions: dict | None = None
+    rock_classifier: object | None = None
 
     @property
     def delta_rho(self) -> float:
@@ -218,11 +228,39 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
         m = (zone == i) & usable & ~below
         if not m.any():
             continue
-        ji = j[m]
-        sw[m] = zn.function.predict(ji)
-        rng = zn.function.j_range_
-        if rng is not None:
-            lo_bits = np.where(ji < rng[0], FLAG_J_BELOW_RANGE, 0)
-            hi_bits = np.where(ji > rng[1], FLAG_J_ABOVE_RANGE, 0)
-            flag[m] |= lo_bits | hi_bits
+        if zn.rock_functions:
+            sw[m], flag[m] = _predict_by_rock_type(zn, j[m], h[m], phi[m], k[m], flag[m])
+            continue
+        sw_i, bits = _predict(zn.function, j[m], h[m])
+        sw[m] = sw_i
+        flag[m] |= bits
     return ShmResult(zone=zone, hafwl=h, pc=pc, j=j, sw=sw, flag=flag)
+
+
+def _predict(fn: JSwFunction, j, h):
+    """Sw and range-flag bits of one function; a height function gets h [m], others J."""
+    x = h if getattr(fn, "variable", "j") == "height" else j
+    sw = fn.predict(x)
+    bits = np.zeros(x.shape, dtype=np.int64)
+    rng = fn.j_range_
+    if rng is not None:
+        bits |= np.where(x < rng[0], FLAG_J_BELOW_RANGE, 0)
+        bits |= np.where(x > rng[1], FLAG_J_ABOVE_RANGE, 0)
+    return sw, bits
+
+
+def _predict_by_rock_type(zn: ZoneModel, j, h, phi, k, flag):
+    """Sw per sample from the function of each sample's rock type (loop over rock types)."""
+    labels = np.asarray(zn.rock_classifier(phi, k), dtype=object)
+    sw = np.full(j.shape, np.nan)
+    flag = flag.copy()
+    known = np.zeros(j.shape, dtype=bool)
+    for name, fn in zn.rock_functions.items():
+        m = labels == name
+        if not m.any():
+            continue
+        known |= m
+        sw[m], bits = _predict(fn, j[m], h[m])
+        flag[m] |= bits
+    flag[~known] |= FLAG_NO_ROCK_FUNCTION
+    return sw, flag

@@ -156,9 +156,16 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
 def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
     fn = build_function(zs.function.family, zs.function.params, zs.function.j_range,
                         where=f"{path}, key zones[{zs.name}].function")
+    rock_functions = classifier = None
+    if zs.function.by_rock_type:  # per-depth rock typing from a model file
+        rock_functions = {rt: build_function(f.family, f.params, f.j_range,
+                                             where=f"{path}, key zones[{zs.name}].function")
+                          for rt, f in zs.function.by_rock_type.items()}
+        classifier = zs.function.rock_rule.classify
     return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
                      water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
-                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn)
+                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
+                     rock_functions=rock_functions, rock_classifier=classifier)
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
@@ -354,7 +361,22 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
         if zn.function.j_range_ is not None:
             items += [HeaderItem(p + "JMIN", "", zn.function.j_range_[0], f"Zone {i} calibrated J minimum"),
                       HeaderItem(p + "JMAX", "", zn.function.j_range_[1], f"Zone {i} calibrated J maximum")]
+        items += _model_file_parameters(project, zn, p, i)
     return items
+
+
+def _model_file_parameters(project: Project, zn: ZoneModel, p: str, i: int) -> list[HeaderItem]:
+    """~Parameter items naming the model file and rock type a zone's function came from."""
+    spec = next((z for z in project.zones if z.name == zn.name), None)
+    if spec is None or spec.function.file is None:
+        return []
+    fs = spec.function
+    if fs.by_rock_type:
+        rock = f"per depth by {fs.rock_rule.method} classes: " + ", ".join(fs.by_rock_type)
+    else:
+        rock = fs.rock_type or ""
+    return [HeaderItem(p + "MFILE", "", fs.file.name, f"Zone {i} J-Sw model file"),
+            HeaderItem(p + "ROCK", "", rock, f"Zone {i} rock type of the model file")]
 
 
 def _safe_name(name: str) -> str:

@@ -54,6 +54,14 @@ File format
     b = 1.5
     j_min = 0.02                    # optional calibrated J range (both or neither), 0 <= j_min < j_max
     j_max = 12
+    # or, instead of family + parameters, a function fitted by `satheight fit`:
+    # [zones.function]
+    # file = "core_models.json"     # model file (models/store.py), relative to the project file
+    # rock_type = "Upper Sand"      # optional if the file holds one rock type; without it and with
+    #                               # several rock types, rock typing is applied per depth (the
+    #                               # file's permeability/FZI class rule on log phi and k)
+    # family = "power_law"          # optional, default the file's selected family
+    # j_min / j_max                 # optional override of the J range covered by the core data
 
 Rules
 -----
@@ -117,6 +125,7 @@ _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
               "hydrocarbon_density", "sigma_cos_theta", "function")
 _HYDROCARBONS = ("oil", "gas", "air")
 _FUNCTION_FIXED_KEYS = ("family", "j_min", "j_max")
+_FUNCTION_FILE_KEYS = ("file", "rock_type", "family", "j_min", "j_max")
 
 _EXAMPLES = {
     "length": '"2060 m" or "6758 ft"',
@@ -481,6 +490,8 @@ class _Reader:
         if not isinstance(raw, dict):
             raise self.error(key, f"expected a table, found {_show(raw)}",
                              hint=f"write it as a [{key.split('[')[0]}.function] section")
+        if "file" in raw:
+            return self.read_function_file(raw, key)
         if "family" not in raw:
             raise self.error(f"{key}.family", "required key 'family' is missing",
                              hint="use one of " + ", ".join(sorted(FAMILIES)))
@@ -517,6 +528,55 @@ class _Reader:
                                 f"({', '.join(cls.param_names)}) against their allowed ranges")
             raise self.error(key, exc.what, hint=hint) from None
         return FunctionSpec(family=family, params=dict(fn.params_), j_range=fn.j_range_)
+
+    def read_function_file(self, raw: dict, key: str) -> FunctionSpec:
+        """``[zones.function] file = "models.json"`` (+ optional rock_type, family, j range)."""
+        from .models.store import load_models
+
+        self.table(raw, key, _FUNCTION_FILE_KEYS)
+        text = self.text(raw["file"], f"{key}.file")
+        path = (self.path.parent.resolve() / text).resolve()
+        try:
+            mf = load_models(path)
+        except (ModelError, InputFileError) as exc:
+            raise self.error(f"{key}.file", f"model file {text!r}: {exc}",
+                             hint="paths are relative to the project file; the file is written "
+                                  "by 'satheight fit'") from None
+        family = self.text(raw["family"], f"{key}.family") if "family" in raw else None
+        j_range = None
+        if ("j_min" in raw) != ("j_max" in raw):
+            missing = "j_max" if "j_min" in raw else "j_min"
+            raise self.error(f"{key}.{missing}", f"{missing!r} is missing while the other end of "
+                             "the calibrated J range is given", hint="give both or neither")
+        if "j_min" in raw:
+            j_range = (self.number(raw["j_min"], f"{key}.j_min"),
+                       self.number(raw["j_max"], f"{key}.j_max"))
+            if not 0 <= j_range[0] < j_range[1]:
+                raise self.error(f"{key}.j_min", "calibrated range does not satisfy "
+                                 "0 <= j_min < j_max", hint="check the two values")
+
+        def one(rock_type: str, k: str) -> FunctionSpec:
+            try:
+                fn = mf.function(rock_type, family, where=k)
+            except ModelError as exc:
+                raise self.error(k, exc.what, hint=exc.hint) from None
+            return FunctionSpec(family=fn.name, params=dict(fn.params_),
+                                j_range=j_range or fn.j_range_, file=path, rock_type=rock_type)
+
+        if "rock_type" in raw or len(mf.rock_types) == 1:
+            rt = (self.text(raw["rock_type"], f"{key}.rock_type") if "rock_type" in raw
+                  else next(iter(mf.rock_types)))
+            return one(rt, f"{key}.rock_type")
+        if not mf.rule.applies_to_logs:
+            raise self.error(f"{key}.rock_type",
+                             f"model file {text!r} holds {len(mf.rock_types)} rock types grouped "
+                             f"by plug-table column {mf.rule.column!r}, which logs cannot supply",
+                             hint="add rock_type = one of "
+                                  + ", ".join(repr(r) for r in mf.rock_types))
+        specs = {rt: one(rt, f"{key}.file") for rt in mf.rock_types}
+        first = next(iter(specs.values()))
+        return FunctionSpec(family=first.family, params=first.params, j_range=first.j_range,
+                            file=path, rock_type=None, by_rock_type=specs, rock_rule=mf.rule)
 
     def read_well(self, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
         key = f"wells[{_label(raw, ('name', 'las'), index)}]"

@@ -21,11 +21,24 @@ class FunctionSpec:
         The family's parameters, dimensionless.
     j_range : tuple[float, float] or None
         J range the function was calibrated on; samples outside it are flagged.
+    file : pathlib.Path or None
+        Model file the function came from (``[zones.function] file = ...``).
+    rock_type : str or None
+        Rock type of the model file used for the whole zone.
+    by_rock_type : dict[str, FunctionSpec] or None
+        Per-depth rock typing: one function per rock type of the model file; the
+        rock type of each sample follows ``rock_rule`` from the log phi and k.
+        ``family``/``params`` then hold the first rock type's function.
+    rock_rule : satheight.rocktypes.RockTypeRule or None
     """
 
     family: str
     params: dict[str, float]
     j_range: tuple[float, float] | None = None
+    file: Path | None = None
+    rock_type: str | None = None
+    by_rock_type: dict | None = None
+    rock_rule: object | None = None
 
 
 @dataclass(frozen=True)

@@ -15,6 +15,7 @@ FLAG_BAD_POROSITY = 2     #: porosity missing, zero, negative or above 1: Sw is 
 FLAG_BAD_PERMEABILITY = 4  #: permeability missing, zero or negative: Sw is NaN
 FLAG_J_BELOW_RANGE = 8    #: J above zero but below the calibrated range of the function
 FLAG_J_ABOVE_RANGE = 16   #: J above the calibrated range of the function (extrapolated)
+FLAG_NO_ROCK_FUNCTION = 32  #: the sample's rock type has no fitted function: Sw is NaN
 
 FLAG_MEANINGS = {
     FLAG_NO_ZONE: "outside every zone",
@@ -22,6 +23,7 @@ FLAG_MEANINGS = {
     FLAG_BAD_PERMEABILITY: "permeability missing or not positive",
     FLAG_J_BELOW_RANGE: "J below the calibrated range of the J-Sw function",
     FLAG_J_ABOVE_RANGE: "J above the calibrated range of the J-Sw function",
+    FLAG_NO_ROCK_FUNCTION: "rock type of the sample has no fitted function",
 }
 
 

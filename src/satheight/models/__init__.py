@@ -11,11 +11,17 @@ from ..errors import ModelError
 from .base import JSwFunction
 from .brooks_corey import BrooksCorey
 from .power_law import PowerLaw
+from .skelt_harrison import SkeltHarrison
+from .thomeer import Thomeer
+from .van_genuchten import VanGenuchten
 
 #: Registry of J-Sw function families by project-file name.
 FAMILIES: dict[str, type[JSwFunction]] = {
     PowerLaw.name: PowerLaw,
     BrooksCorey.name: BrooksCorey,
+    Thomeer.name: Thomeer,
+    VanGenuchten.name: VanGenuchten,
+    SkeltHarrison.name: SkeltHarrison,
 }
 
 
@@ -33,4 +39,5 @@ def build_function(family: str, params: dict, j_range=None, where: str = "") -> 
     return get_family(family, where).from_params(params, j_range=j_range, where=where)
 
 
-__all__ = ["FAMILIES", "JSwFunction", "PowerLaw", "BrooksCorey", "get_family", "build_function"]
+__all__ = ["FAMILIES", "JSwFunction", "PowerLaw", "BrooksCorey", "Thomeer", "VanGenuchten",
+           "SkeltHarrison", "get_family", "build_function"]

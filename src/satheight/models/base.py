@@ -17,6 +17,7 @@ before :meth:`JSwFunction.from_params`) raises :class:`NotFittedError`.
 
 from __future__ import annotations
 
+from dataclasses import dataclass, field
 from typing import ClassVar
 
 import numpy as np
@@ -31,6 +32,10 @@ class JSwFunction:
     param_names: ClassVar[tuple[str, ...]] = ()
     bounds: ClassVar[dict[str, tuple[float, float]]] = {}
     description: ClassVar[str] = ""
+    #: What ``predict`` and ``fit`` take: ``"j"`` (Leverett J [-], every J-Sw family)
+    #: or ``"height"`` (height above the FWL [m], height functions fitted to Sw
+    #: versus height directly). The engine passes the matching array.
+    variable: ClassVar[str] = "j"
 
     def __init__(self):
         self.params_: dict[str, float] | None = None
@@ -149,7 +154,123 @@ class JSwFunction:
             self.stderr_ = dict(zip(self.param_names, map(float, np.sqrt(np.diag(pcov)))))
         self.rmse_ = float(np.sqrt(np.mean((f(j, *popt) - sw) ** 2)))
         self.j_range_ = (float(j.min()), float(j.max()))
+        self._fit_data = (j, sw, f(j, *popt), np.asarray(pcov, dtype=float), ok)
         return self
+
+    # --- fit report (additive: statistics of the last fit) ----------------------------
+    def fit_report(self, groups=None) -> "FitReport":
+        """Statistics of the last :meth:`fit`.
+
+        Parameters
+        ----------
+        groups : array_like, optional
+            A label per point given to :meth:`fit` (same length as its ``j``), e.g.
+            the plug id; residuals are then summarised per label.
+
+        Returns
+        -------
+        FitReport
+            Parameters, standard errors, correlation matrix, RMSE, R^2, AIC, J range
+            and per-group residuals.
+
+        Notes
+        -----
+        ``AIC = n ln(RSS/n) + 2 p`` for least squares with Gaussian errors of
+        unknown variance (Akaike 1974; the least-squares form as in Burnham and
+        Anderson 2002, Model Selection and Multimodel Inference, section 2.2).
+        ``R^2 = 1 - RSS/TSS`` in saturation space. Standard errors and the
+        correlation matrix come from the covariance that
+        :func:`scipy.optimize.curve_fit` estimates (residual variance scaled).
+        """
+        data = getattr(self, "_fit_data", None)
+        if data is None or self.params_ is None:
+            raise NotFittedError(f"{self.name} function has not been fitted",
+                                 hint="call fit(j, sw) before fit_report()")
+        j, sw, pred, pcov, ok = data
+        resid = pred - sw
+        n, p = sw.size, len(self.param_names)
+        rss = float(np.sum(resid ** 2))
+        tss = float(np.sum((sw - sw.mean()) ** 2))
+        with np.errstate(invalid="ignore", divide="ignore"):
+            se = np.sqrt(np.diag(pcov))
+            corr = pcov / np.outer(se, se)
+        per_group: dict[str, dict[str, float]] = {}
+        if groups is not None:
+            g = np.asarray(groups, dtype=object)
+            if g.shape != ok.shape:
+                raise ModelError(f"groups has {g.size} labels but fit had {ok.size} points",
+                                 hint="give one label per point passed to fit")
+            g = g[ok]
+            for label in dict.fromkeys(g.tolist()):  # loop over plugs, not samples
+                m = g == label
+                r = resid[m]
+                per_group[str(label)] = {"n": int(m.sum()), "mean": float(r.mean()),
+                                         "rms": float(np.sqrt(np.mean(r ** 2))),
+                                         "max_abs": float(np.max(np.abs(r)))}
+        return FitReport(
+            family=self.name, params=dict(self.params_), stderr=dict(self.stderr_ or {}),
+            correlation=[[float(x) for x in row] for row in corr],
+            n_points=int(n), rmse=float(np.sqrt(rss / n)),
+            r2=float(1.0 - rss / tss) if tss > 0 else float("nan"),
+            aic=float(n * np.log(max(rss, 1e-300) / n) + 2 * p),
+            j_range=tuple(self.j_range_), residuals_by_group=per_group,
+            variable=getattr(self, "variable", "j"))
 
     def __repr__(self) -> str:
         return f"{type(self).__name__}(params_={self.params_}, j_range_={self.j_range_})"
+
+
+@dataclass
+class FitReport:
+    """Statistics of one least-squares fit (see :meth:`JSwFunction.fit_report`).
+
+    Attributes
+    ----------
+    family : str
+    params, stderr : dict[str, float]
+        Fitted parameters and their standard errors (same units as the parameters).
+    correlation : list[list[float]]
+        Parameter correlation matrix in the order of ``params``.
+    n_points : int
+    rmse : float
+        Root-mean-square saturation residual [fraction].
+    r2 : float
+        Coefficient of determination in saturation space [-].
+    aic : float
+        Akaike information criterion, least-squares form [-].
+    j_range : tuple[float, float]
+        Range of the fitted variable covered by data (J [-], or height [m] for a
+        height function); used to flag extrapolation.
+    residuals_by_group : dict[str, dict]
+        Per label (plug): number of points, mean, RMS and largest absolute residual.
+    variable : str
+        ``"j"`` or ``"height"``: what the function takes.
+    """
+
+    family: str
+    params: dict[str, float]
+    stderr: dict[str, float]
+    correlation: list[list[float]]
+    n_points: int
+    rmse: float
+    r2: float
+    aic: float
+    j_range: tuple[float, float]
+    residuals_by_group: dict[str, dict] = field(default_factory=dict)
+    variable: str = "j"
+
+    def to_dict(self) -> dict:
+        """JSON-ready dict (NaN turned into None)."""
+        def clean(v):
+            if isinstance(v, float):
+                return v if np.isfinite(v) else None
+            if isinstance(v, dict):
+                return {k: clean(x) for k, x in v.items()}
+            if isinstance(v, (list, tuple)):
+                return [clean(x) for x in v]
+            return v
+        return clean({"family": self.family, "variable": self.variable, "params": self.params,
+                      "stderr": self.stderr, "correlation": self.correlation,
+                      "n_points": self.n_points, "rmse": self.rmse, "r2": self.r2,
+                      "aic": self.aic, "j_range": list(self.j_range),
+                      "residuals_by_plug": self.residuals_by_group})

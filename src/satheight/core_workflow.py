@@ -1,0 +1,309 @@
+"""Fit a core dataset end to end: read, convert, group, fit, save the model file and plots.
+
+This is what ``satheight fit`` calls. The steps are the public functions of
+:mod:`satheight.core`, :mod:`satheight.io.core_data`, :mod:`satheight.rocktypes`
+and :mod:`satheight.models.store`; this module only wires them and writes files:
+
+- ``<model file>`` (default ``models.json``): fitted functions per rock type with
+  provenance (:mod:`satheight.models.store`);
+- ``core_points.csv``: every pressure step after conversion (lab Pc, corrected
+  Sw, J, reservoir Pc, equivalent height, pore-throat radius, rock type);
+- ``core_j_sw.png`` and ``core_pc.png`` (:mod:`satheight.core_plots`).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from . import constants as C
+from .core import (DEFAULT_FAMILIES, CorePoints, FluidSystem, core_points, fit_rock_types,
+                   height_from_pc, lab_to_reservoir_pc)
+from .errors import SatHeightError
+from .io.atomic import atomic_write_text
+from .io.core_data import read_core_files
+from .models import get_family
+from .models.store import models_to_dict, save_models
+from .rocktypes import RockTypeRule, plug_rock_types
+
+
+@dataclass(frozen=True)
+class ReservoirFluids:
+    """Reservoir fluids of a rock type: sigma*cos(theta) [N/m] and density difference [kg/m^3]."""
+
+    sigma_cos_theta: float
+    delta_rho: float | None = None
+
+
+@dataclass
+class FitSettings:
+    """Choices of one fit run (all SI).
+
+    Attributes
+    ----------
+    default_system : str or None
+        Lab system of steps that name none.
+    systems : dict[str, FluidSystem] or None
+        Lab systems with the dataset's overrides (default: the textbook table).
+    closure : "auto", None or float
+        Mercury closure correction: picked per curve, none, or a pressure [Pa].
+    phi_factor, k_factor : float
+        Stress-correction factors [-].
+    rule : RockTypeRule or None
+        Grouping; None: the plug table's ``rock_type`` column when every plug has
+        one, else all plugs together.
+    families : tuple of str
+    reservoir : dict[str, ReservoirFluids]
+        Rock-type name (or ``"*"`` for every other) -> reservoir fluids, for the
+        reservoir Pc, the height axis and height functions.
+    model_file : str
+        Name of the model file in the output folder.
+    plots : bool
+    """
+
+    default_system: str | None = None
+    systems: dict | None = None
+    closure: object = "auto"
+    phi_factor: float = 1.0
+    k_factor: float = 1.0
+    rule: RockTypeRule | None = None
+    families: tuple = DEFAULT_FAMILIES + ("skelt_harrison",)
+    reservoir: dict = field(default_factory=dict)
+    model_file: str = "models.json"
+    plots: bool = True
+
+
+@dataclass
+class FitRun:
+    """What a fit run produced."""
+
+    points: CorePoints
+    fits: dict
+    rule: RockTypeRule
+    model_path: Path
+    files: list
+    warnings: list
+
+
+def _apply_reservoir(points: CorePoints, lab_sct: np.ndarray, reservoir: dict) -> None:
+    """Fill pc_res and height per rock type (vectorised per group)."""
+    for rt in dict.fromkeys(points.rock_type.tolist()):
+        fluids = reservoir.get(rt or "all", reservoir.get("*"))
+        if fluids is None:
+            continue
+        m = points.rock_type == rt
+        points.pc_res[m] = lab_to_reservoir_pc(points.pc_lab[m], lab_sct[m], fluids.sigma_cos_theta)
+        if fluids.delta_rho is not None:
+            points.height[m] = height_from_pc(points.pc_res[m], fluids.delta_rho)
+
+
+def points_csv(points: CorePoints) -> str:
+    """Text of ``core_points.csv`` (Pc in psi, height in m, radius in um, k in mD)."""
+    import pandas as pd
+
+    frame = pd.DataFrame({
+        "plug": points.plug, "system": points.system, "rock_type": points.rock_type,
+        "pc_lab [psi]": points.pc_lab / C.PSI, "sw_raw [frac]": points.sw_raw,
+        "sw [frac]": points.sw, "porosity [frac]": points.phi,
+        "permeability [mD]": points.k / C.MILLIDARCY, "j [-]": points.j,
+        "pc_res [psi]": points.pc_res / C.PSI, "height [m]": points.height,
+        "throat_radius [um]": points.throat_radius * 1e6})
+    return frame.to_csv(index=False, float_format="%.6g", lineterminator="\n")
+
+
+def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
+    """Read core files, convert, group by rock type, fit, and write the outputs.
+
+    Parameters
+    ----------
+    paths : sequence of path
+        Core-data files (any of the layouts of :mod:`satheight.io.core_data`).
+    out_dir : path
+        Output folder, created if missing.
+    settings : FitSettings, optional
+
+    Returns
+    -------
+    FitRun
+
+    Raises
+    ------
+    SatHeightError
+        Bad input (names file and row), an unknown family, nothing to fit.
+    """
+    s = settings or FitSettings()
+    for fam in s.families:
+        get_family(fam, where="families")
+    if not paths:
+        raise SatHeightError("no core-data files given", hint="name the pressure-steps and plug tables")
+    ds = read_core_files(paths, default_system=s.default_system, systems=s.systems)
+    warnings = ds.validate()
+    used = {c.plug_id for c in ds.curves}
+    plugs = {p: ds.plugs[p] for p in ds.plugs if p in used}
+    rule = s.rule
+    if rule is None:
+        has_rt = all(p.rock_type for p in plugs.values())
+        rule = RockTypeRule("column", "rock_type") if has_rt else None
+    if rule is None:
+        rock_types = {p: "all" for p in plugs}
+        rule_out = RockTypeRule("column", "rock_type")
+    else:
+        rock_types = plug_rock_types(plugs, rule)
+        rule_out = rule
+    points = core_points(ds, closure=s.closure, phi_factor=s.phi_factor, k_factor=s.k_factor,
+                         rock_types=rock_types)
+    lab_sct = np.array([ds.systems[x].sigma_cos_theta for x in points.system])
+    _apply_reservoir(points, lab_sct, s.reservoir)
+    fits = fit_rock_types(points, s.families)
+    out = Path(out_dir)
+    if out.exists() and not out.is_dir():
+        raise SatHeightError("output path exists and is not a folder", where=str(out),
+                             hint="choose another --out")
+    out.mkdir(parents=True, exist_ok=True)
+    provenance = {
+        "files": ds.files,
+        "lab_systems": {name: ds.systems[name].to_dict()
+                        for name in dict.fromkeys(points.system.tolist())},
+        "closure": (s.closure if s.closure in (None, "auto") else {"pressure_psi": s.closure / C.PSI}),
+        "closure_picked_psi": {k: v / C.PSI for k, v in points.closure.items()},
+        "stress_factors": {"porosity": s.phi_factor, "permeability": s.k_factor},
+        "reservoir": {rt: {"sigma_cos_theta_mN_per_m": f.sigma_cos_theta * 1e3,
+                           "delta_rho_kg_per_m3": f.delta_rho} for rt, f in s.reservoir.items()},
+        "selection": "selected = J family with the lowest AIC",
+    }
+    model_path = save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))
+    files = [model_path]
+    pts = out / "core_points.csv"
+    atomic_write_text(pts, points_csv(points))
+    files.append(pts)
+    if s.plots:
+        from .core_plots import pc_plot, j_sw_plot
+
+        files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
+        files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
+    for rt, e in fits.items():
+        for fam, msg in e["errors"].items():
+            warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
+    return FitRun(points=points, fits=fits, rule=rule_out, model_path=model_path, files=files,
+                  warnings=warnings)
+
+
+def fit_table(fits: dict) -> str:
+    """Plain-text table of the fits: one line per rock type and family."""
+    lines = [f"{'rock type':<16} {'family':<15} {'n':>5} {'RMSE':>7} {'R2':>7} {'AIC':>9} "
+             f"{'range':>19}  parameters (± standard error)"]
+    for rt, e in fits.items():
+        for fam, r in e["fits"].items():
+            mark = "*" if fam == e["selected"] else " "
+            params = ", ".join(f"{p} {v:.4g} ± {r.stderr.get(p, float('nan')):.2g}"
+                               for p, v in r.params.items())
+            unit = "m" if r.variable == "height" else "J"
+            rng = f"{unit} {r.j_range[0]:.3g}-{r.j_range[1]:.3g}"
+            lines.append(f"{rt[:16]:<16} {fam + mark:<15} {r.n_points:>5} {r.rmse:>7.4f} "
+                         f"{r.r2:>7.4f} {r.aic:>9.1f} {rng:>19}  {params}")
+    lines.append("* selected (lowest AIC among J families); ranges: J covered by data "
+                 "(height [m] for height functions)")
+    return "\n".join(lines)
+
+
+# ----------------------------------------------------------------------------------
+# option texts of the command line (units at the edge)
+
+def _split_pair(text: str, what: str) -> tuple[str | None, str]:
+    if "=" in text:
+        name, value = text.split("=", 1)
+        name = name.strip()
+        if not name:
+            raise SatHeightError(f"{what} {text!r} has an empty name before '='")
+        return name, value.strip()
+    return None, text.strip()
+
+
+def parse_lab_override(text: str, base: dict) -> tuple[str, FluidSystem]:
+    """``"mercury_air=485 mN/m,140 deg"`` or ``"oil_brine=26 mN/m"`` (sigma*cos(theta)).
+
+    Bare numbers are mN/m and degrees.
+    """
+    from .core import fluid_system
+    from .units import parse_quantity
+
+    name, value = _split_pair(text, "--lab")
+    if name is None:
+        raise SatHeightError(f"--lab {text!r} needs SYSTEM=VALUE",
+                             hint='e.g. --lab "mercury_air=480 mN/m,140 deg" or --lab "oil_brine=26 mN/m"')
+    parts = [p.strip() for p in value.split(",") if p.strip()]
+    where = f"--lab {text}"
+    try:
+        if len(parts) == 1:
+            return name, fluid_system(name, base, sigma_cos_theta=parse_quantity(parts[0], "tension", "mN/m"),
+                                      where=where)
+        if len(parts) == 2:
+            return name, fluid_system(name, base, sigma=parse_quantity(parts[0], "tension", "mN/m"),
+                                      theta=parse_quantity(parts[1], "angle", "deg"), where=where)
+    except SatHeightError as exc:
+        raise SatHeightError(exc.what, where=where, hint=exc.hint) from None
+    raise SatHeightError(f"--lab {text!r}: give 'sigma, theta' or one sigma*cos(theta)", where=where)
+
+
+def parse_reservoir(text: str) -> tuple[str, ReservoirFluids]:
+    """``"[ROCK TYPE=]26 mN/m[,300 kg/m3]"``: sigma*cos(theta) and density difference.
+
+    Without a rock-type name the fluids apply to every rock type not named
+    otherwise (key ``"*"``). Bare numbers are mN/m and kg/m^3; the density
+    difference may be a gradient (``"0.13 psi/ft"``).
+    """
+    from .units import parse_quantity
+
+    name, value = _split_pair(text, "--reservoir")
+    parts = [p.strip() for p in value.split(",") if p.strip()]
+    where = f"--reservoir {text}"
+    if not 1 <= len(parts) <= 2:
+        raise SatHeightError("give sigma*cos(theta) and optionally the density difference",
+                             where=where, hint='e.g. --reservoir "Upper Sand=26 mN/m,300 kg/m3"')
+    try:
+        sct = parse_quantity(parts[0], "tension", "mN/m")
+        drho = parse_quantity(parts[1], "density", "kg/m3") if len(parts) == 2 else None
+    except SatHeightError as exc:
+        raise SatHeightError(exc.what, where=where, hint=exc.hint) from None
+    if not sct > 0 or (drho is not None and not drho > 0):
+        raise SatHeightError("sigma*cos(theta) and the density difference must be > 0", where=where)
+    return name or "*", ReservoirFluids(sct, drho)
+
+
+def parse_closure(text: str):
+    """``"auto"``, ``"none"`` or a pressure (bare number psi) -> setting for FitSettings."""
+    from .units import parse_quantity
+
+    t = text.strip().lower()
+    if t == "auto":
+        return "auto"
+    if t == "none":
+        return None
+    try:
+        v = parse_quantity(text, "pressure", "psi")
+    except SatHeightError as exc:
+        raise SatHeightError(exc.what, where=f"--closure {text}",
+                             hint="give auto, none or a pressure such as '5 psi'") from None
+    if not v > 0:
+        raise SatHeightError("closure pressure must be > 0", where=f"--closure {text}")
+    return v
+
+
+def parse_classes(text: str, kind: str, names: str | None) -> RockTypeRule:
+    """Class edges ``"1,10,100"`` (mD for permeability, um for FZI) -> RockTypeRule."""
+    from .units import parse_quantity
+
+    opt = "--k-classes" if kind == "permeability" else "--fzi-classes"
+    try:
+        if kind == "permeability":
+            edges = tuple(parse_quantity(x.strip(), "permeability", "mD") for x in text.split(","))
+        else:
+            edges = tuple(float(x) for x in text.split(","))
+        nm = tuple(x.strip() for x in names.split(",")) if names else ()
+        return RockTypeRule(kind, None, edges, nm)
+    except (SatHeightError, ValueError) as exc:
+        what = exc.what if isinstance(exc, SatHeightError) else str(exc)
+        raise SatHeightError(what, where=f"{opt} {text}",
+                             hint="give increasing edges such as 1,10,100") from None
