@@ -139,7 +139,9 @@ def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
                         where=f"{path}, key zones[{zs.name}].function")
     return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
                      water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
-                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn)
+                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
+                     gas_oil_level=zs.gas_oil_level, gas_density=zs.gas_density,
+                     gas_sigma_cos_theta=zs.gas_sigma_cos_theta)
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
