@@ -292,6 +292,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
+    _add_contacts(result, project, U.factor(length_unit, "length"))
     json_path = out_dir / f"{stem}_summary.json"
     atomic_write_text(json_path, json.dumps(result.summary, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
@@ -302,6 +303,17 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
                             units=project.unit_system)
     return files
+
+
+def _add_contacts(result: WellResult, project: Project, length_factor: float) -> None:
+    """Entry height and contact depth per zone into the well's JSON summary (key ``contact``)."""
+    from .contacts import contacts_summary
+
+    zones = result.summary.get("zones", {})
+    for name, block in contacts_summary(result, length_factor, project.comparison.min_porosity,
+                                        project.comparison.min_permeability).items():
+        if name in zones:
+            zones[name]["contact"] = block
 
 
 CAUTION = ("Results are estimates for review by a qualified professional; local regulations "

@@ -34,7 +34,7 @@ __all__ = ["LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "an
 #: Quality words of points used in fits by default.
 DEFAULT_QUALITIES = ("good", "fair")
 
-#: Smallest robust residual scale [Pa] for outlier rejection: a gauge resolution of
+#: Smallest residual spread [Pa] for outlier rejection: a gauge resolution of
 #: about 0.01 psi (common practice), so exact data are never rejected.
 PRESSURE_RESOLUTION = 70.0
 
@@ -170,13 +170,18 @@ class ZonePressures:
 
 
 def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = None,
-                 reject: bool = True, threshold: float = 3.5,
+                 reject: bool = True, alpha: float = 0.05,
                  resolution: float = PRESSURE_RESOLUTION, min_points: int = 3) -> LineFit:
     """Least-squares pressure-depth line with iterative outlier rejection.
 
-    Each round fits ``p = c + b (z - z_ref)``, scales the residuals by a robust
-    spread ``max(1.4826 * MAD, resolution)`` and drops the worst point if it lies
-    beyond ``threshold`` spreads, while more than ``min_points`` points remain.
+    Each round fits ``p = c + b (z - z_ref)`` and computes every point's
+    externally studentised (deleted) residual ``t_i = r_i / (s_(i) sqrt(1 - h_ii))``,
+    with ``s_(i)`` the residual spread without point i (never below
+    ``resolution``) and ``h_ii`` its leverage. The point with the largest
+    ``|t_i|`` is dropped if it exceeds the two-sided Student-t critical value at
+    ``alpha / n`` (Bonferroni), while more than ``min_points`` points remain. A
+    far-off point at the end of the depth range (high leverage) is caught as
+    well as one in the middle; with few points only gross outliers are dropped.
 
     Parameters
     ----------
@@ -191,10 +196,10 @@ def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = N
         one or two points).
     reject : bool
         Reject outliers (default True).
-    threshold : float
-        Outlier threshold in robust spreads [-].
+    alpha : float
+        Family-wise false-rejection probability of the outlier test [-].
     resolution : float
-        Smallest robust spread [Pa].
+        Smallest residual spread [Pa] (gauge resolution), so exact data are kept.
     min_points : int
         Rejection never goes below this many points.
 
@@ -206,6 +211,11 @@ def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = N
     ------
     SatHeightError
         Fewer than 2 points (1 with a given gradient) or all at one depth.
+
+    References
+    ----------
+    Cook, R. D. and Weisberg, S., 1982. Residuals and Influence in Regression.
+    Chapman and Hall (externally studentised residuals; from memory).
     """
     z = np.asarray(depth, dtype=float)
     p = np.asarray(pressure, dtype=float)
@@ -218,16 +228,25 @@ def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = N
     if gradient is None and np.ptp(z[idx]) <= 0:
         raise SatHeightError(f"{fluid or 'a fluid'}: all pressure points lie at one depth",
                              hint="a gradient needs points at two or more depths")
+    n_par = 1 if gradient is not None else 2
     used = idx.copy()
     rejected: list[int] = []
     while True:
         fit = _ols(z[used], p[used], gradient)
-        if not reject or used.size <= max(min_points, need + 1):
+        n = used.size
+        if not reject or n <= max(min_points, n_par + 1):
             break
-        r = p[used] - (fit[0] + fit[1] * (z[used] - fit[2]))
-        spread = max(1.4826 * float(np.median(np.abs(r - np.median(r)))), resolution)
-        worst = int(np.argmax(np.abs(r)))
-        if abs(r[worst]) <= threshold * spread:
+        x = z[used] - fit[2]
+        r = p[used] - (fit[0] + fit[1] * x)
+        lev = 1.0 / n + (0.0 if gradient is not None else x * x / float(x @ x))
+        dof = n - n_par - 1
+        with np.errstate(invalid="ignore", divide="ignore"):
+            s2_del = (float(r @ r) - r * r / (1 - lev)) / dof
+            s_del = np.maximum(np.sqrt(np.maximum(s2_del, 0.0)), resolution)
+            t = np.abs(r) / (s_del * np.sqrt(np.maximum(1 - lev, 1e-12)))
+        worst = int(np.nanargmax(t))
+        crit = float(stats.t.ppf(1 - alpha / (2 * n), dof))
+        if not t[worst] > crit:
             break
         rejected.append(int(used[worst]))
         used = np.delete(used, worst)
@@ -312,7 +331,7 @@ def intersect(dense: LineFit, light: LineFit, kind: str = "FWL", level: float = 
 
 def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
                       gradients: dict[str, float] | None = None, reject: bool = True,
-                      threshold: float = 3.5) -> dict[str, ZonePressures]:
+                      alpha: float = 0.05) -> dict[str, ZonePressures]:
     """Fit lines and find free levels per zone of a pressure file.
 
     Parameters
@@ -324,7 +343,7 @@ def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
     gradients : dict[str, float], optional
         Known gradients [Pa/m] per fluid, used for a fluid with fewer than 3
         points (only its intercept is then fitted).
-    reject, threshold :
+    reject, alpha :
         Outlier rejection (see :func:`fit_gradient`).
 
     Returns
@@ -348,7 +367,7 @@ def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
             grad = gradients.get(fluid) if sel.size < 3 else None
             try:
                 lf = fit_gradient(zp.tvdss[sel], zp.pressure[sel], fluid, gradient=grad,
-                                  reject=reject, threshold=threshold)
+                                  reject=reject, alpha=alpha)
             except SatHeightError as exc:
                 res.notes.append(f"{fluid}: {exc.what}")
                 continue
