@@ -250,6 +250,12 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
             HeaderItem(p + "SIGCOS", u["tension"], round(U.from_si(zn.sigma_cos_theta, u["tension"], "tension"), 6), f"Zone {i} sigma*cos(theta)"),
             HeaderItem(p + "FUNC", "", zn.function.name, f"Zone {i} J-Sw function: {zn.function.description}"),
         ]
+        if getattr(zn, "gas_oil_level", None) is not None:   # three-phase column
+            items += [
+                HeaderItem(p + "GOL", u["depth"], round(U.from_si(zn.gas_oil_level, u["depth"], "length"), 4), f"Zone {i} free-oil (gas-oil) level TVDSS"),
+                HeaderItem(p + "RHOG", u["density"], round(U.from_si(zn.gas_density, u["density"], "density"), 6), f"Zone {i} gas density"),
+                HeaderItem(p + "SIGCOSG", u["tension"], round(U.from_si(zn.gas_sigma_cos_theta, u["tension"], "tension"), 6), f"Zone {i} gas-water sigma*cos(theta)"),
+            ]
         for pname, pval in zn.function.params_.items():
             items.append(HeaderItem(f"{p}{pname.upper()}", "", pval, f"Zone {i} function parameter {pname}"))
         if zn.function.j_range_ is not None:
