@@ -43,6 +43,10 @@ File format
     water_density = "1.08 g/cm3"    # reservoir conditions; a density OR a pressure gradient ("0.468 psi/ft", "10.6 kPa/m") -> kg/m3
     hydrocarbon_density = "0.75 g/cm3"
     sigma_cos_theta = "26 mN/m"     # or dyn/cm, N/m; > 0
+    # instead of the densities: correlation inputs (see satheight.project_fluids):
+    # water = { salinity = "80000 ppm" }, oil = { api, solution_gor, gas_gravity },
+    # gas = { gravity, z_method }, conditions = { pressure, temperature } or gradients;
+    # three-phase column: gas_oil_level, gas_density (or gas), gas_sigma_cos_theta
     [zones.function]
     family = "power_law"            # a key of models.FAMILIES
     swirr = 0.1                     # family parameters (plain numbers)
