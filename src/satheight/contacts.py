@@ -47,7 +47,7 @@ Mathematical Statistics 35(1), 73-101.
 from __future__ import annotations
 
 import warnings
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from typing import Sequence
 
 import numpy as np
