@@ -76,6 +76,7 @@ def build_parser() -> argparse.ArgumentParser:
     i.add_argument("las", metavar="FILE.las", help="LAS file to inspect")
     i.add_argument("--json", action="store_true", help="print the listing as JSON")
     _add_fit_parser(sub)
+    _add_contact_commands(sub)
     return p
 
 
@@ -156,6 +157,184 @@ def _fit(args, out) -> int:
         print(f"  {f}", file=out)
     print("Caution: fitted functions are estimates for review by a qualified professional.",
           file=out)
+    return EXIT_OK
+
+
+def _add_contact_commands(sub):
+    """The ``fwl`` and ``pressures`` subcommands (contacts)."""
+    f = sub.add_parser("fwl", help="find the FWL of each zone from log Sw, with an interval",
+                       description="Search the free-water level of each zone that best matches "
+                                   "the saturation-height Sw to log Sw, jointly over the wells "
+                                   "and per well, with a block-bootstrap interval. Depths in the "
+                                   "project's length unit. Prints a table, writes "
+                                   "fwl_<zone>.json and a misfit plot.")
+    f.add_argument("project", metavar="PROJECT_FILE", help="path of the project file (.toml)")
+    f.add_argument("--zone", action="append", metavar="ZONE",
+                   help="zone to search (repeat for several; default: every zone)")
+    f.add_argument("--wells", nargs="+", metavar="WELL",
+                   help="wells to use (default: every well with log Sw)")
+    f.add_argument("--out", metavar="DIR", default=None,
+                   help="output folder (default: ./<project file name>_fwl)")
+    f.add_argument("--window", nargs=2, type=float, metavar=("SHALLOW", "DEEP"),
+                   help="candidate FWL range, TVDSS (default: zone top to base + half the zone)")
+    f.add_argument("--step", type=float, default=None, help="candidate spacing (default 0.25 m)")
+    f.add_argument("--misfit", choices=("huber", "absolute"), default="huber",
+                   help="robust misfit of SHM Sw - log Sw (default huber)")
+    f.add_argument("--delta", type=float, default=0.05,
+                   help="Huber threshold in Sw units (default 0.05)")
+    f.add_argument("--resamples", type=int, default=200,
+                   help="bootstrap resamples, 10-5000 (default 200)")
+    f.add_argument("--block", type=int, default=None,
+                   help="bootstrap block length in samples (default: from residual correlation)")
+    f.add_argument("--seed", type=int, default=20240611, help="bootstrap seed")
+    f.add_argument("--tolerance", type=float, default=0.0,
+                   help="flag a well when its interval misses the joint one by more than this")
+    f.add_argument("--shale-curve", metavar="MNEMONIC",
+                   help="shale indicator curve (e.g. GR); with --max-shale")
+    f.add_argument("--max-shale", type=float, help="samples above this shale value are left out")
+    f.add_argument("--exclude", action="append", default=[], metavar="[WELL:]TOP:BASE",
+                   help="leave out a TVDSS interval (in one well or all); repeatable")
+    f.add_argument("--fit", action="append", default=[], metavar="PARAM:LOW:HIGH",
+                   help="also fit this J-Sw parameter within bounds with the FWL; repeatable")
+    f.add_argument("--no-plots", action="store_true", help="skip the misfit plots")
+
+    pr = sub.add_parser("pressures", help="fluid gradients, FWL and free-oil level from pressures",
+                        description="Fit a pressure-depth line per fluid (least squares with "
+                                    "outlier rejection), report gradients, densities, the FWL "
+                                    "and free-oil level with intervals; with --project compare "
+                                    "with the project's FWL and the FWL from log Sw.")
+    pr.add_argument("pressure_file", metavar="PRESSURE_FILE", help="pressure-points CSV")
+    pr.add_argument("--project", metavar="PROJECT_FILE",
+                    help="project file: datums for MD points, FWLs and wells to compare with")
+    pr.add_argument("--zone", help="project zone of the points when the file has no zone column")
+    pr.add_argument("--out", metavar="DIR", default=None,
+                    help="output folder (default: ./<pressure file name>_pressures)")
+    pr.add_argument("--units", choices=("metric", "field"), default=None,
+                    help="units of the printout and files (default: the project's, else metric)")
+    pr.add_argument("--use-poor", action="store_true", help="also fit points of quality poor")
+    pr.add_argument("--no-logs", action="store_true", help="skip the FWL search from log Sw")
+    pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
+
+
+def _parse_exclude(items):
+    from .errors import SatHeightError
+
+    out = []
+    for it in items:
+        parts = it.split(":")
+        try:
+            if len(parts) == 2:
+                out.append((None, float(parts[0]), float(parts[1])))
+            elif len(parts) == 3:
+                out.append((parts[0], float(parts[1]), float(parts[2])))
+            else:
+                raise ValueError
+        except ValueError:
+            raise SatHeightError(f"--exclude {it!r} is not [WELL:]TOP:BASE",
+                                 hint="e.g. --exclude VANTREL-2:2060:2062") from None
+    return out
+
+
+def _parse_fit(items):
+    from .errors import SatHeightError
+
+    out = {}
+    for it in items:
+        parts = it.split(":")
+        try:
+            name, lo, hi = parts[0], float(parts[1]), float(parts[2])
+        except (ValueError, IndexError):
+            raise SatHeightError(f"--fit {it!r} is not PARAM:LOW:HIGH",
+                                 hint="e.g. --fit swirr:0:0.3") from None
+        out[name] = (lo, hi)
+    return out
+
+
+def _fwl(args, out) -> int:
+    from .contacts_run import run_fwl
+
+    project = Path(args.project)
+    rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
+                  plot=not args.no_plots, window=args.window, step=args.step,
+                  misfit=args.misfit, delta=args.delta, n_boot=args.resamples,
+                  block_length=args.block, seed=args.seed, tolerance=args.tolerance,
+                  shale_curve=args.shale_curve, max_shale=args.max_shale,
+                  exclude=_parse_exclude(args.exclude), fit_parameters=_parse_fit(args.fit) or None)
+    u = rep["units"]
+    print(f"project: {rep['project']}", file=out)
+    for name, d in rep["zones"].items():
+        lo, hi = d["interval"]
+        print(f"zone {name}: best FWL {d['best_fwl']:.2f} {u}, "
+              f"{int(round(d['confidence_level'] * 100))} % interval {lo:.2f} - {hi:.2f} {u}; "
+              f"project FWL {d['project_fwl']:.2f} {u}; misfit best {d['misfit_at_best']:.5f}, "
+              f"at project FWL {d['misfit_at_project_fwl']:.5f} ({d['samples']} samples)", file=out)
+        print(f"  {'well':<16} {'samples':>7} {'best FWL':>10} {'low':>10} {'high':>10}  flag",
+              file=out)
+        for w in d["wells"]:
+            if w["best_fwl"] is None:
+                print(f"  {w['well']:<16} {w['samples']:>7} {'-':>10}", file=out)
+                continue
+            print(f"  {w['well']:<16} {w['samples']:>7} {w['best_fwl']:>10.2f} "
+                  f"{w['interval'][0]:>10.2f} {w['interval'][1]:>10.2f}  "
+                  f"{'OUTSIDE' if w['flagged'] else ''}", file=out)
+        p = d.get("parameters")
+        if p:
+            vals = ", ".join(f"{k} {v:.4g}" for k, v in p["values"].items())
+            print(f"  joint fit: FWL {p['fwl']:.2f} {u}, {vals}", file=out)
+            if p.get("correlation"):
+                names = p["names"]
+                for i, row in enumerate(p["correlation"]):
+                    print("    corr " + f"{names[i]:<8}" + " ".join(f"{v:+.2f}" for v in row),
+                          file=out)
+        for m in d["warnings"]:
+            print(f"  note: {m}", file=out)
+    for m in rep["notes"]:
+        print(f"note: {m}", file=out)
+    for fpath in rep["files"]:
+        print(f"wrote {fpath}", file=out)
+    return EXIT_OK
+
+
+def _pressures(args, out) -> int:
+    from .contacts_run import run_pressures
+
+    src = Path(args.pressure_file)
+    quals = ("good", "fair", "poor") if args.use_poor else ("good", "fair")
+    rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
+                        zone=args.zone, units=args.units, qualities=quals,
+                        with_logs=not args.no_logs, plot=not args.no_plots)
+    u = rep["units"]
+    print(f"pressure file: {rep['file']}", file=out)
+    for name, d in rep["zones"].items():
+        print(f"zone {name or '(all points)'}: {d['points']} points", file=out)
+        for fluid, ln in d["lines"].items():
+            se = "" if ln["gradient_se"] is None else f" +- {ln['gradient_se']:.4f}"
+            dse = "" if ln["density_se_g_cm3"] is None else f" +- {ln['density_se_g_cm3']:.4f}"
+            print(f"  {fluid:<6} gradient {ln['gradient']:.4f}{se} {u['gradient']}, density "
+                  f"{ln['density_g_cm3']:.4f}{dse} g/cm3, {ln['points_used']} used, "
+                  f"{ln['points_rejected']} rejected", file=out)
+        for key, label in (("fwl", "FWL"), ("free_oil_level", "free-oil level")):
+            lv = d.get(key)
+            if lv:
+                iv = lv["interval"]
+                rng = "" if iv[0] is None else f" ({iv[0]:.2f} - {iv[1]:.2f})"
+                print(f"  {label} {lv['depth']:.2f} {u['depth']}{rng}", file=out)
+        if "versus_project_fwl" in d:
+            c = d["versus_project_fwl"]
+            print(f"  project FWL {d['project_fwl']:.2f} {u['depth']}: "
+                  f"{'within' if c['consistent'] else 'outside'} the pressure interval", file=out)
+        if "versus_log_fwl" in d:
+            c = d["versus_log_fwl"]
+            lg = d["log_fwl"]
+            print(f"  FWL from log Sw {lg['best']:.2f} ({lg['interval'][0]:.2f} - "
+                  f"{lg['interval'][1]:.2f}) {u['depth']}: "
+                  f"{'consistent' if c['consistent'] else 'INCONSISTENT'}", file=out)
+        for m in d["notes"]:
+            print(f"  note: {m}", file=out)
+    for m in rep["notes"]:
+        print(f"note: {m}", file=out)
+    for fpath in rep["files"]:
+        print(f"wrote {fpath}", file=out)
     return EXIT_OK
 
 
@@ -246,6 +425,10 @@ def main(argv=None) -> int:
             return _inspect(args.las, args.json, sys.stdout)
         if args.command == "fit":
             return _fit(args, sys.stdout)
+        if args.command == "fwl":
+            return _fwl(args, sys.stdout)
+        if args.command == "pressures":
+            return _pressures(args, sys.stdout)
         from .pipeline import run_project
 
         if args.command == "demo":

@@ -144,11 +144,22 @@ class ZoneModel:
     function: JSwFunction
     rock_functions: dict | None = None
     rock_classifier: object | None = None
+    # Three-phase column (gas cap over oil over water), all optional: the free-oil
+    # (gas-oil) level TVDSS [m], gas density [kg/m^3] and gas-water sigma*cos(theta)
+    # [N/m]. With gas_oil_level set, ``hydrocarbon`` is the oil of the oil leg.
+    gas_oil_level: float | None = None
+    gas_density: float | None = None
+    gas_sigma_cos_theta: float | None = None
 
     @property
     def delta_rho(self) -> float:
         """Density difference water minus hydrocarbon [kg/m^3]."""
         return self.water_density - self.hydrocarbon_density
+
+    @property
+    def three_phase(self) -> bool:
+        """True when the zone has a gas cap over its oil leg (gas_oil_level given)."""
+        return self.gas_oil_level is not None
 
 
 def assign_zones(tvdss, zones: Sequence[ZoneModel]) -> np.ndarray:
@@ -222,6 +233,16 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
         np.divide(pc * np.sqrt(k / phi), sct, out=j, where=in_zone & usable)
     j[below] = 0.0
 
+    # three-phase zones: Pc and J over both columns (see column_pc_j)
+    for i, zn in enumerate(zones):
+        if not getattr(zn, "three_phase", False):
+            continue
+        m = (zone == i) & ~below
+        if m.any():
+            pc_i, j_i = column_pc_j(h[m], k[m], phi[m], zn)
+            pc[m] = pc_i
+            j[m] = np.where(usable[m], j_i, np.nan)
+
     sw = np.full(n, np.nan)
     sw[below] = 1.0
     for i, zn in enumerate(zones):
@@ -264,3 +285,68 @@ def _predict_by_rock_type(zn: ZoneModel, j, h, phi, k, flag):
         flag[m] |= bits
     flag[~known] |= FLAG_NO_ROCK_FUNCTION
     return sw, flag
+def column_pc_j(h, k, phi, zone: ZoneModel, oil_column=None):
+    """Capillary pressure [Pa] and J [-] at height ``h`` above the FWL, any column type.
+
+    Two-phase zone (no ``gas_oil_level``): ``Pc = (rho_w - rho_hc) g h`` and
+    ``J = Pc sqrt(k/phi) / (sigma cos theta)``, both 0 at and below the FWL.
+
+    Three-phase zone (gas cap over oil over water): with the oil column
+    ``t = FWL - gas_oil_level`` [m], ``h_o = clip(h, 0, t)`` and
+    ``h_g = max(h - t, 0)``:
+
+    * Pc is the oil-water capillary pressure in the oil leg and, above the free-oil
+      level, the gas-water capillary pressure accumulated over both columns,
+      ``Pc = (rho_w - rho_o) g h_o + (rho_w - rho_g) g h_g``;
+    * J accumulates the same two pieces, each scaled by its own sigma*cos(theta),
+      ``J = sqrt(k/phi) [(rho_w - rho_o) g h_o / sct_ow + (rho_w - rho_g) g h_g / sct_gw]``,
+      so J and Sw are continuous across the free-oil level and the gas cap follows
+      the gas-water capillary scaling above it.
+
+    Parameters
+    ----------
+    h : array_like
+        Height above the FWL [m]; any shape (e.g. candidates x samples).
+    k : array_like
+        Permeability [m^2], broadcastable to ``h``.
+    phi : array_like
+        Porosity [fraction], broadcastable to ``h``.
+    zone : ZoneModel
+    oil_column : float or array_like, optional
+        Oil column thickness [m] (broadcastable to ``h``); default
+        ``zone.fwl - zone.gas_oil_level``. Ignored for two-phase zones.
+
+    Returns
+    -------
+    (numpy.ndarray, numpy.ndarray)
+        ``(Pc [Pa], J [-])`` of the broadcast shape; NaN J where k or phi is unusable.
+
+    References
+    ----------
+    Hydrostatics of three immiscible phases at rest; Leverett, M. C., 1941,
+    Trans. AIME 142 (J scaling); common practice for gas caps over oil legs.
+    """
+    h = np.asarray(h, dtype=float)
+    k = np.asarray(k, dtype=float)
+    phi = np.asarray(phi, dtype=float)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        root = np.sqrt(k / phi)
+        root = np.where((k > 0) & (phi > 0) & (phi <= 1), root, np.nan)
+    if not getattr(zone, "three_phase", False):
+        pc = np.maximum(capillary_pressure_from_height(h, zone.water_density,
+                                                       zone.hydrocarbon_density), 0.0)
+        return pc, pc * root / zone.sigma_cos_theta
+    if zone.gas_density is None or zone.gas_sigma_cos_theta is None:
+        raise SatHeightError(f"zone {zone.name!r} has a gas_oil_level but no gas density or "
+                             "gas-water sigma*cos(theta)",
+                             hint="give gas_density and gas_sigma_cos_theta for this zone")
+    t = (zone.fwl - zone.gas_oil_level) if oil_column is None else np.asarray(oil_column, float)
+    t = np.maximum(t, 0.0)
+    h_pos = np.maximum(h, 0.0)
+    h_o = np.minimum(h_pos, t)
+    h_g = h_pos - h_o
+    pc_o = (zone.water_density - zone.hydrocarbon_density) * STANDARD_GRAVITY * h_o
+    pc_g = (zone.water_density - zone.gas_density) * STANDARD_GRAVITY * h_g
+    pc = pc_o + pc_g
+    j = root * (pc_o / zone.sigma_cos_theta + pc_g / zone.gas_sigma_cos_theta)
+    return pc, j

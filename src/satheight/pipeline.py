@@ -165,7 +165,9 @@ def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
     return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
                      water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
                      hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
-                     rock_functions=rock_functions, rock_classifier=classifier)
+                     rock_functions=rock_functions, rock_classifier=classifier,
+                     gas_oil_level=zs.gas_oil_level, gas_density=zs.gas_density,
+                     gas_sigma_cos_theta=zs.gas_sigma_cos_theta)
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
@@ -356,6 +358,12 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
             HeaderItem(p + "SIGCOS", u["tension"], round(U.from_si(zn.sigma_cos_theta, u["tension"], "tension"), 6), f"Zone {i} sigma*cos(theta)"),
             HeaderItem(p + "FUNC", "", zn.function.name, f"Zone {i} J-Sw function: {zn.function.description}"),
         ]
+        if getattr(zn, "gas_oil_level", None) is not None:   # three-phase column
+            items += [
+                HeaderItem(p + "GOL", u["depth"], round(U.from_si(zn.gas_oil_level, u["depth"], "length"), 4), f"Zone {i} free-oil (gas-oil) level TVDSS"),
+                HeaderItem(p + "RHOG", u["density"], round(U.from_si(zn.gas_density, u["density"], "density"), 6), f"Zone {i} gas density"),
+                HeaderItem(p + "SIGCOSG", u["tension"], round(U.from_si(zn.gas_sigma_cos_theta, u["tension"], "tension"), 6), f"Zone {i} gas-water sigma*cos(theta)"),
+            ]
         for pname, pval in zn.function.params_.items():
             items.append(HeaderItem(f"{p}{pname.upper()}", "", pval, f"Zone {i} function parameter {pname}"))
         if zn.function.j_range_ is not None:
@@ -413,6 +421,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
+    _add_contacts(result, project, U.factor(length_unit, "length"))
     json_path = out_dir / f"{stem}_summary.json"
     atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
@@ -424,6 +433,19 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
                             units=project.unit_system, depth_axis=depth_axis)
     return files
+
+
+def _add_contacts(result: WellResult, project: Project, length_factor: float) -> None:
+    """Entry height and contact depth per zone into the well's JSON summary (key ``contact``)."""
+    from .contacts import contacts_summary
+
+    zones = result.summary.get("zones", {})
+    for name, block in contacts_summary(result, length_factor, project.comparison.min_porosity,
+                                        project.comparison.min_permeability).items():
+        if name in zones:
+            zones[name]["contact"] = block
+
+
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,

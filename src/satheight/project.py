@@ -47,6 +47,10 @@ File format
     water_density = "1.08 g/cm3"    # reservoir conditions; a density OR a pressure gradient ("0.468 psi/ft", "10.6 kPa/m") -> kg/m3
     hydrocarbon_density = "0.75 g/cm3"
     sigma_cos_theta = "26 mN/m"     # or dyn/cm, N/m; > 0
+    # instead of the densities: correlation inputs (see satheight.project_fluids):
+    # water = { salinity = "80000 ppm" }, oil = { api, solution_gor, gas_gravity },
+    # gas = { gravity, z_method }, conditions = { pressure, temperature } or gradients;
+    # three-phase column: gas_oil_level, gas_density (or gas), gas_sigma_cos_theta
     [zones.function]
     family = "power_law"            # a key of models.FAMILIES
     swirr = 0.1                     # family parameters (plain numbers)
@@ -108,6 +112,7 @@ from .errors import InputFileError, ModelError, ProjectFileError, UnitError
 from .models import FAMILIES, build_function, get_family
 from .project_types import (ComparisonSpec, FunctionSpec, LogSwSpec, Project, WellSpec,
                             ZoneSpec)
+from .project_fluids import FLUID_ZONE_KEYS, read_zone_fluids
 from .units import UNIT_SYSTEMS, from_si, parse_quantity
 
 __all__ = ["load_project", "parse_project"]
@@ -122,7 +127,7 @@ _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "sur
 _SURVEY_FORMATS = ("csv", "las")
 _CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
 _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
-              "hydrocarbon_density", "sigma_cos_theta", "function")
+              "hydrocarbon_density", "sigma_cos_theta", "function") + FLUID_ZONE_KEYS
 _HYDROCARBONS = ("oil", "gas", "air")
 _FUNCTION_FIXED_KEYS = ("family", "j_min", "j_max")
 _FUNCTION_FILE_KEYS = ("file", "rock_type", "family", "j_min", "j_max")
@@ -449,8 +454,7 @@ class _Reader:
     def read_zone(self, raw: dict, index: int) -> ZoneSpec:
         key = f"zones[{_label(raw, ('name',), index)}]"
         t = self.table(raw, key, _ZONE_KEYS,
-                       required=("name", "fwl", "hydrocarbon", "water_density",
-                                 "hydrocarbon_density", "sigma_cos_theta", "function"))
+                       required=("name", "fwl", "hydrocarbon", "sigma_cos_theta", "function"))
         name = self.text(t["name"], f"{key}.name")
 
         has_top, has_base = "top" in t, "base" in t
@@ -470,13 +474,13 @@ class _Reader:
 
         fwl = self.quantity(t["fwl"], f"{key}.fwl", "length")
         hydrocarbon = self.text(t["hydrocarbon"], f"{key}.hydrocarbon", _HYDROCARBONS)
-        rho_w = self.quantity(t["water_density"], f"{key}.water_density", "density", positive=True)
-        rho_h = self.quantity(t["hydrocarbon_density"], f"{key}.hydrocarbon_density", "density",
-                              positive=True)
+        # densities: given, or from correlations; optional three-phase keys (project_fluids)
+        zf = read_zone_fluids(self, t, key, hydrocarbon, fwl)
+        rho_w, rho_h = zf.water_density, zf.hydrocarbon_density
         if not rho_w > rho_h:
             raise self.error(f"{key}.water_density",
-                             f"water_density {t['water_density']!r} ({rho_w:.6g} kg/m3) is not "
-                             f"greater than hydrocarbon_density {t['hydrocarbon_density']!r} "
+                             f"water_density {t.get('water_density', 'from water')!r} ({rho_w:.6g} kg/m3) is not "
+                             f"greater than hydrocarbon_density {t.get('hydrocarbon_density', 'from a correlation')!r} "
                              f"({rho_h:.6g} kg/m3): water must be denser than the hydrocarbon",
                              hint="check the two values and their units")
         sigma = self.quantity(t["sigma_cos_theta"], f"{key}.sigma_cos_theta", "tension",
@@ -484,7 +488,9 @@ class _Reader:
         function = self.read_function(t["function"], f"{key}.function")
         return ZoneSpec(name=name, top=top, base=base, fwl=fwl, water_density=rho_w,
                         hydrocarbon_density=rho_h, hydrocarbon=hydrocarbon,
-                        sigma_cos_theta=sigma, function=function)
+                        sigma_cos_theta=sigma, function=function,
+                        gas_oil_level=zf.gas_oil_level, gas_density=zf.gas_density,
+                        gas_sigma_cos_theta=zf.gas_sigma_cos_theta, fluids=zf.fluids)
 
     def read_function(self, raw: Any, key: str) -> FunctionSpec:
         if not isinstance(raw, dict):

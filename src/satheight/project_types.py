@@ -71,6 +71,14 @@ class ZoneSpec:
     hydrocarbon: str
     sigma_cos_theta: float
     function: FunctionSpec
+    #: Three-phase column (optional): free-oil (gas-oil) level TVDSS [m], gas density
+    #: [kg/m^3] and gas-water sigma*cos(theta) [N/m] (see engine.column_pc_j).
+    gas_oil_level: float | None = None
+    gas_density: float | None = None
+    gas_sigma_cos_theta: float | None = None
+    #: How each density was obtained: {"water": {...}, "hydrocarbon": {...}, "gas": {...}},
+    #: e.g. {"method": "batzle_wang", "pressure_Pa": ..., "temperature_K": ...}; JSON-ready.
+    fluids: dict = field(default_factory=dict)
 
 
 @dataclass(frozen=True)

@@ -1,0 +1,246 @@
+"""FWL from log Sw (satheight.contacts): synthetic wells made with the engine from a
+known FWL and J-function plus depth-correlated noise; the search must recover the
+FWL within its reported interval, flag a well from another compartment, and
+report the FWL-parameter trade-off. Also entry heights and contacts.
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from satheight.constants import MILLIDARCY, STANDARD_GRAVITY
+from satheight.contacts import (block_weights, entry_height, entry_j, fit_fwl_with_parameters,
+                                misfit_matrix, search_fwl, zone_contact, zone_samples)
+from satheight.engine import ZoneModel, compute_shm
+from satheight.errors import SatHeightError
+from satheight.models import build_function
+
+ROOT = Path(__file__).resolve().parents[1]
+TRUE_FWL = 2080.0
+STEP = 0.1524
+
+
+def zone_model(fwl=TRUE_FWL, family="power_law", params=None, top=2000.0, base=2110.0):
+    params = params or {"swirr": 0.1, "a": 0.3, "b": 1.2}
+    return ZoneModel("Z", top, base, fwl, 1080.0, 780.0, "oil", 0.026,
+                     build_function(family, params))
+
+
+def synthetic_well(seed, fwl=TRUE_FWL, n=700, noise=0.03, rho=0.8, **zkw):
+    """A well whose log Sw is the engine's Sw for ``fwl`` plus AR(1) noise (correlated in depth)."""
+    rng = np.random.default_rng(seed)
+    z = 2000.0 + np.arange(n) * STEP
+    phi = np.clip(0.2 + 0.03 * rng.standard_normal(n), 0.08, 0.32)
+    k = 10 ** (-2.6 + 19 * phi + 0.2 * rng.standard_normal(n)) * MILLIDARCY
+    truth = zone_model(fwl=fwl, **zkw)
+    sw = compute_shm(z, phi, k, [truth]).sw
+    e = np.zeros(n)
+    shocks = rng.normal(0, noise * np.sqrt(1 - rho**2), n)
+    for i in range(1, n):                     # AR(1) generator of the test noise
+        e[i] = rho * e[i - 1] + shocks[i]
+    return z, phi, k, np.clip(sw + e, 0, None)
+
+
+def samples_of(seed, fwl=TRUE_FWL, project_fwl=2075.0, **kw):
+    z, phi, k, sw = synthetic_well(seed, fwl=fwl, **kw)
+    return zone_samples(f"W{seed}", z, phi, k, sw, zone_model(fwl=project_fwl))
+
+
+def test_recovers_fwl_within_interval_jointly_and_per_well():
+    s = [samples_of(i) for i in range(3)]
+    r = search_fwl(s, n_boot=60, seed=1)
+    assert r.low <= TRUE_FWL <= r.high
+    assert r.high - r.low < 3.0                     # informative, not the whole window
+    assert r.low <= r.best <= r.high
+    assert sum(w.low <= TRUE_FWL <= w.high for w in r.wells) >= 2
+    assert not r.flagged_wells
+
+
+def test_interval_coverage_over_many_synthetic_wells():
+    # 20 independent wells, nominal 95 % intervals: at least 16 must hold the true FWL
+    # (a too-narrow interval, e.g. the grid step alone, holds it in very few), and the
+    # interval must shrink when more samples inform it
+    hits, widths = 0, []
+    for seed in range(20):
+        r = search_fwl([samples_of(100 + seed, n=500)], n_boot=40, seed=seed)
+        hits += r.low <= TRUE_FWL <= r.high
+        widths.append(r.high - r.low)
+    assert hits >= 16
+    joint = search_fwl([samples_of(100 + seed, n=500) for seed in range(6)], n_boot=40, seed=3)
+    assert joint.high - joint.low < np.median(widths)
+    # the project's (wrong) FWL fits worse than the best one
+    assert r.misfit_at_project > r.misfit_at_best
+    assert r.project_fwl == 2075.0
+
+
+def test_search_is_repeatable_with_a_seed():
+    s = [samples_of(3)]
+    a = search_fwl(s, n_boot=30, seed=7)
+    b = search_fwl(s, n_boot=30, seed=7)
+    assert (a.best, a.low, a.high) == (b.best, b.low, b.high)
+
+
+def test_well_of_another_compartment_is_flagged():
+    s = [samples_of(0), samples_of(1), samples_of(2, fwl=2092.0)]
+    r = search_fwl(s, n_boot=60, seed=2)
+    flagged = r.flagged_wells
+    assert flagged == ["W2"]
+    w2 = next(w for w in r.wells if w.well == "W2")
+    assert w2.low <= 2092.0 <= w2.high
+    assert any("W2" in m for m in r.warnings)
+
+
+def test_misfit_matrix_equals_engine_per_candidate():
+    s = samples_of(4, n=200)
+    cands = np.array([2050.0, 2070.0, 2079.5])
+    m = misfit_matrix(s, cands, misfit="absolute")
+    for i, f in enumerate(cands):
+        zn = zone_model(fwl=f)
+        sw = compute_shm(s.tvdss, s.phi, s.k, [zn]).sw
+        np.testing.assert_allclose(m[i], np.abs(sw - s.sw_log), rtol=0, atol=1e-12)
+
+
+def test_huber_is_quadratic_inside_and_linear_outside():
+    s = samples_of(4, n=50)
+    m = misfit_matrix(s, [TRUE_FWL], misfit="huber", delta=0.05)[0]
+    zn = zone_model()
+    r = compute_shm(s.tvdss, s.phi, s.k, [zn]).sw - s.sw_log
+    # Huber (1964): 0.5 r^2 for |r| <= delta, delta (|r| - delta/2) beyond
+    expect = np.where(np.abs(r) <= 0.05, 0.5 * r**2, 0.05 * (np.abs(r) - 0.025))
+    np.testing.assert_allclose(m, expect, atol=1e-15)
+
+
+def test_cutoffs_and_mask_select_samples():
+    z, phi, k, sw = synthetic_well(5, n=300)
+    zn = zone_model()
+    all_ = zone_samples("W", z, phi, k, sw, zn)
+    cut = zone_samples("W", z, phi, k, sw, zn, min_porosity=0.2)
+    mask = z > 2020.0
+    masked = zone_samples("W", z, phi, k, sw, zn, mask=mask)
+    shale = np.where(z < 2010, 100.0, 20.0)
+    noshale = zone_samples("W", z, phi, k, sw, zn, shale=shale, max_shale=60.0)
+    assert all_.n == 300
+    assert cut.n == int((phi >= 0.2).sum()) and np.all(cut.phi >= 0.2)
+    assert masked.n == int(mask.sum()) and masked.tvdss.min() > 2020.0
+    assert noshale.tvdss.min() >= 2010.0
+    sw_in = sw.copy()
+    zone_samples("W", z, phi, k, sw, zn, mask=mask)
+    np.testing.assert_array_equal(sw, sw_in)           # inputs untouched
+
+
+def test_block_weights_are_blocks_of_consecutive_samples():
+    rng = np.random.default_rng(0)
+    w = block_weights(23, 5, 40, rng)
+    assert w.shape == (40, 23)
+    np.testing.assert_array_equal(w.sum(axis=1), 23)
+    assert np.all(w >= 0)
+
+
+def test_joint_parameter_fit_recovers_and_reports_tradeoff():
+    s = [samples_of(i, n=600) for i in range(2)]
+    with np.errstate(all="ignore"):
+        p = fit_fwl_with_parameters(s, {"swirr": (0.0, 0.3), "b": (0.5, 3.0)},
+                                    fwl_bounds=(2065.0, 2095.0), fwl_start=2078.0)
+    assert p["fwl"] == pytest.approx(TRUE_FWL, abs=1.5)
+    assert p["values"]["swirr"] == pytest.approx(0.1, abs=0.03)
+    assert p["values"]["b"] == pytest.approx(1.2, abs=0.2)
+    corr = np.array(p["correlation"])
+    assert corr.shape == (3, 3)
+    np.testing.assert_allclose(np.diag(corr), 1.0, atol=1e-9)
+    assert np.all(np.abs(corr) <= 1 + 1e-9)
+    # a deeper FWL (taller column at each sample) must be offset by a steeper decline:
+    # b and the FWL trade off positively for this power law
+    assert corr[0, 2] > 0 and p["per_metre_of_fwl"]["b"] > 0
+    with pytest.raises(SatHeightError, match="no parameter"):
+        fit_fwl_with_parameters(s, {"lam": (1, 2)}, fwl_bounds=(2070, 2090))
+
+
+def test_too_few_samples_and_bad_options():
+    z, phi, k, sw = synthetic_well(6, n=2)
+    s = zone_samples("W", z, phi, k, sw, zone_model())
+    with pytest.raises(SatHeightError, match="fewer than 3"):
+        search_fwl([s])
+    with pytest.raises(SatHeightError, match="n_boot"):
+        search_fwl([samples_of(1, n=100)], n_boot=1)
+    with pytest.raises(SatHeightError, match="window"):
+        search_fwl([samples_of(1, n=100)], window=(2080.0, 2070.0))
+
+
+# ----------------------------------------------------------------------------------
+# entry height and contact
+# ----------------------------------------------------------------------------------
+def test_entry_j_of_the_families():
+    # Brooks-Corey: Sw = 1 below the entry J jd (Brooks & Corey 1964)
+    bc = build_function("brooks_corey", {"swirr": 0.12, "jd": 0.2, "lam": 2.5})
+    assert entry_j(bc) == pytest.approx(0.2, rel=1e-6)
+    # power law: swirr + (1 - swirr) a J^-b = 1 at J = a^(1/b) (algebra of the form)
+    pl = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 1.2})
+    assert entry_j(pl) == pytest.approx(0.3 ** (1 / 1.2), rel=1e-6)
+
+
+def test_entry_height_and_contact_depth():
+    zn = ZoneModel("Z", 2200, 2310, 2290.0, 1079.5, 220.0, "gas", 0.050,
+                   build_function("brooks_corey", {"swirr": 0.12, "jd": 0.2, "lam": 2.5}))
+    k, phi = 10 * MILLIDARCY, 0.2
+    he = float(entry_height(zn, k, phi))
+    # h_e = J_e sigma cos theta / (sqrt(k/phi) drho g), from J = Pc sqrt(k/phi)/sct, Pc = drho g h
+    expect = 0.2 * 0.050 / (np.sqrt(k / phi) * (1079.5 - 220.0) * STANDARD_GRAVITY)
+    assert he == pytest.approx(expect, rel=1e-6)
+    c = zone_contact(zn, np.full(5, phi), np.full(5, k))
+    assert c["contact_tvdss_m"] == pytest.approx(2290.0 - expect, rel=1e-9)
+    # at the contact the engine's Sw just reaches 1, a bit above it drops below 1
+    res = compute_shm(np.array([c["contact_tvdss_m"] + 1e-3, c["contact_tvdss_m"] - 0.05]),
+                      np.full(2, phi), np.full(2, k), [zn])
+    assert res.sw[0] == pytest.approx(1.0) and res.sw[1] < 1.0
+
+
+# ----------------------------------------------------------------------------------
+# command and demo
+# ----------------------------------------------------------------------------------
+def test_fwl_command_on_demo(tmp_path):
+    out = tmp_path / "fwl"
+    r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "fwl",
+                        str(ROOT / "demo_wells" / "demo_project.toml"), "--out", str(out),
+                        "--zone", "Lower Sand", "--resamples", "40",
+                        "--exclude", "VANTREL-1:2252:2254"],
+                       capture_output=True, text=True, timeout=120)
+    assert r.returncode == 0, r.stderr
+    doc = json.loads((out / "fwl_Lower_Sand.json").read_text())
+    # the demo logs were made with FWL 2290 m TVDSS (demo_wells/README.md) but with
+    # per-well J-Sw parameters, so allow a metre
+    assert doc["best_fwl"] == pytest.approx(2290.0, abs=1.0)
+    from satheight.project import load_project
+
+    assert len(doc["wells"]) == len(load_project(ROOT / "demo_wells" / "demo_project.toml").wells)
+    assert doc["bootstrap_resamples"] == 40
+    assert (out / "fwl_Lower_Sand_misfit.png").stat().st_size > 10000
+    assert "best FWL" in r.stdout
+
+
+def test_fwl_command_unknown_zone(tmp_path):
+    r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "fwl",
+                        str(ROOT / "demo_wells" / "demo_project.toml"), "--out",
+                        str(tmp_path / "o"), "--zone", "Nowhere"],
+                       capture_output=True, text=True, timeout=60)
+    assert r.returncode == 2 and "Nowhere" in r.stderr
+
+
+def test_run_summary_has_contact_per_zone(tmp_path):
+    r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "run",
+                        str(ROOT / "demo_wells" / "demo_project.toml"), "--out",
+                        str(tmp_path / "o"), "--no-plots"],
+                       capture_output=True, text=True, timeout=120)
+    assert r.returncode == 0, r.stderr
+    doc = json.loads((tmp_path / "o" / "VANTREL-1_summary.json").read_text())
+    c = doc["zones"]["Upper Sand"]["contact"]
+    assert c["contact_kind"] == "oil-water contact"
+    assert c["contact_tvdss"] == pytest.approx(c["fwl_tvdss"] - c["entry_height"])
+    # demo_wells/README.md: a typical oil sand (phi 0.21, 30 mD) stays at Sw 1 up to about
+    # 9 m above the FWL; the entry height of this well's typical rock is of that size
+    assert 5.0 < c["entry_height"] < 15.0
