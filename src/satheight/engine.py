@@ -175,6 +175,115 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
         the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
         Sw = 1 whatever the porosity and permeability (they are still flagged).
         J outside the function's calibrated range keeps its Sw but is flagged.
+
+    Notes
+    -----
+    Zones are handled as sorted segments: with TVDSS non-decreasing (the usual
+    case) each zone window ``top <= z < base`` is one contiguous slice found by
+    binary search, and every quantity is computed on that slice in place, without
+    masks over the whole well or gathered copies. Otherwise the samples are
+    visited in sorted order (a stable argsort) and the results put back. Where
+    windows overlap the first zone wins, as in :func:`assign_zones`. The results
+    equal those of :func:`compute_shm_masks`.
+    """
+    z = np.asarray(tvdss, dtype=float)
+    phi = np.asarray(phi, dtype=float)
+    k = np.asarray(k, dtype=float)
+    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
+        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
+                             f"{z.shape}, {phi.shape}, {k.shape}")
+    order = None
+    if z.size > 1 and not bool(np.all(z[1:] >= z[:-1])):
+        order = np.argsort(z, kind="stable")          # NaN depths sort last: in no zone
+        z, phi, k = z[order], phi[order], k[order]
+    res = _compute_sorted(z, phi, k, zones)
+    if order is None:
+        return res
+    back = np.empty_like(order)
+    back[order] = np.arange(order.size)
+    return ShmResult(zone=res.zone[back], hafwl=res.hafwl[back], pc=res.pc[back], j=res.j[back],
+                     sw=res.sw[back], flag=res.flag[back])
+
+
+def _compute_sorted(z, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+    """:func:`compute_shm` for non-decreasing ``z`` (NaN only at the end)."""
+    n = z.size
+    zone = np.full(n, -1, dtype=np.int64)
+    hafwl = np.full(n, np.nan)
+    pc = np.full(n, np.nan)
+    j = np.full(n, np.nan)
+    sw = np.full(n, np.nan)
+    flag = np.full(n, FLAG_NO_ZONE, dtype=np.int64)
+    # last zone first, so that where windows overlap the first zone's values stay
+    for i in range(len(zones) - 1, -1, -1):
+        zn = zones[i]
+        lo, hi = np.searchsorted(z, [zn.top, zn.base], side="left")
+        if hi <= lo:
+            continue
+        s = slice(int(lo), int(hi))
+        _zone_segment(zn, z[s], phi[s], k[s], hafwl[s], pc[s], j[s], sw[s], flag[s])
+        zone[s] = i
+    return ShmResult(zone=zone, hafwl=hafwl, pc=pc, j=j, sw=sw, flag=flag)
+
+
+def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
+    """Fill the output slices ``h, pc, j, sw, flag`` of one zone in place.
+
+    The same arithmetic, in the same order, as :func:`compute_shm_masks`:
+    ``h = fwl - z``, ``Pc = max(drho*g*h, 0)``, ``J = Pc*sqrt(k/phi)/sigma_cos_theta``
+    where porosity and permeability are usable, J = 0 at and below the FWL.
+    """
+    np.subtract(zn.fwl, z, out=h)
+    np.multiply(h, zn.delta_rho * STANDARD_GRAVITY, out=pc)
+    np.maximum(pc, 0.0, out=pc)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        bad_phi = ~((phi > 0) & (phi <= 1))
+        bad_k = ~(k > 0)
+        usable = ~(bad_phi | bad_k)
+        below = h <= 0
+        np.divide(k, phi, out=j)
+        np.sqrt(j, out=j)
+        np.multiply(pc, j, out=j)
+        np.divide(j, zn.sigma_cos_theta, out=j)
+    j[~usable] = np.nan
+    j[below] = 0.0
+    # predict is elementwise: J = 0 gives Sw = 1 (below the FWL), NaN gives NaN
+    sw[...] = zn.function.predict(j)
+    bits = bad_phi.view(np.uint8) * np.uint8(FLAG_BAD_POROSITY)
+    bits |= bad_k.view(np.uint8) * np.uint8(FLAG_BAD_PERMEABILITY)
+    rng = zn.function.j_range_
+    if rng is not None:
+        above_fwl = usable & ~below
+        with np.errstate(invalid="ignore"):
+            bits |= (above_fwl & (j < rng[0])).view(np.uint8) * np.uint8(FLAG_J_BELOW_RANGE)
+            bits |= (above_fwl & (j > rng[1])).view(np.uint8) * np.uint8(FLAG_J_ABOVE_RANGE)
+    flag[...] = bits
+
+
+def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+    """Saturation-height model at every sample, straightforward mask form.
+
+    Same results as :func:`compute_shm` (which the tests check against this
+    function) but slower on large wells: every zone is a boolean mask over all
+    samples and every value is gathered through it.
+
+    Parameters
+    ----------
+    tvdss : array_like
+        TVDSS of each sample [m], positive down.
+    phi : array_like
+        Porosity [fraction]. NaN, <= 0 or > 1 gives Sw NaN and FLAG_BAD_POROSITY.
+    k : array_like
+        Permeability [m^2]. NaN or <= 0 gives Sw NaN and FLAG_BAD_PERMEABILITY.
+    zones : sequence of ZoneModel
+
+    Returns
+    -------
+    ShmResult
+        Arrays of the input length. Outside every zone all values are NaN and
+        the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
+        Sw = 1 whatever the porosity and permeability (they are still flagged).
+        J outside the function's calibrated range keeps its Sw but is flagged.
     """
     z = np.asarray(tvdss, dtype=float)
     phi = np.asarray(phi, dtype=float)
