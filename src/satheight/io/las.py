@@ -211,7 +211,7 @@ def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str]
     import pandas as pd
 
     text = np.asarray(column, dtype=str)
-    values = pd.to_numeric(pd.Series(text), errors="coerce").to_numpy(dtype=np.float64)
+    values = pd.to_numeric(pd.Series(text), errors="coerce").to_numpy(dtype=np.float64, copy=True)
     bad = np.isnan(values) & (np.char.lower(np.char.strip(text)) != "nan")
     if bad.any():
         first = int(np.flatnonzero(bad)[0])

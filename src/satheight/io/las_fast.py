@@ -267,7 +267,7 @@ def _text_column(col: np.ndarray, index: int) -> tuple[np.ndarray | None, TextRe
     if any(not isinstance(t, str) for t in col[:1]) or not all(isinstance(t, str) for t in col):
         return None, None                       # a missing field (short line)
     tokens = col.astype(str)
-    values = pd.to_numeric(pd.Series(tokens), errors="coerce").to_numpy(dtype=np.float64)
+    values = pd.to_numeric(pd.Series(tokens), errors="coerce").to_numpy(dtype=np.float64, copy=True)
     ok = ~np.isnan(values)
     try:
         values[ok] = tokens[ok].astype(np.float64)   # exact: same rounding as float()
