@@ -208,21 +208,31 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
 def _compute_sorted(z, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
     """:func:`compute_shm` for non-decreasing ``z`` (NaN only at the end)."""
     n = z.size
-    zone = np.full(n, -1, dtype=np.int64)
-    hafwl = np.full(n, np.nan)
-    pc = np.full(n, np.nan)
-    j = np.full(n, np.nan)
-    sw = np.full(n, np.nan)
-    flag = np.full(n, FLAG_NO_ZONE, dtype=np.int64)
+    # not filled here: every sample is written once, by its zone or as "no zone" below
+    zone = np.empty(n, dtype=np.int64)
+    hafwl, pc, j, sw = (np.empty(n) for _ in range(4))
+    flag = np.empty(n, dtype=np.int64)
+    spans = []                                        # [lo, hi) of every zone segment
     # last zone first, so that where windows overlap the first zone's values stay
     for i in range(len(zones) - 1, -1, -1):
         zn = zones[i]
-        lo, hi = np.searchsorted(z, [zn.top, zn.base], side="left")
+        lo, hi = (int(v) for v in np.searchsorted(z, [zn.top, zn.base], side="left"))
         if hi <= lo:
             continue
-        s = slice(int(lo), int(hi))
+        s = slice(lo, hi)
         _zone_segment(zn, z[s], phi[s], k[s], hafwl[s], pc[s], j[s], sw[s], flag[s])
         zone[s] = i
+        spans.append((lo, hi))
+    # the gaps between the (merged) segments are outside every zone
+    start = 0
+    for lo, hi in sorted(spans) + [(n, n)]:
+        if lo > start:
+            gap = slice(start, lo)
+            zone[gap] = -1
+            for a in (hafwl, pc, j, sw):
+                a[gap] = np.nan
+            flag[gap] = FLAG_NO_ZONE
+        start = max(start, hi)
     return ShmResult(zone=zone, hafwl=hafwl, pc=pc, j=j, sw=sw, flag=flag)
 
 
@@ -237,9 +247,10 @@ def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
     np.multiply(h, zn.delta_rho * STANDARD_GRAVITY, out=pc)
     np.maximum(pc, 0.0, out=pc)
     with np.errstate(invalid="ignore", divide="ignore"):
-        bad_phi = ~((phi > 0) & (phi <= 1))
-        bad_k = ~(k > 0)
-        usable = ~(bad_phi | bad_k)
+        ok_phi = phi > 0
+        np.logical_and(ok_phi, phi <= 1, out=ok_phi)
+        ok_k = k > 0
+        usable = ok_phi & ok_k
         below = h <= 0
         np.divide(k, phi, out=j)
         np.sqrt(j, out=j)
@@ -247,10 +258,21 @@ def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
         np.divide(j, zn.sigma_cos_theta, out=j)
     j[~usable] = np.nan
     j[below] = 0.0
-    # predict is elementwise: J = 0 gives Sw = 1 (below the FWL), NaN gives NaN
-    sw[...] = zn.function.predict(j)
-    bits = bad_phi.view(np.uint8) * np.uint8(FLAG_BAD_POROSITY)
-    bits |= bad_k.view(np.uint8) * np.uint8(FLAG_BAD_PERMEABILITY)
+    fn = zn.function
+    if type(fn).predict is JSwFunction.predict and fn.params_ is not None:
+        # JSwFunction.predict written out on this slice, without its copies: the
+        # equation where J > 0, Sw = 1 where J <= 0 (at and below the FWL), clipped
+        # to [0, 1], NaN where J is NaN (porosity or permeability unusable)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            sw[...] = fn.equation(j, **fn.params_)
+        np.clip(sw, 0.0, 1.0, out=sw)
+        sw[j <= 0] = 1.0
+        sw[np.isnan(j)] = np.nan
+    else:
+        sw[...] = fn.predict(j)       # elementwise: J = 0 gives Sw = 1, NaN gives NaN
+    # flag bits in one byte per sample, widened once at the end
+    bits = np.where(ok_phi, np.uint8(0), np.uint8(FLAG_BAD_POROSITY))
+    bits |= np.where(ok_k, np.uint8(0), np.uint8(FLAG_BAD_PERMEABILITY))
     rng = zn.function.j_range_
     if rng is not None:
         above_fwl = usable & ~below
