@@ -89,6 +89,7 @@ class _RawLas:
     columns: list[np.ndarray]                # one per curve, any dtype, same length
     other: str
     messages: list[str] = field(default_factory=list)
+    owned: bool = False                      # columns are fresh arrays nobody else holds
 
 
 class _ListHandler(logging.Handler):
@@ -204,8 +205,14 @@ def _raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[s
                    [f"{path}: LAS reader: {m}" for m in keep])
 
 
-def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str]) -> np.ndarray:
-    """A new float64 copy of a data column; text entries become NaN with a warning."""
+def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str],
+              owned: bool = False) -> np.ndarray:
+    """A new float64 copy of a data column; text entries become NaN with a warning.
+
+    With ``owned`` a writable float64 column is taken as it is (no copy).
+    """
+    if owned and column.dtype == np.float64 and column.flags.writeable:
+        return column
     if column.dtype.kind in "fiub":
         return column.astype(np.float64, copy=True)
     import pandas as pd
@@ -342,7 +349,7 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
                              hint="check that every ~A row has one value per ~Curve line")
     warnings = list(raw.messages)
     names = [d[0] for d in raw.curve_defs]
-    columns = [_to_float(c, m, path, warnings) for c, m in zip(raw.columns, names)]
+    columns = [_to_float(c, m, path, warnings, raw.owned) for c, m in zip(raw.columns, names)]
     index_mnemonic, index_curve_unit = raw.curve_defs[0][0], raw.curve_defs[0][1]
     strt = _header_lookup(raw.well_items, "STRT")
     depth_unit = _index_unit(path, index_mnemonic, index_curve_unit, strt.unit if strt else "")
@@ -472,6 +479,7 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
         return None
     block, texts = parsed
     raw = _raw_from_lasio(path, las, block, messages)
+    raw.owned = True
     names = [d[0] for d in raw.curve_defs]
     raw.messages += [_text_warning(path, names[t.column], t.count, t.first_text, t.first_row)
                      for t in texts]

@@ -130,7 +130,7 @@ def scan_data_section(raw: bytes, offset: int) -> DataScan | None:
                 if np.any(c[cr + 1] != 10):
                     return None
         word = c > 32
-        starts = np.count_nonzero(word[1:] & ~word[:-1])
+        starts = np.count_nonzero(word[1:] > word[:-1])      # blank then non-blank
         tokens += int(starts) + int(bool(word[0]) and prev_blank)
         prev_blank = not bool(word[-1])
     return DataScan(tokens=tokens - comment_tokens, has_comments=has_comments)
