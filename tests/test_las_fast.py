@@ -253,3 +253,35 @@ def test_format_fixed_equals_percent_format(decimals):
     assert out.shape == (x.size, width)
     assert [t.lstrip(" ") for t in text] == expect
     assert all(len(t) == width for t in text)
+
+
+def test_format_general_equals_percent_g():
+    # reference: Python's own "%.10g" formatting
+    rng = np.random.default_rng(3)
+    x = np.concatenate([rng.normal(0, 1, 6000) * 10.0 ** rng.integers(-9, 15, 6000),
+                        [0.0, -0.0, np.inf, -np.inf, 9.9999999999, 99999.999995, 1e-4, 9.99999999995e-5,
+                         1e10, 9999999999.5, 0.5, 1.0, 100.0, 0.1, 0.3, 5e-324, 1.7976931348623157e308]])
+    out = las_fast.format_general(x, 10)
+    assert [r.tobytes().decode("ascii").strip() for r in out] == ["%.10g" % v for v in x]
+    assert las_fast.format_general(np.array([np.nan, 1.0]), 10)[0].tobytes().strip() == b""
+
+
+def test_csv_writer_equals_pandas(tmp_path):
+    # reference: pandas DataFrame.to_csv(float_format="%.10g"), what the writer used before
+    import pandas as pd
+
+    from satheight.pipeline import write_csv
+
+    src = read_las(DEMO / "VANTREL-1.las")
+    rng = np.random.default_rng(4)
+    n = src.n_samples
+    odd = rng.normal(0, 1, n) * 10.0 ** rng.integers(-8, 12, n)
+    odd[::13] = np.nan
+    odd[5:9] = [np.inf, -np.inf, -0.0, 0.0]
+    new = [Curve("ODD", "", "", odd), Curve("J", "", "", rng.uniform(0, 3, n))]
+    out = tmp_path / "w.csv"
+    write_csv(out, src, new)
+    cols = {(f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic): c.data
+            for c in list(src.curves.values()) + new}
+    expect = pd.DataFrame(cols).to_csv(index=False, float_format="%.10g", lineterminator="\n")
+    assert out.read_text() == expect

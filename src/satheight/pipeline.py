@@ -271,8 +271,20 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
     for c in list(well.curves.values()) + new_curves:
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         cols[label] = c.data
-    frame = pd.DataFrame(cols)
-    atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
+    data = [np.asarray(v) for v in cols.values()]
+    if len(cols) != len(well.curves) + len(new_curves) or any(d.dtype != np.float64 for d in data):
+        frame = pd.DataFrame(cols)
+        atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
+        return
+    # the same text as pandas' to_csv(float_format="%.10g"), numbers formatted vectorised
+    from .io.atomic import atomic_open
+    from .io.las_fast import csv_rows
+
+    header = pd.DataFrame(columns=list(cols)).to_csv(index=False, lineterminator="\n")
+    with atomic_open(path, "w", encoding="utf-8", newline="") as f:
+        f.write(header)
+        for block in csv_rows(data, precision=10):
+            f.write(block)
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,

@@ -374,3 +374,83 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         for r, t in zip(np.flatnonzero(slow).tolist(), slow_text):
             out[r, width - len(t):] = np.frombuffer(t, dtype=np.uint8)
     return out
+
+
+def format_general(values: np.ndarray, precision: int = 10) -> np.ndarray:
+    """Text of ``"%.{precision}g" % x`` for each value, as a ``(n, width)`` uint8 array.
+
+    Each row holds the text right-aligned and padded with blanks on the left;
+    NaN gives an empty text (all blanks). Values written in fixed notation by
+    ``%g`` (decimal exponent from -4 to precision - 1) are formatted with
+    :func:`format_fixed` at the decimals ``%g`` would use and their trailing zeros
+    removed; a value is checked to carry exactly ``precision`` significant digits
+    before that, and every value that does not (a rounding carry into the next
+    power of ten, a logarithm off by one) or needs an exponent is formatted by
+    Python's ``%`` operator itself. The text is therefore that of ``%`` for every
+    value.
+    """
+    x = np.asarray(values, dtype=np.float64)
+    n = x.size
+    finite = np.isfinite(x)
+    a = np.abs(np.where(finite, x, 1.0))
+    with np.errstate(divide="ignore"):
+        e0 = np.floor(np.log10(np.where(a > 0, a, 1.0))).astype(np.int64)
+    fast = finite & (a > 0) & (e0 >= -4) & (e0 < precision)
+    zero = finite & (a == 0)
+    parts: list[tuple[np.ndarray, np.ndarray]] = []       # (rows, uint8 text matrix)
+    slow_rows = [np.flatnonzero(~np.isnan(x) & ~fast & ~zero)]
+    low, high = 10.0 ** (precision - 1), 10.0 ** precision
+    for e in np.unique(e0[fast]).tolist():
+        rows = np.flatnonzero(fast & (e0 == e))
+        d = precision - 1 - e
+        p = a[rows] * 10.0 ** d
+        mag = np.rint(p)
+        # exactly `precision` significant digits, and no rounding tie (see format_fixed)
+        ok = (mag >= low) & (mag < high) & (np.abs(p - np.floor(p) - 0.5) > p * 2.3e-16)
+        slow_rows.append(rows[~ok])
+        rows, mag = rows[ok], mag[ok].astype(np.int64)
+        m = format_fixed(x[rows], d, "")
+        if d > 0 and rows.size:
+            # drop trailing zeros of the fraction, and the point if nothing is left
+            n_zero = np.zeros(rows.size, dtype=np.int64)
+            going = np.ones(rows.size, dtype=bool)
+            for _ in range(d):
+                going &= (mag % 10) == 0
+                n_zero += going
+                mag //= 10
+            cut = m.shape[1] - n_zero - (n_zero == d)
+            m[np.arange(m.shape[1])[None, :] >= cut[:, None]] = ord(" ")
+        parts.append((rows, m))
+    zrows = np.flatnonzero(zero)
+    slow = np.concatenate(slow_rows)
+    texts = [("%.*g" % (precision, v)).encode("ascii") for v in x[slow].tolist()]
+    ztexts = [b"-0" if np.signbit(x[r]) else b"0" for r in zrows.tolist()]
+    width = max([m.shape[1] for _, m in parts] + [len(t) for t in texts + ztexts] + [0])
+    out = np.full((n, width), ord(" "), dtype=np.uint8)
+    for rows, m in parts:
+        if m.shape[1]:
+            out[rows, width - m.shape[1]:] = m
+    for r, t in zip(np.concatenate((slow, zrows)).tolist(), texts + ztexts):
+        out[r, width - len(t):] = np.frombuffer(t, dtype=np.uint8)
+    return out
+
+
+def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536):
+    """Data lines of a CSV file, ``"%.{precision}g"`` numbers, empty cells for NaN.
+
+    Yields ASCII text blocks of whole lines (``a,b,c\\n``), ``chunk`` rows at a time.
+    """
+    n = columns[0].size if columns else 0
+    for a in range(0, n, chunk):
+        b = min(n, a + chunk)
+        cells = [format_general(c[a:b], precision) for c in columns]
+        width = sum(m.shape[1] + 1 for m in cells)
+        buf = np.empty((b - a, width), dtype=np.uint8)
+        pos = 0
+        for i, m in enumerate(cells):
+            buf[:, pos:pos + m.shape[1]] = m
+            pos += m.shape[1]
+            buf[:, pos] = ord(",") if i < len(cells) - 1 else ord("\n")
+            pos += 1
+        flat = buf.ravel()
+        yield flat[flat != ord(" ")].tobytes().decode("ascii")
