@@ -221,12 +221,22 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
         if frame.shape[1] != n_columns:
             return None
         # column by column, no interleaved copy of the whole table
-        block = [frame[i].to_numpy(dtype=np.float64) for i in range(n_columns)]
+        block = [_writable(frame[i].to_numpy(dtype=np.float64)) for i in range(n_columns)]
         del frame
     rows = len(block[0]) if len(block) else 0
     if rows == 0 or rows * n_columns != scan.tokens:
         return None
     return block, texts
+
+
+def _writable(a: np.ndarray) -> np.ndarray:
+    """``a`` made writable without a copy where numpy allows it (the frame is dropped)."""
+    if not a.flags.writeable:
+        try:
+            a.flags.writeable = True
+        except ValueError:
+            a = a.copy()
+    return a
 
 
 def _read_with_text(raw: bytes, offset: int, n_columns: int, scan: DataScan):
