@@ -1,7 +1,10 @@
 """LAS well-log files: read into a :class:`~satheight.well.Well`, write LAS 2.0.
 
 Reading goes through the ``lasio`` library, kept behind this module: nothing
-outside :mod:`satheight.io` imports it. The reader turns lasio's objects into the
+outside :mod:`satheight.io` imports it. For speed on large files lasio parses only
+the header sections of a plain LAS 1.2/2.0 unwrapped file and the ``~A`` section is
+read by pandas' C parser (:mod:`satheight.io.las_fast`); any other file is read by
+lasio as a whole, with the same result. The reader turns what was parsed into the
 tool's own :class:`~satheight.well.Well` and applies the tool's rules:
 
 * the depth index unit must be metres or feet (from the index curve's unit, else
@@ -16,8 +19,8 @@ tool's own :class:`~satheight.well.Well` and applies the tool's rules:
 * every problem with the file raises :class:`~satheight.errors.InputFileError`
   naming the file; no lasio or OS exception escapes.
 
-Writing uses the tool's own LAS 2.0 writer (plain numpy formatting, one column at
-a time), through :mod:`satheight.io.atomic`. Every input curve is written back with
+Writing uses the tool's own LAS 2.0 writer (vectorised fixed-point number text,
+:func:`satheight.io.las_fast.format_fixed`), through :mod:`satheight.io.atomic`. Every input curve is written back with
 enough decimals that its values read back exactly.
 """
 
@@ -449,9 +452,8 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
     if found is None:
         return None
     start, end = found
-    header_text = _decode(data[:end])
-    lines = header_text.split("\n")
-    for line in lines[:-2]:                       # every line before the ~A title line
+    header_text = _decode(data[:end])             # the header sections and the ~A line
+    for line in _decode(data[:start]).split("\n"):   # every line before the ~A line
         t = line.strip()
         if t.startswith("~") and (t[:2] == "~A" or "_Data" in t or "~Log_" in t):
             return None
