@@ -178,7 +178,7 @@ class TextReport:
 
 
 def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
-                       ) -> tuple[np.ndarray, list[TextReport]] | None:
+                       ) -> tuple[list[np.ndarray], list[TextReport]] | None:
     """Numbers of the data section, one float64 array per curve.
 
     Parameters
@@ -217,7 +217,6 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
     except (ParserError, UnicodeDecodeError, OverflowError, MemoryError):
         return None
     if frame is not None:
-        rows = len(frame)
         if frame.shape[1] != n_columns:
             return None
         # column by column, no interleaved copy of the whole table
@@ -274,9 +273,11 @@ def _text_column(col: np.ndarray, index: int) -> tuple[np.ndarray | None, TextRe
     """
     import pandas as pd
 
-    if any(not isinstance(t, str) for t in col[:1]) or not all(isinstance(t, str) for t in col):
+    if not all(isinstance(t, str) for t in col):
         return None, None                       # a missing field (short line)
     tokens = col.astype(str)
+    if np.any(tokens == ""):
+        return None, None
     values = pd.to_numeric(pd.Series(tokens), errors="coerce").to_numpy(dtype=np.float64, copy=True)
     ok = ~np.isnan(values)
     try:
