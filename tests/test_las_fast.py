@@ -285,3 +285,37 @@ def test_csv_writer_equals_pandas(tmp_path):
             for c in list(src.curves.values()) + new}
     expect = pd.DataFrame(cols).to_csv(index=False, float_format="%.10g", lineterminator="\n")
     assert out.read_text() == expect
+
+
+def test_random_layouts(tmp_path):
+    # many small files mixing every layout feature; whichever path a file takes, the
+    # well must equal the lasio path's (and most must take the fast path)
+    rng = np.random.default_rng(21)
+    odd_tokens = ["abc", "N/A", "nan", "-inf", "1_5", "NULL", "1.5-2", "1,5", "1.2.3", "--"]
+    fast = 0
+    for t in range(40):
+        n = int(rng.integers(1, 30))
+        lines = []
+        for i in range(n):
+            vals = [f"{1000 + 0.5 * i:.1f}"]
+            for _ in range(3):
+                r = rng.random()
+                if r < 0.04:
+                    vals.append(str(rng.choice(odd_tokens)))
+                elif r < 0.1:
+                    vals.append("-999.25")
+                else:
+                    vals.append(f"{rng.normal(0, 100):.{int(rng.integers(0, 8))}f}")
+            seps = [str(rng.choice([" ", "  ", "\t", " \t "])) for _ in vals]
+            lines.append(str(rng.choice(["", " ", "\t"])) + "".join(v + s for v, s in zip(vals, seps)))
+            if rng.random() < 0.05:
+                lines.append("# note")
+            if rng.random() < 0.05:
+                lines.append("")
+        rows = "\n".join(lines) + str(rng.choice(["", "\n", "\n\n", "\n  \n"]))
+        newline = "\r\n" if rng.random() < 0.3 else "\n"
+        p = write(tmp_path, las(rows), name=f"l{t}.las", newline=newline)
+        expect_fast = took_fast(p)
+        fast += expect_fast
+        check(p, expect_fast)
+    assert fast >= 20
