@@ -419,29 +419,29 @@ def format_general(values: np.ndarray, precision: int = 10) -> np.ndarray:
         # exactly `precision` significant digits, and no rounding tie (see format_fixed)
         ok = (mag >= low) & (mag < high) & (np.abs(p - np.floor(p) - 0.5) > p * 2.3e-16)
         slow_rows.append(rows[~ok])
-        rows, mag = rows[ok], mag[ok].astype(np.int64)
+        rows = rows[ok]
         m = format_fixed(x[rows], d, "")
         if d > 0 and rows.size:
             # drop trailing zeros of the fraction, and the point if nothing is left
-            n_zero = np.zeros(rows.size, dtype=np.int64)
-            going = np.ones(rows.size, dtype=bool)
-            for _ in range(d):
-                going &= (mag % 10) == 0
-                n_zero += going
-                mag //= 10
+            nonzero = m[:, :-d - 1:-1] != ord("0")        # fraction digits, last one first
+            n_zero = np.where(nonzero.any(axis=1), np.argmax(nonzero, axis=1), d)
             cut = m.shape[1] - n_zero - (n_zero == d)
             m[np.arange(m.shape[1])[None, :] >= cut[:, None]] = ord(" ")
         parts.append((rows, m))
-    zrows = np.flatnonzero(zero)
+    neg_zero = zero & np.signbit(x)
     slow = np.concatenate(slow_rows)
     texts = [("%.*g" % (precision, v)).encode("ascii") for v in x[slow].tolist()]
-    ztexts = [b"-0" if np.signbit(x[r]) else b"0" for r in zrows.tolist()]
-    width = max([m.shape[1] for _, m in parts] + [len(t) for t in texts + ztexts] + [0])
+    width = max([m.shape[1] for _, m in parts] + [len(t) for t in texts]
+                + [1 if zero.any() else 0, 2 if neg_zero.any() else 0])
     out = np.full((n, width), ord(" "), dtype=np.uint8)
     for rows, m in parts:
         if m.shape[1]:
             out[rows, width - m.shape[1]:] = m
-    for r, t in zip(np.concatenate((slow, zrows)).tolist(), texts + ztexts):
+    if width:
+        out[zero, width - 1] = ord("0")               # "0", and "-0" for negative zero
+    if width > 1:
+        out[neg_zero, width - 2] = ord("-")
+    for r, t in zip(slow.tolist(), texts):
         out[r, width - len(t):] = np.frombuffer(t, dtype=np.uint8)
     return out
 
