@@ -358,20 +358,19 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         return out
     # all digits from the right (leading zeros included), the decimal point before
     # the last `decimals` digits; then blanks over the leading zeros and the sign
+    first = width - text_len                      # first column of each text
     m = mag.copy()
     col = width - 1
     max_digits = int(n_digits.max(initial=0))
     for d in range(max_digits):
         if col < 0:
             break
-        out[:, col] = _DIGITS[m % 10]
-        m //= 10
+        m, digit = np.divmod(m, 10)
+        out[:, col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
         col -= 1
         if decimals and d == decimals - 1 and col >= 0:
             out[:, col] = _DOT
             col -= 1
-    first = width - text_len                      # first column of each text
-    out[np.arange(width)[None, :] < first[:, None]] = _SPACE
     sel = np.flatnonzero(neg & ~slow)
     out[sel, first[sel]] = _MINUS
     # clear whatever the digit loop wrote into rows formatted otherwise
