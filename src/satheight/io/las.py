@@ -282,16 +282,22 @@ def _replace_nulls(columns: list[np.ndarray], names: list[str], header_null: flo
     labels.append(f"magnitude >= {HUGE_NULL:g}")
     codes = [code for code in EXTRA_NULL_CODES if code != header_null]
     counts = np.zeros((len(labels), len(columns)), dtype=np.int64)
+    top = max(codes, default=-np.inf)                # the codes are looked for below this
     for i, col in enumerate(columns):
         if header_null is not None:
             col[col == header_null] = np.nan
-        masks = [col == code for code in codes]
         with np.errstate(invalid="ignore"):
-            masks.append(np.abs(col) >= HUGE_NULL)
-        for j, mask in enumerate(masks):
-            counts[j, i] = np.count_nonzero(mask)
-            if counts[j, i]:
-                col[mask] = np.nan
+            low = np.flatnonzero(col <= top)
+            big = np.abs(col) >= HUGE_NULL
+        if low.size:
+            sub = col[low]
+            for j, code in enumerate(codes):
+                hit = low[sub == code]
+                counts[j, i] = hit.size
+                col[hit] = np.nan
+        counts[-1, i] = np.count_nonzero(big)
+        if counts[-1, i]:
+            col[big] = np.nan
     warnings: list[str] = []
     null_text = _num(header_null) if header_null is not None else "not given"
     for label, per_curve in zip(labels, counts):
