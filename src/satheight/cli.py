@@ -344,6 +344,18 @@ def _common_run_options(sp):
     sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="md",
                     help="main depth scale of the track plots: measured depth (default) or "
                          "TVDSS (true vertical depth below datum); the other is the second scale")
+    sp.add_argument("--workers", metavar="N", type=_positive_int, default=1,
+                    help="run N wells at a time in separate processes (default 1)")
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be 1 or more, got {value}")
+    return value
 
 
 def _print_run(report, out) -> int:
@@ -352,11 +364,12 @@ def _print_run(report, out) -> int:
     for w in report.wells:
         if w.ok:
             print(f"  {w.name}: ok", file=out)
-            s = w.result.summary.get("whole_well", {}) if w.result else {}
+            summary = w.summary or {}
+            s = summary.get("whole_well", {})
             if s.get("samples_compared"):
                 print(f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
                       f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {w.result.summary['units']['thickness']}", file=out)
+                      f"log {s['hcpt_log']:.2f} {summary['units']['thickness']}", file=out)
             for f in w.files:
                 print(f"    {f}", file=out)
             for m in w.warnings:
@@ -438,7 +451,7 @@ def main(argv=None) -> int:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
-                             depth_axis=args.depth_axis)
+                             depth_axis=args.depth_axis, workers=args.workers)
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:

@@ -196,6 +196,149 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
         the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
         Sw = 1 whatever the porosity and permeability (they are still flagged).
         J outside the function's calibrated range keeps its Sw but is flagged.
+
+    Notes
+    -----
+    Zones are handled as sorted segments: with TVDSS non-decreasing (the usual
+    case) each zone window ``top <= z < base`` is one contiguous slice found by
+    binary search, and every quantity is computed on that slice in place, without
+    masks over the whole well or gathered copies. Otherwise the samples are
+    visited in sorted order (a stable argsort) and the results put back. Where
+    windows overlap the first zone wins, as in :func:`assign_zones`. The results
+    equal those of :func:`compute_shm_masks`.
+    """
+    z = np.asarray(tvdss, dtype=float)
+    phi = np.asarray(phi, dtype=float)
+    k = np.asarray(k, dtype=float)
+    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
+        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
+                             f"{z.shape}, {phi.shape}, {k.shape}")
+    order = None
+    if z.size > 1 and not bool(np.all(z[1:] >= z[:-1])):
+        order = np.argsort(z, kind="stable")          # NaN depths sort last: in no zone
+        z, phi, k = z[order], phi[order], k[order]
+    res = _compute_sorted(z, phi, k, zones)
+    if order is None:
+        return res
+    back = np.empty_like(order)
+    back[order] = np.arange(order.size)
+    return ShmResult(zone=res.zone[back], hafwl=res.hafwl[back], pc=res.pc[back], j=res.j[back],
+                     sw=res.sw[back], flag=res.flag[back])
+
+
+def _compute_sorted(z, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+    """:func:`compute_shm` for non-decreasing ``z`` (NaN only at the end)."""
+    n = z.size
+    # not filled here: every sample is written once, by its zone or as "no zone" below
+    zone = np.empty(n, dtype=np.int64)
+    hafwl, pc, j, sw = (np.empty(n) for _ in range(4))
+    flag = np.empty(n, dtype=np.int64)
+    spans = []                                        # [lo, hi) of every zone segment
+    # last zone first, so that where windows overlap the first zone's values stay
+    for i in range(len(zones) - 1, -1, -1):
+        zn = zones[i]
+        lo, hi = (int(v) for v in np.searchsorted(z, [zn.top, zn.base], side="left"))
+        if hi <= lo:
+            continue
+        s = slice(lo, hi)
+        if _needs_general_path(zn):
+            # gas cap, per-depth rock types or a height function: the general mask form
+            # on this zone's slice (every sample of the slice lies in the zone window)
+            r = compute_shm_masks(z[s], phi[s], k[s], [zn])
+            hafwl[s], pc[s], j[s], sw[s], flag[s] = r.hafwl, r.pc, r.j, r.sw, r.flag
+        else:
+            _zone_segment(zn, z[s], phi[s], k[s], hafwl[s], pc[s], j[s], sw[s], flag[s])
+        zone[s] = i
+        spans.append((lo, hi))
+    # the gaps between the (merged) segments are outside every zone
+    start = 0
+    for lo, hi in sorted(spans) + [(n, n)]:
+        if lo > start:
+            gap = slice(start, lo)
+            zone[gap] = -1
+            for a in (hafwl, pc, j, sw):
+                a[gap] = np.nan
+            flag[gap] = FLAG_NO_ZONE
+        start = max(start, hi)
+    return ShmResult(zone=zone, hafwl=hafwl, pc=pc, j=j, sw=sw, flag=flag)
+
+
+def _needs_general_path(zn: ZoneModel) -> bool:
+    """True for zones the in-place segment code does not cover (see :func:`_zone_segment`)."""
+    return (bool(getattr(zn, "three_phase", False)) or bool(zn.rock_functions)
+            or getattr(zn.function, "variable", "j") == "height")
+
+
+def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
+    """Fill the output slices ``h, pc, j, sw, flag`` of one zone in place.
+
+    The same arithmetic, in the same order, as :func:`compute_shm_masks`:
+    ``h = fwl - z``, ``Pc = max(drho*g*h, 0)``, ``J = Pc*sqrt(k/phi)/sigma_cos_theta``
+    where porosity and permeability are usable, J = 0 at and below the FWL.
+    """
+    np.subtract(zn.fwl, z, out=h)
+    np.multiply(h, zn.delta_rho * STANDARD_GRAVITY, out=pc)
+    np.maximum(pc, 0.0, out=pc)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        ok_phi = phi > 0
+        np.logical_and(ok_phi, phi <= 1, out=ok_phi)
+        ok_k = k > 0
+        usable = ok_phi & ok_k
+        below = h <= 0
+        np.divide(k, phi, out=j)
+        np.sqrt(j, out=j)
+        np.multiply(pc, j, out=j)
+        np.divide(j, zn.sigma_cos_theta, out=j)
+    j[~usable] = np.nan
+    j[below] = 0.0
+    fn = zn.function
+    if type(fn).predict is JSwFunction.predict and fn.params_ is not None:
+        # JSwFunction.predict written out on this slice, without its copies: the
+        # equation where J > 0, Sw = 1 where J <= 0 (at and below the FWL), clipped
+        # to [0, 1], NaN where J is NaN (porosity or permeability unusable)
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            sw[...] = fn.equation(j, **fn.params_)
+        np.clip(sw, 0.0, 1.0, out=sw)
+        sw[j <= 0] = 1.0
+        sw[np.isnan(j)] = np.nan
+    else:
+        sw[...] = fn.predict(j)       # elementwise: J = 0 gives Sw = 1, NaN gives NaN
+    # flag bits in one byte per sample, widened once at the end
+    bits = np.where(ok_phi, np.uint8(0), np.uint8(FLAG_BAD_POROSITY))
+    bits |= np.where(ok_k, np.uint8(0), np.uint8(FLAG_BAD_PERMEABILITY))
+    rng = zn.function.j_range_
+    if rng is not None:
+        above_fwl = usable & ~below
+        with np.errstate(invalid="ignore"):
+            bits |= (above_fwl & (j < rng[0])).view(np.uint8) * np.uint8(FLAG_J_BELOW_RANGE)
+            bits |= (above_fwl & (j > rng[1])).view(np.uint8) * np.uint8(FLAG_J_ABOVE_RANGE)
+    flag[...] = bits
+
+
+def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+    """Saturation-height model at every sample, straightforward mask form.
+
+    Same results as :func:`compute_shm` (which the tests check against this
+    function) but slower on large wells: every zone is a boolean mask over all
+    samples and every value is gathered through it.
+
+    Parameters
+    ----------
+    tvdss : array_like
+        TVDSS of each sample [m], positive down.
+    phi : array_like
+        Porosity [fraction]. NaN, <= 0 or > 1 gives Sw NaN and FLAG_BAD_POROSITY.
+    k : array_like
+        Permeability [m^2]. NaN or <= 0 gives Sw NaN and FLAG_BAD_PERMEABILITY.
+    zones : sequence of ZoneModel
+
+    Returns
+    -------
+    ShmResult
+        Arrays of the input length. Outside every zone all values are NaN and
+        the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
+        Sw = 1 whatever the porosity and permeability (they are still flagged).
+        J outside the function's calibrated range keeps its Sw but is flagged.
     """
     z = np.asarray(tvdss, dtype=float)
     phi = np.asarray(phi, dtype=float)
@@ -285,6 +428,8 @@ def _predict_by_rock_type(zn: ZoneModel, j, h, phi, k, flag):
         flag[m] |= bits
     flag[~known] |= FLAG_NO_ROCK_FUNCTION
     return sw, flag
+
+
 def column_pc_j(h, k, phi, zone: ZoneModel, oil_column=None):
     """Capillary pressure [Pa] and J [-] at height ``h`` above the FWL, any column type.
 

@@ -69,6 +69,11 @@ class WellOutcome:
     error: str | None = None
     warnings: list[str] = field(default_factory=list)
     result: WellResult | None = None
+    #: The well's comparison summary (also in ``result.summary`` when the result is kept).
+    summary: dict | None = None
+    #: What the field section needs of a well computed in a worker process (see
+    #: :func:`_section_view`); None when ``result`` is kept.
+    section: object | None = None
 
 
 @dataclass
@@ -400,8 +405,20 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
     for c in list(well.curves.values()) + new_curves:
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         cols[label] = c.data
-    frame = pd.DataFrame(cols)
-    atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
+    data = [np.asarray(v) for v in cols.values()]
+    if len(cols) != len(well.curves) + len(new_curves) or any(d.dtype != np.float64 for d in data):
+        frame = pd.DataFrame(cols)
+        atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
+        return
+    # the same text as pandas' to_csv(float_format="%.10g"), numbers formatted vectorised
+    from .io.atomic import atomic_open
+    from .io.las_fast import csv_rows
+
+    header = pd.DataFrame(columns=list(cols)).to_csv(index=False, lineterminator="\n")
+    with atomic_open(path, "w", encoding="utf-8", newline="") as f:
+        f.write(header)
+        for block in csv_rows(data, precision=10):
+            f.write(block)
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,
@@ -449,7 +466,7 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True, depth_axis: str = "md") -> RunReport:
+                plot: bool = True, depth_axis: str = "md", workers: int = 1) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -459,7 +476,21 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     A well that fails (missing curve, bad file) is reported and the others still
     run. The run summary ``run_summary.json`` lists every well, its files and
     errors.
+
+    Parameters
+    ----------
+    workers : int
+        Number of processes that run wells at the same time (default 1: all wells
+        in this process). With more than one, each well is loaded, computed and
+        written in a worker process into a private folder inside ``out_dir``, and
+        its files are moved into place here, in project order, so the outputs,
+        the failures reported and ``run_summary.json`` are those of a run with one
+        worker. The wells' arrays then stay in the workers: ``WellOutcome.result``
+        is None and ``WellOutcome.summary`` holds the summary.
     """
+    if isinstance(workers, bool) or not isinstance(workers, int) or workers < 1:
+        raise SatHeightError(f"workers must be a whole number >= 1, got {workers!r}",
+                             hint="give --workers 1 or more")
     if not isinstance(project, Project):
         project = load_project(project)
     out_dir = Path(out_dir)
@@ -470,27 +501,31 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     outcomes = []
     names_seen: set[str] = set()
     locations: dict = {}
-    for spec in project.wells:
+    if workers > 1 and len(project.wells) > 1:
+        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis)
+        locations = {o.name: getattr(spec, "location", None)
+                     for spec, o in zip(project.wells, outcomes) if o.ok}
+    for spec in (project.wells if not outcomes else ()):
         label = spec.name or spec.las.stem
         try:
             with warnings.catch_warnings(record=True) as caught:
                 warnings.simplefilter("always")
                 result, msgs = compute_well(project, spec)
                 if _safe_name(result.well.name) in names_seen:
-                    raise ProjectFileError(f"two wells are named {result.well.name!r}; outputs would collide",
-                                           where=str(project.path),
-                                           hint="give each well a distinct name in the project file")
+                    raise _name_clash(project, result.well.name)
                 names_seen.add(_safe_name(result.well.name))
                 files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
                                       depth_axis=depth_axis)
                 locations[result.well.name] = getattr(spec, "location", None)
             msgs += [str(c.message) for c in caught]
-            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
+            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result,
+                                        result.summary))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
     notes = []
     section_file = None
-    ok_results = [o.result for o in outcomes if o.ok and o.result is not None]
+    ok_results = [o.result if o.result is not None else o.section for o in outcomes
+                  if o.ok and (o.result is not None or o.section is not None)]
     if plot and ok_results:
         from .plots import section_plot
 
@@ -511,7 +546,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         "caution": CAUTION,
         "wells": [{"name": o.name, "ok": o.ok, "error": o.error, "warnings": o.warnings,
                    "files": [p.name for p in o.files],
-                   "summary": o.result.summary if o.result is not None else None}
+                   "summary": o.summary}
                   for o in outcomes],
     }
     if section_file is not None:
@@ -522,3 +557,95 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
     return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
                      notes=notes, section_file=section_file)
+
+
+# --------------------------------------------------------------------------------------
+# several wells at once (worker processes)
+
+def _name_clash(project: Project, name: str) -> ProjectFileError:
+    return ProjectFileError(f"two wells are named {name!r}; outputs would collide",
+                            where=str(project.path),
+                            hint="give each well a distinct name in the project file")
+
+
+def _section_view(result: WellResult, max_points: int = 4000):
+    """The few arrays of a well that the field section draws, thinned to ``max_points``."""
+    from types import SimpleNamespace
+
+    step = max(1, result.tvdss.size // max_points)
+
+    def thin(a):
+        return None if a is None else np.asarray(a)[::step].copy()
+
+    return SimpleNamespace(well=SimpleNamespace(name=result.well.name), zones=result.zones,
+                           tvdss=thin(result.tvdss), north=thin(getattr(result, "north", None)),
+                           east=thin(getattr(result, "east", None)),
+                           shm=SimpleNamespace(sw=thin(result.shm.sw)))
+
+
+def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
+              depth_axis: str = "md") -> tuple[WellOutcome, str | None]:
+    """One well in a worker process: load, compute, write into ``work_dir``.
+
+    Returns the outcome without the arrays (``result`` None) and the well's
+    output name (None if the well failed before its name was known).
+    """
+    label = spec.name or spec.las.stem
+    safe = None
+    try:
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            result, msgs = compute_well(project, spec)
+            safe = _safe_name(result.well.name)
+            work_dir.mkdir(parents=True, exist_ok=True)
+            files = write_outputs(result, project, work_dir, pdf=pdf, plot=plot,
+                                  depth_axis=depth_axis)
+        msgs += [str(c.message) for c in caught]
+        return WellOutcome(result.well.name, True, files, None, msgs, None, result.summary,
+                           _section_view(result) if plot else None), safe
+    except SatHeightError as exc:
+        return WellOutcome(label, False, [], str(exc)), safe
+
+
+def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
+                        workers: int, depth_axis: str = "md") -> list[WellOutcome]:
+    """Run the wells in ``workers`` processes; place their files in project order."""
+    import os
+    import shutil
+    import uuid
+    from concurrent.futures import ProcessPoolExecutor
+
+    work = out_dir / f".satheight-work-{uuid.uuid4().hex[:12]}"
+    outcomes: list[WellOutcome] = []
+    names_seen: set[str] = set()
+    try:
+        with ProcessPoolExecutor(max_workers=min(workers, len(project.wells))) as pool:
+            futures = [pool.submit(_well_job, project, spec, work / str(i), pdf, plot, depth_axis)
+                       for i, spec in enumerate(project.wells)]
+            for fut in futures:
+                outcome, safe = fut.result()
+                if safe is not None and safe in names_seen:
+                    if outcome.ok:
+                        outcome = WellOutcome(outcome.name, False, [],
+                                              str(_name_clash(project, outcome.name)))
+                    outcomes.append(outcome)
+                    continue
+                if safe is not None:
+                    names_seen.add(safe)
+                if outcome.ok:
+                    placed = []
+                    for f in outcome.files:
+                        target = out_dir / f.name
+                        try:
+                            os.replace(f, target)
+                        except OSError as exc:
+                            raise SatHeightError(f"cannot move an output file into place: "
+                                                 f"{exc.strerror or exc}", where=str(target),
+                                                 hint="check that the output folder is "
+                                                      "writable") from exc
+                        placed.append(target)
+                    outcome.files = placed
+                outcomes.append(outcome)
+    finally:
+        shutil.rmtree(work, ignore_errors=True)
+    return outcomes

@@ -1,7 +1,10 @@
 """LAS well-log files: read into a :class:`~satheight.well.Well`, write LAS 2.0.
 
 Reading goes through the ``lasio`` library, kept behind this module: nothing
-outside :mod:`satheight.io` imports it. The reader turns lasio's objects into the
+outside :mod:`satheight.io` imports it. For speed on large files lasio parses only
+the header sections of a plain LAS 1.2/2.0 unwrapped file and the ``~A`` section is
+read by pandas' C parser (:mod:`satheight.io.las_fast`); any other file is read by
+lasio as a whole, with the same result. The reader turns what was parsed into the
 tool's own :class:`~satheight.well.Well` and applies the tool's rules:
 
 * the depth index unit must be metres or feet (from the index curve's unit, else
@@ -16,8 +19,8 @@ tool's own :class:`~satheight.well.Well` and applies the tool's rules:
 * every problem with the file raises :class:`~satheight.errors.InputFileError`
   naming the file; no lasio or OS exception escapes.
 
-Writing uses the tool's own LAS 2.0 writer (plain numpy formatting, one column at
-a time), through :mod:`satheight.io.atomic`. Every input curve is written back with
+Writing uses the tool's own LAS 2.0 writer (vectorised fixed-point number text,
+:func:`satheight.io.las_fast.format_fixed`), through :mod:`satheight.io.atomic`. Every input curve is written back with
 enough decimals that its values read back exactly.
 """
 
@@ -35,7 +38,7 @@ from typing import Any, Iterable, Iterator, Mapping, Sequence
 import numpy as np
 
 from .. import units
-from ..errors import DepthError, InputFileError
+from ..errors import DepthError, InputFileError, SatHeightError
 from ..roles import ROLE_ALIASES, detect_roles
 from ..well import Curve, HeaderItem, Well
 from .atomic import atomic_open
@@ -89,6 +92,7 @@ class _RawLas:
     columns: list[np.ndarray]                # one per curve, any dtype, same length
     other: str
     messages: list[str] = field(default_factory=list)
+    owned: bool = False                      # columns are fresh arrays nobody else holds
 
 
 class _ListHandler(logging.Handler):
@@ -130,6 +134,19 @@ def _num(x: float) -> str:
 
 def _read_text(path: Path) -> str:
     """The file's text (UTF-8, else Latin-1), or an InputFileError saying why not."""
+    return _decode(_read_bytes(path))
+
+
+def _decode(raw: bytes) -> str:
+    """Text of LAS bytes: UTF-8 (a leading byte-order mark dropped), else Latin-1."""
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        return raw.decode("latin-1")
+
+
+def _read_bytes(path: Path) -> bytes:
+    """The file's bytes, or an InputFileError saying why they cannot be read as LAS text."""
     if not path.exists():
         raise InputFileError("file not found", where=str(path),
                              hint="check the file name and folder (a relative path is taken from "
@@ -145,10 +162,7 @@ def _read_text(path: Path) -> str:
     if b"\x00" in raw:
         raise InputFileError("the file holds binary data, not LAS text", where=str(path),
                              hint="give a LAS 1.2 or 2.0 text file")
-    try:
-        return raw.decode("utf-8-sig")
-    except UnicodeDecodeError:
-        return raw.decode("latin-1")
+    return raw
 
 
 def _lasio_error_text(exc: Exception) -> str:
@@ -171,6 +185,11 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
         except Exception as exc:  # lasio raises KeyError, ValueError, LASHeaderError...
             raise InputFileError(f"cannot read as LAS: {_lasio_error_text(exc)}",
                                  where=str(path), hint=_HINT_LAS) from exc
+    return _raw_from_lasio(path, las, [np.asarray(c.data) for c in las.curves], messages)
+
+
+def _raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[str]) -> _RawLas:
+    """A :class:`_RawLas` from lasio's header objects and the given data columns."""
 
     def items(section) -> list[HeaderItem]:
         return [HeaderItem(it.mnemonic, str(it.unit or ""), _plain(it.value), str(it.descr or ""))
@@ -183,27 +202,37 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
             version = str(float(v)) if isinstance(v, (int, float)) else str(v)
     curve_defs = [(c.mnemonic, str(c.unit or ""), str(c.descr or ""),
                    "" if c.value is None else str(c.value)) for c in las.curves]
-    columns = [np.asarray(c.data) for c in las.curves]
     other = las.other if isinstance(las.other, str) else ""
     keep = [m for m in messages if not m.startswith("Could not convert curve")]
     return _RawLas(version, items(las.well), items(las.params), curve_defs, columns, other,
                    [f"{path}: LAS reader: {m}" for m in keep])
 
 
-def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str]) -> np.ndarray:
-    """A new float64 copy of a data column; text entries become NaN with a warning."""
+def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str],
+              owned: bool = False) -> np.ndarray:
+    """A new float64 copy of a data column; text entries become NaN with a warning.
+
+    With ``owned`` a writable float64 column is taken as it is (no copy).
+    """
+    if owned and column.dtype == np.float64 and column.flags.writeable:
+        return column
     if column.dtype.kind in "fiub":
         return column.astype(np.float64, copy=True)
     import pandas as pd
 
     text = np.asarray(column, dtype=str)
-    values = pd.to_numeric(pd.Series(text), errors="coerce").to_numpy(dtype=np.float64)
+    values = pd.to_numeric(pd.Series(text), errors="coerce").to_numpy(dtype=np.float64, copy=True)
     bad = np.isnan(values) & (np.char.lower(np.char.strip(text)) != "nan")
     if bad.any():
         first = int(np.flatnonzero(bad)[0])
-        warnings.append(f"{path}: curve {mnemonic!r} has {int(bad.sum())} entries that are not "
-                        f"numbers (first {str(text[first])!r} at data row {first + 1}); read as null")
+        warnings.append(_text_warning(path, mnemonic, int(bad.sum()), str(text[first]), first + 1))
     return values
+
+
+def _text_warning(path: Path, mnemonic: str, count: int, first_text: str, first_row: int) -> str:
+    """Warning for entries of a curve that are not numbers (read as null)."""
+    return (f"{path}: curve {mnemonic!r} has {count} entries that are not numbers "
+            f"(first {first_text!r} at data row {first_row}); read as null")
 
 
 def _index_unit(path: Path, mnemonic: str, curve_unit: str, strt_unit: str) -> str:
@@ -247,24 +276,37 @@ def _replace_nulls(columns: list[np.ndarray], names: list[str], header_null: flo
     """Set null codes to NaN in place in ``columns`` (non-index curves); report extras."""
     if not columns:
         return []
-    block = np.vstack(columns)
-    if header_null is not None:
-        block[block == header_null] = np.nan
+    # one curve at a time (no stacked copy of all curves); the codes other than the
+    # header NULL are counted per curve for the warning
+    labels = [f"{_num(code)}" for code in EXTRA_NULL_CODES if code != header_null]
+    labels.append(f"magnitude >= {HUGE_NULL:g}")
+    codes = [code for code in EXTRA_NULL_CODES if code != header_null]
+    counts = np.zeros((len(labels), len(columns)), dtype=np.int64)
+    top = max(codes, default=-np.inf)                # the codes are looked for below this
+    for i, col in enumerate(columns):
+        if header_null is not None:
+            col[col == header_null] = np.nan
+        with np.errstate(invalid="ignore"):
+            low = np.flatnonzero(col <= top)
+            big = np.abs(col) >= HUGE_NULL
+        if low.size:
+            sub = col[low]
+            for j, code in enumerate(codes):
+                hit = low[sub == code]
+                counts[j, i] = hit.size
+                col[hit] = np.nan
+        counts[-1, i] = np.count_nonzero(big)
+        if counts[-1, i]:
+            col[big] = np.nan
     warnings: list[str] = []
-    masks = [(f"{_num(code)}", block == code) for code in EXTRA_NULL_CODES if code != header_null]
-    masks.append((f"magnitude >= {HUGE_NULL:g}", np.abs(block) >= HUGE_NULL))
     null_text = _num(header_null) if header_null is not None else "not given"
-    for label, mask in masks:
-        per_curve = mask.sum(axis=1)
+    for label, per_curve in zip(labels, counts):
         total = int(per_curve.sum())
         if total == 0:
             continue
-        block[mask] = np.nan
         where = ", ".join(f"{names[i]} {int(n)}" for i, n in enumerate(per_curve) if n)
         warnings.append(f"{path}: {total} value(s) of {label} read as null (common null code; "
                         f"header NULL is {null_text}): {where}")
-    for i in range(len(columns)):
-        columns[i] = block[i].copy()
     return warnings
 
 
@@ -316,7 +358,7 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
                              hint="check that every ~A row has one value per ~Curve line")
     warnings = list(raw.messages)
     names = [d[0] for d in raw.curve_defs]
-    columns = [_to_float(c, m, path, warnings) for c, m in zip(raw.columns, names)]
+    columns = [_to_float(c, m, path, warnings, raw.owned) for c, m in zip(raw.columns, names)]
     index_mnemonic, index_curve_unit = raw.curve_defs[0][0], raw.curve_defs[0][1]
     strt = _header_lookup(raw.well_items, "STRT")
     depth_unit = _index_unit(path, index_mnemonic, index_curve_unit, strt.unit if strt else "")
@@ -353,13 +395,19 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
     )
 
 
-def read_las(path) -> Well:
+def read_las(path, engine: str = "auto") -> Well:
     """Read a LAS 1.2 or 2.0 file into a :class:`~satheight.well.Well`.
 
     Parameters
     ----------
     path : str or os.PathLike
         The LAS file. It is only read, never changed.
+    engine : {"auto", "lasio"}
+        ``"auto"`` (default): header sections with lasio, a plain unwrapped ``~A``
+        section with pandas' compiled parser (see :mod:`satheight.io.las_fast`),
+        anything else (wrapped, LAS 3.0, quotes, commas, lines with another
+        number of values...) with lasio. ``"lasio"``: the whole file with lasio.
+        Both give the same well.
 
     Returns
     -------
@@ -379,9 +427,71 @@ def read_las(path) -> Well:
         If a depth is missing, repeated or out of order (names the data row).
     """
     path = Path(path)
-    text = _read_text(path)
-    raw = _parse_with_lasio(path, text)
-    return _build_well(path, raw)
+    if engine not in ("auto", "lasio"):
+        raise SatHeightError(f"unknown LAS reading engine {engine!r}", where="read_las",
+                             hint="use engine='auto' or engine='lasio'")
+    data = _read_bytes(path)
+    parsed = _parse_fast(path, data) if engine == "auto" else None
+    if parsed is None:
+        parsed = _parse_with_lasio(path, _decode(data))
+    del data
+    return _build_well(path, parsed)
+
+
+# Header items that make the fast path step aside (lasio handles them).
+_FAST_VERSIONS = (1.2, 2.0)
+
+
+def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
+    """Header with lasio, ``~A`` with pandas; None when the file is not plain enough.
+
+    Returns None (the caller then reads the whole file with lasio) for: no ``~A``
+    line, more than one data section or LAS 3.0 sections, VERS other than 1.2 or
+    2.0, WRAP other than NO, a DLM item, and every data-section case
+    :func:`satheight.io.las_fast.parse_data_section` declines.
+    """
+    import lasio
+
+    from . import las_fast
+
+    found = las_fast.split_data_section(data)
+    if found is None:
+        return None
+    start, end = found
+    header_text = _decode(data[:end])             # the header sections and the ~A line
+    for line in _decode(data[:start]).split("\n"):   # every line before the ~A line
+        t = line.strip()
+        if t.startswith("~") and (t[:2] == "~A" or "_Data" in t or "~Log_" in t):
+            return None
+    scan = las_fast.scan_data_section(data, end)
+    if scan is None:
+        return None
+    with _lasio_messages() as messages:
+        try:
+            las = lasio.read(io.StringIO(header_text), mnemonic_case="preserve", engine="normal",
+                             ignore_data=True)
+        except Exception:  # noqa: BLE001 - the lasio path reports the problem
+            return None
+    items = [it for sect in (las.version, las.well, las.params) for it in sect]
+    vers = next((_plain(it.value) for it in las.version if it.mnemonic.upper() == "VERS"), None)
+    wrap = next((_plain(it.value) for it in las.version if it.mnemonic.upper() == "WRAP"), None)
+    if not isinstance(vers, (int, float)) or float(vers) not in _FAST_VERSIONS:
+        return None
+    if str(wrap).strip().upper() != "NO" or any(it.mnemonic.upper() == "DLM" for it in items):
+        return None
+    n = len(las.curves)
+    if n == 0:
+        return None
+    parsed = las_fast.parse_data_section(data, end, n, scan)
+    if parsed is None:
+        return None
+    block, texts = parsed
+    raw = _raw_from_lasio(path, las, block, messages)
+    raw.owned = True
+    names = [d[0] for d in raw.curve_defs]
+    raw.messages += [_text_warning(path, names[t.column], t.count, t.first_text, t.first_row)
+                     for t in texts]
+    return raw
 
 
 # ---------------------------------------------------------------------------
@@ -394,16 +504,54 @@ def _decimals_for(values: np.ndarray, cap: int) -> int:
     if finite.size == 0:
         return 0
     with np.errstate(over="ignore", invalid="ignore"):
+        # a sample needs at most as many decimals as the whole curve: start there
+        start = 0
+        sample = finite[:256]
         for d in range(cap + 1):
+            if np.array_equal(np.round(sample, d), sample):
+                start = d
+                break
+        else:
+            return cap
+        for d in range(start, cap + 1):
             if np.array_equal(np.round(finite, d), finite):
                 return d
     return cap
 
 
 def _format_column(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
-    """Fixed-point text of each value (no exponent); non-finite values as ``null_text``."""
-    text = np.char.mod(f"%.{decimals}f", values)
-    return np.where(np.isfinite(values), text, null_text)
+    """Fixed-point text of each value (no exponent); non-finite values as ``null_text``.
+
+    Returns a ``(n, width)`` uint8 array of right-aligned ASCII text, ``width`` the
+    longest text (see :func:`satheight.io.las_fast.format_fixed`).
+    """
+    from .las_fast import format_fixed
+
+    return format_fixed(values, decimals, null_text)
+
+
+def _text_at(column: np.ndarray, row: int) -> str:
+    """Text of one row of a :func:`_format_column` result, without padding."""
+    return column[row].tobytes().decode("ascii").strip()
+
+
+#: Data rows assembled and written per step (bounds the writer's memory).
+_WRITE_ROWS = 65536
+
+
+def _write_rows(f, columns: Sequence[np.ndarray], widths: Sequence[int]) -> None:
+    """Write the data lines: columns right-aligned in ``widths``, one blank between."""
+    line = widths[0] + sum(1 + w for w in widths[1:]) + 1
+    n = columns[0].shape[0]
+    for a in range(0, n, _WRITE_ROWS):
+        b = min(n, a + _WRITE_ROWS)
+        buf = np.full((b - a, line), ord(" "), dtype=np.uint8)
+        end = 0
+        for i, (col, w) in enumerate(zip(columns, widths)):
+            end += w if i == 0 else 1 + w
+            buf[:, end - col.shape[1]:end] = col[a:b]
+        buf[:, -1] = ord("\n")
+        f.write(buf.tobytes().decode("ascii"))
 
 
 def _file_mnemonic(key: str, all_keys: Sequence[str]) -> str:
@@ -603,8 +751,9 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
              *_header_lines([("VERS", "", "2.0", "LAS version 2.0"),
                              ("WRAP", "", "NO", "one line per depth sample")]),
              "~Well",
-             *_header_lines(_well_rows(well, index_unit, str(index_text[0]), str(index_text[-1]),
-                                       f"{step:.{dec[0]}f}", null_text)),
+             *_header_lines(_well_rows(well, index_unit, _text_at(index_text, 0),
+                                       _text_at(index_text, -1), f"{step:.{dec[0]}f}",
+                                       null_text)),
              "~Curve",
              *_header_lines([(_file_mnemonic(c.mnemonic, keys) if i < len(in_curves)
                               else c.mnemonic, c.unit, c.value, c.description)
@@ -625,15 +774,11 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
                                   for d, k in zip(all_data[1:], dec[1:])]
         labels = [_file_mnemonic(c.mnemonic, keys) if i < len(in_curves) else c.mnemonic
                   for i, c in enumerate(all_curves)]
-        widths = [max(int(np.char.str_len(col).max()), len(lab)) for col, lab in zip(columns, labels)]
+        widths = [max(col.shape[1], len(lab)) for col, lab in zip(columns, labels)]
         widths[0] = max(widths[0], len(labels[0]) + 3)      # room for "~A " before the first label
         f.write("~A" + f"{labels[0]:>{widths[0] - 2}}"
                 + "".join(f" {lab:>{w}}" for lab, w in zip(labels[1:], widths[1:])) + "\n")
-        rows = np.char.rjust(columns[0], widths[0])
-        for col, w in zip(columns[1:], widths[1:]):
-            rows = np.char.add(np.char.add(rows, " "), np.char.rjust(col, w))
-        f.write("\n".join(rows.tolist()))
-        f.write("\n")
+        _write_rows(f, columns, widths)
 
 
 # ---------------------------------------------------------------------------

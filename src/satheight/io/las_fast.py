@@ -1,0 +1,466 @@
+"""Compiled-speed pieces of LAS input and output: the ``~A`` data section and number text.
+
+Reading a large LAS 2.0 file with lasio costs seconds and hundreds of MB because
+lasio splits every line in Python. :mod:`satheight.io.las` therefore keeps lasio
+for the header sections only and hands the ``~A`` section to the functions here:
+
+* :func:`split_data_section` finds the ``~A`` line in the raw bytes;
+* :func:`scan_data_section` checks, in one vectorised pass over the bytes, that the
+  section holds nothing lasio would treat specially (see below), and counts its
+  whitespace-separated tokens and comment lines;
+* :func:`parse_data_section` reads the numbers with pandas' C parser (one column per
+  curve) and returns ``None`` whenever the result could differ from lasio's, so
+  the caller falls back to lasio for that file.
+
+The fast path takes a data section only when it is plain: ASCII printable
+characters, blanks, tabs and line ends (LF or CRLF); no quotes, commas or ``~``;
+``#`` only at the start of a line (a whole-line comment, as lasio skips it).
+Every line must hold exactly one value per curve: the number of tokens in the
+file is compared with rows x curves, so a dropped or short row is never missed.
+Text in a numeric column is read as null exactly as the lasio path does, unless
+the text is something lasio rewrites (run-on numbers ``1.5-2.3``, ``1.2.3``,
+decimal commas), in which case the whole file goes to lasio.
+
+:func:`format_fixed` writes fixed-point text of a float column (``"%.{d}f"``
+without exponents) with integer arithmetic in numpy instead of one Python format
+call per value; values whose rounding is a tie to within the float resolution are
+formatted by Python's own ``%`` operator, so the text is the same as ``"%.{d}f" % x``.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+from dataclasses import dataclass
+
+import numpy as np
+
+__all__ = ["split_data_section", "scan_data_section", "parse_data_section", "DataScan",
+           "format_fixed", "FIXED_MAX"]
+
+#: Bytes handled per step of the vectorised scan (bounds its extra memory).
+_CHUNK = 1 << 22
+
+#: Token text lasio's default read policy rewrites before splitting a data line
+#: (lasio.defaults.READ_SUBS: decimal comma, run-on minus, run-on dots / NaN).
+_LASIO_REWRITES = re.compile(r"\d,\d|\d-\d|\d*\.\d*\.|NaN[.-]\d")
+
+#: Largest magnitude of a value times 10**decimals formatted with integers.
+FIXED_MAX = float(2 ** 40)
+
+
+def split_data_section(raw: bytes) -> tuple[int, int] | None:
+    """Byte offsets ``(start, end)`` of the ``~A`` title line, or None.
+
+    ``start`` is the first byte of the title line and ``end`` the first byte after
+    it (the first data byte). None when the file has no ``~A`` line at the start
+    of a line, or when a section line starts with other blank characters than
+    spaces and tabs (left to lasio).
+    """
+    pos = 0
+    while True:
+        k = raw.find(b"~", pos)
+        if k < 0:
+            return None
+        start = raw.rfind(b"\n", 0, k) + 1
+        lead = raw[start:k]
+        if lead.strip(b" \t") == b"":
+            if raw[k:k + 2] == b"~A":
+                nl = raw.find(b"\n", k)
+                return start, (len(raw) if nl < 0 else nl + 1)
+        elif lead.isspace():
+            return None
+        pos = k + 1
+
+
+@dataclass
+class DataScan:
+    """What one pass over the data bytes found."""
+
+    tokens: int                 # whitespace-separated tokens outside comment lines
+    has_comments: bool          # whole-line ``#`` comments present (none indented)
+
+
+def scan_data_section(raw: bytes, offset: int) -> DataScan | None:
+    """Check and count the data section ``raw[offset:]``; None if it is not plain.
+
+    Plain means: only printable ASCII, blank, tab, LF and CR-LF; no ``~`` (a later
+    section), no quotes (lasio joins quoted text into one token), no commas; ``#``
+    only as the first character of a line (lasio and pandas both skip such a
+    line; an indented or trailing ``#`` is handled differently by the two).
+    """
+    for ch in (b"~", b'"', b"'", b","):
+        if raw.find(ch, offset) >= 0:
+            return None
+    comment_tokens = 0
+    has_comments = False
+    k = raw.find(b"#", offset)
+    while k >= 0:
+        start = raw.rfind(b"\n", offset, k) + 1 if k > offset else offset
+        if start < offset:
+            start = offset
+        if k != start:                      # '#' not the first character of its line
+            return None
+        nl = raw.find(b"\n", k)
+        end = len(raw) if nl < 0 else nl
+        comment_tokens += len(raw[k:end].split())
+        has_comments = True
+        k = raw.find(b"#", end)
+    tokens = 0
+    prev_blank = True
+    for s in range(offset, len(raw), _CHUNK):
+        c = np.frombuffer(raw, np.uint8, count=min(_CHUNK, len(raw) - s), offset=s)
+        if int(c.max(initial=0)) > 126:
+            return None
+        n_low = int(np.count_nonzero(c < 32))
+        n_lf = int(np.count_nonzero(c == 10))
+        if n_low != n_lf:
+            n_tab = int(np.count_nonzero(c == 9))
+            n_cr = int(np.count_nonzero(c == 13))
+            if n_low != n_lf + n_tab + n_cr:
+                return None
+            if n_cr:
+                cr = np.flatnonzero(c == 13)
+                last = cr[-1]
+                if last == c.size - 1:
+                    # CR at the end of a chunk: the LF must start the next chunk
+                    if s + c.size >= len(raw) or raw[s + c.size] != 10:
+                        return None
+                    cr = cr[:-1]
+                if np.any(c[cr + 1] != 10):
+                    return None
+        word = c > 32
+        starts = np.count_nonzero(word[1:] > word[:-1])      # blank then non-blank
+        tokens += int(starts) + int(bool(word[0]) and prev_blank)
+        prev_blank = not bool(word[-1])
+    return DataScan(tokens=tokens - comment_tokens, has_comments=has_comments)
+
+
+def _lasio_number(token: str) -> tuple[float, bool]:
+    """The value lasio gives a token, and whether it counts as text (not a number)."""
+    try:
+        return float(token), False
+    except ValueError:
+        return np.nan, True
+
+
+def _read(raw: bytes, offset: int, n_columns: int, comments: bool, dtype):
+    import pandas as pd
+
+    buf = io.BytesIO(raw)          # shares the bytes; no copy of the file
+    buf.seek(offset)
+    kwargs = dict(sep=r"\s+", header=None, names=list(range(n_columns)), engine="c",
+                  na_filter=False, skip_blank_lines=True, comment="#" if comments else None,
+                  dtype=dtype)
+    if _OLD_PANDAS:
+        kwargs["float_precision"] = "round_trip"
+    return pd.read_csv(buf, **kwargs)
+
+
+def _pandas_before_3_1() -> bool:
+    import pandas as pd
+
+    parts = re.findall(r"\d+", pd.__version__)[:2]
+    return tuple(int(p) for p in parts) < (3, 1)
+
+
+_OLD_PANDAS = _pandas_before_3_1()
+
+
+@dataclass
+class TextReport:
+    """Entries of one column that are not numbers (read as null)."""
+
+    column: int
+    count: int
+    first_text: str
+    first_row: int              # 1-based data row
+
+
+def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
+                       ) -> tuple[list[np.ndarray], list[TextReport]] | None:
+    """Numbers of the data section, one float64 array per curve.
+
+    Parameters
+    ----------
+    raw : bytes
+        The whole file.
+    offset : int
+        First byte of the data section (after the ``~A`` line).
+    n_columns : int
+        Number of curves in ``~Curve``.
+    scan : DataScan
+        Result of :func:`scan_data_section` for the same bytes.
+
+    Returns
+    -------
+    (list of numpy.ndarray, list of TextReport) or None
+        One array per curve, in ``~Curve`` order, each contiguous. Text entries
+        are NaN and reported per column. None when the section cannot be read
+        exactly as lasio would (a line with another number of values, text that
+        lasio rewrites, no rows): the caller then uses lasio.
+    """
+    from pandas.errors import ParserError
+
+    try:
+        try:
+            frame = _read(raw, offset, n_columns, scan.has_comments, np.float64)
+            texts: list[TextReport] = []
+            block = None
+        except ValueError as exc:
+            if isinstance(exc, ParserError):
+                return None
+            block, texts = _read_with_text(raw, offset, n_columns, scan)
+            if block is None:
+                return None
+            frame = None
+    except (ParserError, UnicodeDecodeError, OverflowError, MemoryError):
+        return None
+    if frame is not None:
+        if frame.shape[1] != n_columns:
+            return None
+        # column by column, no interleaved copy of the whole table
+        block = [_writable(frame[i].to_numpy(dtype=np.float64)) for i in range(n_columns)]
+        del frame
+    rows = len(block[0]) if len(block) else 0
+    if rows == 0 or rows * n_columns != scan.tokens:
+        return None
+    return block, texts
+
+
+def _writable(a: np.ndarray) -> np.ndarray:
+    """``a`` made writable without a copy where numpy allows it (the frame is dropped)."""
+    if not a.flags.writeable:
+        try:
+            a.flags.writeable = True
+        except ValueError:
+            a = a.copy()
+    return a
+
+
+def _read_with_text(raw: bytes, offset: int, n_columns: int, scan: DataScan):
+    """Second read when some entries are not numbers: text columns token by token."""
+    probe = _read(raw, offset, n_columns, scan.has_comments, None)
+    if probe.shape[1] != n_columns:
+        return None, []
+    numeric = [probe[i].dtype.kind in "fiu" for i in range(n_columns)]
+    del probe
+    frame = _read(raw, offset, n_columns, scan.has_comments,
+                  {i: (np.float64 if numeric[i] else object) for i in range(n_columns)})
+    rows = len(frame)
+    block = [np.empty(rows, dtype=np.float64) for _ in range(n_columns)]
+    texts = []
+    for i in range(n_columns):
+        col = frame[i].to_numpy()
+        if numeric[i]:
+            block[i][:] = col
+            continue
+        values, report = _text_column(col, i)
+        if values is None:
+            return None, []
+        block[i] = values
+        if report is not None:
+            texts.append(report)
+    return block, texts
+
+
+def _text_column(col: np.ndarray, index: int) -> tuple[np.ndarray | None, TextReport | None]:
+    """Values of a column holding some text, as lasio's path reads it.
+
+    lasio takes every token ``float()`` accepts as that number and any other token
+    as text, which becomes null. Numbers are converted in one vectorised step;
+    only the entries pandas could not read as numbers are looked at one by one.
+    """
+    import pandas as pd
+
+    if not all(isinstance(t, str) for t in col):
+        return None, None                       # a missing field (short line)
+    tokens = col.astype(str)
+    if np.any(tokens == ""):
+        return None, None
+    values = pd.to_numeric(pd.Series(tokens), errors="coerce").to_numpy(dtype=np.float64, copy=True)
+    ok = ~np.isnan(values)
+    try:
+        values[ok] = tokens[ok].astype(np.float64)   # exact: same rounding as float()
+    except ValueError:
+        return None, None
+    rest = np.flatnonzero(~ok)
+    bad_rows = []
+    for r in rest:
+        t = str(tokens[r])
+        if _LASIO_REWRITES.search(t):
+            return None, None                   # lasio would rewrite this line: use lasio
+        values[r], is_text = _lasio_number(t)
+        if is_text:
+            bad_rows.append(int(r))
+    if not bad_rows:
+        return values, None
+    first = bad_rows[0]
+    return values, TextReport(index, len(bad_rows), str(tokens[first]), first + 1)
+
+
+# ---------------------------------------------------------------------------
+# Writing numbers
+# ---------------------------------------------------------------------------
+
+_DIGITS = np.frombuffer(b"0123456789", dtype=np.uint8)
+_SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
+
+
+def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
+    """Fixed-point text of each value, right-aligned, as a ``(n, width)`` uint8 array.
+
+    Each row holds the ASCII text of ``"%.{decimals}f" % x`` (``null_text`` where
+    ``x`` is not finite), padded on the left with blanks to the longest text of
+    the column. ``width`` is that longest length.
+
+    Values with ``|x| * 10**decimals < 2**40`` are formatted with integer
+    arithmetic; ties and larger values go through Python's ``%`` operator, so the
+    text equals ``"%.{decimals}f" % x`` for every value.
+    """
+    x = np.asarray(values, dtype=np.float64)
+    n = x.size
+    finite = np.isfinite(x)
+    scale = 10.0 ** decimals
+    with np.errstate(invalid="ignore", over="ignore"):
+        p = np.abs(x) * scale
+        p[~finite] = 0.0
+        fast = p < FIXED_MAX
+        frac = p - np.floor(p)
+        # exact product and rounded product differ by at most half an ulp of p
+        tie = np.abs(frac - 0.5) <= np.abs(p) * 2.3e-16
+    slow = finite & (~fast | tie)
+    mag = np.rint(np.where(slow, 0.0, p)).astype(np.int64)
+    neg = np.signbit(x) & finite
+
+    # number of digits of the magnitude, at least decimals + 1 (a leading zero)
+    n_digits = np.full(n, decimals + 1, dtype=np.int64)
+    limit = 10 ** (decimals + 1)
+    power = limit
+    while True:
+        more = mag >= power
+        if not more.any():
+            break
+        n_digits += more
+        power *= 10
+    text_len = n_digits + (1 if decimals else 0) + neg
+    slow_text = [("%.*f" % (decimals, v)).encode("ascii") for v in x[slow].tolist()]
+    null_b = null_text.encode("ascii")
+    width = 0
+    if n:
+        width = int(text_len[finite & ~slow].max(initial=0))
+        if slow_text:
+            width = max(width, max(len(t) for t in slow_text))
+        if not finite.all():
+            width = max(width, len(null_b))
+    out = np.full((n, width), _SPACE, dtype=np.uint8)
+    if n == 0 or width == 0:
+        return out
+    # all digits from the right (leading zeros included), the decimal point before
+    # the last `decimals` digits; then blanks over the leading zeros and the sign
+    first = width - text_len                      # first column of each text
+    m = mag.copy()
+    col = width - 1
+    max_digits = int(n_digits.max(initial=0))
+    for d in range(max_digits):
+        if col < 0:
+            break
+        m, digit = np.divmod(m, 10)
+        out[:, col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
+        col -= 1
+        if decimals and d == decimals - 1 and col >= 0:
+            out[:, col] = _DOT
+            col -= 1
+    sel = np.flatnonzero(neg & ~slow)
+    out[sel, first[sel]] = _MINUS
+    # clear whatever the digit loop wrote into rows formatted otherwise
+    other = ~finite | slow
+    if other.any():
+        out[other] = _SPACE
+        if not finite.all():
+            nb = np.frombuffer(null_b, dtype=np.uint8)
+            if nb.size:
+                out[np.ix_(np.flatnonzero(~finite), np.arange(width - nb.size, width))] = nb
+        for r, t in zip(np.flatnonzero(slow).tolist(), slow_text):
+            out[r, width - len(t):] = np.frombuffer(t, dtype=np.uint8)
+    return out
+
+
+def format_general(values: np.ndarray, precision: int = 10) -> np.ndarray:
+    """Text of ``"%.{precision}g" % x`` for each value, as a ``(n, width)`` uint8 array.
+
+    Each row holds the text right-aligned and padded with blanks on the left;
+    NaN gives an empty text (all blanks). Values written in fixed notation by
+    ``%g`` (decimal exponent from -4 to precision - 1) are formatted with
+    :func:`format_fixed` at the decimals ``%g`` would use and their trailing zeros
+    removed; a value is checked to carry exactly ``precision`` significant digits
+    before that, and every value that does not (a rounding carry into the next
+    power of ten, a logarithm off by one) or needs an exponent is formatted by
+    Python's ``%`` operator itself. The text is therefore that of ``%`` for every
+    value.
+    """
+    x = np.asarray(values, dtype=np.float64)
+    n = x.size
+    finite = np.isfinite(x)
+    a = np.abs(np.where(finite, x, 1.0))
+    with np.errstate(divide="ignore"):
+        e0 = np.floor(np.log10(np.where(a > 0, a, 1.0))).astype(np.int64)
+    fast = finite & (a > 0) & (e0 >= -4) & (e0 < precision)
+    zero = finite & (a == 0)
+    parts: list[tuple[np.ndarray, np.ndarray]] = []       # (rows, uint8 text matrix)
+    slow_rows = [np.flatnonzero(~np.isnan(x) & ~fast & ~zero)]
+    low, high = 10.0 ** (precision - 1), 10.0 ** precision
+    for e in np.unique(e0[fast]).tolist():
+        rows = np.flatnonzero(fast & (e0 == e))
+        d = precision - 1 - e
+        p = a[rows] * 10.0 ** d
+        mag = np.rint(p)
+        # exactly `precision` significant digits, and no rounding tie (see format_fixed)
+        ok = (mag >= low) & (mag < high) & (np.abs(p - np.floor(p) - 0.5) > p * 2.3e-16)
+        slow_rows.append(rows[~ok])
+        rows = rows[ok]
+        m = format_fixed(x[rows], d, "")
+        if d > 0 and rows.size:
+            # drop trailing zeros of the fraction, and the point if nothing is left
+            nonzero = m[:, :-d - 1:-1] != ord("0")        # fraction digits, last one first
+            n_zero = np.where(nonzero.any(axis=1), np.argmax(nonzero, axis=1), d)
+            cut = m.shape[1] - n_zero - (n_zero == d)
+            m[np.arange(m.shape[1])[None, :] >= cut[:, None]] = ord(" ")
+        parts.append((rows, m))
+    neg_zero = zero & np.signbit(x)
+    slow = np.concatenate(slow_rows)
+    texts = [("%.*g" % (precision, v)).encode("ascii") for v in x[slow].tolist()]
+    width = max([m.shape[1] for _, m in parts] + [len(t) for t in texts]
+                + [1 if zero.any() else 0, 2 if neg_zero.any() else 0])
+    out = np.full((n, width), ord(" "), dtype=np.uint8)
+    for rows, m in parts:
+        if m.shape[1]:
+            out[rows, width - m.shape[1]:] = m
+    if width:
+        out[zero, width - 1] = ord("0")               # "0", and "-0" for negative zero
+    if width > 1:
+        out[neg_zero, width - 2] = ord("-")
+    for r, t in zip(slow.tolist(), texts):
+        out[r, width - len(t):] = np.frombuffer(t, dtype=np.uint8)
+    return out
+
+
+def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536):
+    """Data lines of a CSV file, ``"%.{precision}g"`` numbers, empty cells for NaN.
+
+    Yields ASCII text blocks of whole lines (``a,b,c\\n``), ``chunk`` rows at a time.
+    """
+    n = columns[0].size if columns else 0
+    for a in range(0, n, chunk):
+        b = min(n, a + chunk)
+        cells = [format_general(c[a:b], precision) for c in columns]
+        width = sum(m.shape[1] + 1 for m in cells)
+        buf = np.empty((b - a, width), dtype=np.uint8)
+        pos = 0
+        for i, m in enumerate(cells):
+            buf[:, pos:pos + m.shape[1]] = m
+            pos += m.shape[1]
+            buf[:, pos] = ord(",") if i < len(cells) - 1 else ord("\n")
+            pos += 1
+        flat = buf.ravel()
+        yield flat[flat != ord(" ")].tobytes().decode("ascii")
