@@ -146,9 +146,13 @@ def _read_text(path: Path) -> str:
         raise InputFileError("the file holds binary data, not LAS text", where=str(path),
                              hint="give a LAS 1.2 or 2.0 text file")
     try:
-        return raw.decode("utf-8-sig")
+        text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:
-        return raw.decode("latin-1")
+        text = raw.decode("latin-1")
+    # robustness: old Mac (CR only) and Windows (CRLF) line ends read like LF
+    if "\r" in text:
+        text = text.replace("\r\n", "\n").replace("\r", "\n")
+    return text
 
 
 def _lasio_error_text(exc: Exception) -> str:
@@ -169,8 +173,7 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
         try:
             las = lasio.read(io.StringIO(text), mnemonic_case="preserve", engine="normal")
         except Exception as exc:  # lasio raises KeyError, ValueError, LASHeaderError...
-            raise InputFileError(f"cannot read as LAS: {_lasio_error_text(exc)}",
-                                 where=str(path), hint=_HINT_LAS) from exc
+            raise _located_error(path, text, exc) from exc
 
     def items(section) -> list[HeaderItem]:
         return [HeaderItem(it.mnemonic, str(it.unit or ""), _plain(it.value), str(it.descr or ""))
@@ -353,6 +356,104 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
     )
 
 
+# --- robustness checks (issue 6): small, local, run before lasio -----------------
+
+# A section title line: "~" as the first non-blank character of a line.
+_SECTION_LINE = re.compile(r"^[ \t]*~(\S?)", re.M)
+# The VERS item of the ~Version section, e.g. "VERS.   2.0 : ..."
+_VERS_LINE = re.compile(r"^[ \t]*VERS[ \t]*\.[^\s]*[ \t]+([0-9]+(?:\.[0-9]*)?)", re.M | re.I)
+# lasio's message when the data do not fill whole rows.
+_RESHAPE = re.compile(r"into (\d+) columns")
+# Sections a LAS file may hold only once (first letter of the title).
+_SINGLE_SECTIONS = {"V": "~Version", "W": "~Well", "C": "~Curve", "P": "~Parameter",
+                    "A": "~A (data)"}
+
+
+def _line_of(text: str, pos: int) -> int:
+    """1-based line number of character offset ``pos`` in ``text``."""
+    return text.count("\n", 0, pos) + 1
+
+
+def _check_structure(path: Path, text: str) -> None:
+    """Refuse LAS 3.0 files and repeated sections, naming the line.
+
+    lasio reads a second ``~Curve`` or ``~A`` section over the first one, and
+    reads LAS 3.0 comma-separated data as if it were LAS 2.0; both would load
+    wrong values silently.
+    """
+    m = _VERS_LINE.search(text)
+    if m:
+        try:
+            version = float(m.group(1))
+        except ValueError:
+            version = 0.0
+        if version >= 3.0:
+            raise InputFileError(f"LAS version {m.group(1)} is not supported",
+                                 where=f"{path}, line {_line_of(text, m.start())}",
+                                 hint="save the file as LAS 2.0 (or 1.2) from the program "
+                                      "that wrote it")
+    seen: dict[str, int] = {}
+    for sm in _SECTION_LINE.finditer(text):
+        letter = sm.group(1).upper()
+        if letter not in _SINGLE_SECTIONS:
+            continue
+        line = _line_of(text, sm.start())
+        if letter in seen:
+            raise InputFileError(
+                f"section {_SINGLE_SECTIONS[letter]} appears twice (lines {seen[letter]} and "
+                f"{line}); the second would hide the first", where=f"{path}, line {line}",
+                hint="keep one section of each kind; merge or remove the other")
+        seen[letter] = line
+
+
+def _located_error(path: Path, text: str, exc: Exception) -> InputFileError:
+    """An InputFileError for a lasio failure, naming the first bad data line when it can."""
+    what = f"cannot read as LAS: {_lasio_error_text(exc)}"
+    m = _RESHAPE.search(str(exc))
+    if m:
+        ncols = int(m.group(1))
+        line, count = _bad_data_line(text, ncols)
+        if line is not None:
+            return InputFileError(
+                f"data line has {count} values but the ~Curve section defines {ncols} curves",
+                where=f"{path}, line {line}",
+                hint="every ~A row needs one value per ~Curve line; fix or remove that row "
+                     "(a truncated file ends in a short row)")
+        return InputFileError(f"the ~A data do not fill whole rows of {ncols} values (wrapped "
+                              "data with a value missing or extra)", where=str(path),
+                              hint="check the ~A section; every depth needs one value per "
+                                   "~Curve line")
+    return InputFileError(what, where=str(path), hint=_HINT_LAS)
+
+
+def _bad_data_line(text: str, ncols: int) -> tuple[int | None, int]:
+    """(line number, value count) of the first unwrapped ~A row without ``ncols`` values.
+
+    Only used on the error path. Returns ``(None, 0)`` for wrapped files
+    (WRAP YES) or when no single row is at fault.
+    """
+    if re.search(r"^[ \t]*WRAP[ \t]*\.[^\s]*[ \t]+YES", text, re.M | re.I):
+        return None, 0
+    sm = None
+    for sm in _SECTION_LINE.finditer(text):
+        if sm.group(1).upper() == "A":
+            break
+    else:
+        return None, 0
+    start = text.find("\n", sm.start())
+    if start < 0:
+        return None, 0
+    first_line = _line_of(text, start) + 1
+    for i, raw in enumerate(text[start + 1:].split("\n")):
+        s = raw.strip()
+        if not s or s.startswith("#"):
+            continue
+        count = len(s.split())
+        if count != ncols:
+            return first_line + i, count
+    return None, 0
+
+
 def read_las(path) -> Well:
     """Read a LAS 1.2 or 2.0 file into a :class:`~satheight.well.Well`.
 
@@ -380,6 +481,7 @@ def read_las(path) -> Well:
     """
     path = Path(path)
     text = _read_text(path)
+    _check_structure(path, text)
     raw = _parse_with_lasio(path, text)
     return _build_well(path, raw)
 
