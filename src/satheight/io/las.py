@@ -175,8 +175,14 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
         except Exception as exc:  # lasio raises KeyError, ValueError, LASHeaderError...
             raise _located_error(path, text, exc) from exc
 
-    def items(section) -> list[HeaderItem]:
-        return [HeaderItem(it.mnemonic, str(it.unit or ""), _plain(it.value), str(it.descr or ""))
+    def items(section, letter) -> list[HeaderItem]:
+        raw_values = _raw_header_values(text, letter, las12=(letter == "W" and
+                                                             str(_plain(las.version["VERS"].value)
+                                                                 if "VERS" in las.version else "")
+                                                             .startswith("1")))
+        return [HeaderItem(it.mnemonic, str(it.unit or ""),
+                           _keep_text(it.mnemonic, _plain(it.value), raw_values),
+                           str(it.descr or ""))
                 for it in section]
 
     version = "2.0"
@@ -189,7 +195,14 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
     columns = [np.asarray(c.data) for c in las.curves]
     other = las.other if isinstance(las.other, str) else ""
     keep = [m for m in messages if not m.startswith("Could not convert curve")]
-    return _RawLas(version, items(las.well), items(las.params), curve_defs, columns, other,
+    no_data = [m for m in keep if "but there is no data in ~A" in m]
+    if no_data:                         # robustness: lasio would fill the curve with NaN
+        raise InputFileError(f"the ~A section has fewer columns than the ~Curve section has "
+                             f"curves ({no_data[0]})", where=str(path),
+                             hint="every ~A row needs one value per ~Curve line; for wrapped "
+                                  "data (WRAP YES) put the depth alone on the first line of "
+                                  "each row")
+    return _RawLas(version, items(las.well, "W"), items(las.params, "P"), curve_defs, columns, other,
                    [f"{path}: LAS reader: {m}" for m in keep])
 
 
@@ -452,6 +465,47 @@ def _bad_data_line(text: str, ncols: int) -> tuple[int | None, int]:
         if count != ncols:
             return first_line + i, count
     return None, 0
+
+
+# A header item line: MNEM.UNIT  VALUE : DESCRIPTION (value up to the last colon).
+_ITEM_LINE = re.compile(r"^[ \t]*([^.#~\s][^.\n]*?)[ \t]*\.(\S*)[ \t]+([^\n]*):([^:\n]*)$", re.M)
+# An identifier that looks like a number but is not one (leading zero: 007, 0012345).
+_LEADING_ZERO = re.compile(r"[+-]?0\d+")
+
+
+def _raw_header_values(text: str, letter: str, las12: bool = False) -> dict[str, str]:
+    """Value text of each item of the header section titled ``~<letter>...``, as written.
+
+    lasio turns header values into numbers ("007" -> 7, "1E5" -> 100000.0); the
+    well name and identifiers with leading zeros are kept as written instead.
+    """
+    out: dict[str, str] = {}
+    sections = list(_SECTION_LINE.finditer(text))
+    for i, sm in enumerate(sections):
+        if sm.group(1).upper() == "A":
+            break
+        if sm.group(1).upper() != letter:
+            continue
+        end = sections[i + 1].start() if i + 1 < len(sections) else len(text)
+        for im in _ITEM_LINE.finditer(text, sm.end(), end):
+            mn = im.group(1).strip()
+            # LAS 1.2 ~Well items other than the depth range and NULL carry their value
+            # after the colon (lasio reads them so)
+            late = las12 and mn.upper() not in ("STRT", "STOP", "STEP", "NULL")
+            out.setdefault(mn, im.group(4 if late else 3).strip())
+    return out
+
+
+def _keep_text(mnemonic: str, value: Any, raw_values: Mapping[str, str]) -> Any:
+    """The header value, or its text as written when lasio's number would change it."""
+    if not isinstance(value, (int, float)) or isinstance(value, bool):
+        return value
+    raw = raw_values.get(mnemonic)
+    if raw is None or not raw:
+        return value
+    if mnemonic.upper() == "WELL" or _LEADING_ZERO.fullmatch(raw):
+        return raw
+    return value
 
 
 def read_las(path) -> Well:
