@@ -81,6 +81,11 @@ def build_parser() -> argparse.ArgumentParser:
 def _common_run_options(sp):
     sp.add_argument("--pdf", action="store_true", help="also write each track plot as PDF")
     sp.add_argument("--no-plots", action="store_true", help="skip the plots (faster)")
+    sp.add_argument("--overwrite", action="store_true",
+                    help="replace the results of an earlier run in the output folder (without "
+                         "it, a folder holding a run_summary.json is refused)")
+    sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
+                    help="print full details (tracebacks) of errors")
 
 
 def _print_run(report, out) -> int:
@@ -145,6 +150,11 @@ def _print_description(info: dict, out) -> None:
         print(f"note: {w}", file=out)
 
 
+def _one_line(exc: BaseException) -> str:
+    """The error text on one line (text quoted from input files may hold line breaks)."""
+    return " ".join(str(exc).split())
+
+
 def main(argv=None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
@@ -164,12 +174,15 @@ def main(argv=None) -> int:
         else:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
+        from .pipeline import check_output_folder
+
+        check_output_folder(out, args.overwrite)
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots)
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: error: {exc}", file=sys.stderr)
+        print(f"satheight: error: {_one_line(exc)}", file=sys.stderr)
         return getattr(exc, "exit_code", EXIT_BAD_INPUT)
     except KeyboardInterrupt:
         print("satheight: interrupted", file=sys.stderr)
@@ -183,7 +196,7 @@ def main(argv=None) -> int:
     except Exception as exc:  # noqa: BLE001 - last line of defence for the command line
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: internal error: {type(exc).__name__}: {exc} "
+        print(f"satheight: internal error: {type(exc).__name__}: {_one_line(exc)} "
               "(rerun with --verbose and report it)", file=sys.stderr)
         return EXIT_INTERNAL
 

@@ -339,6 +339,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
             outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
+        except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
+                ValueError, OSError) as exc:
+            # a program error on one well's data must not cost the other wells their results
+            outcomes.append(WellOutcome(label, False, [], f"{spec.las}: internal error "
+                                        f"{type(exc).__name__}: {exc} (please report it)"))
     summary = {
         "program": f"satheight {__version__}",
         "project": str(project.path),
@@ -348,6 +353,62 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                    "summary": o.result.summary if o.result is not None else None}
                   for o in outcomes],
     }
+    summary["inputs"] = input_record(project)
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
     return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path)
+
+
+# --------------------------------------------------------------------------------------
+# reliability (issue 6): what was read, and not overwriting earlier results by accident
+
+#: Files whose presence marks a folder as holding the results of an earlier run.
+OUTPUT_MARKERS = ("run_summary.json",)
+
+
+def _sha256(path: Path) -> str | None:
+    """SHA-256 of a file's bytes (read-only, in blocks), or None if it cannot be read."""
+    import hashlib
+
+    h = hashlib.sha256()
+    try:
+        with open(path, "rb") as f:
+            for block in iter(lambda: f.read(1 << 20), b""):
+                h.update(block)
+    except OSError:
+        return None
+    return h.hexdigest()
+
+
+def input_record(project: Project) -> dict:
+    """Resolved paths and SHA-256 checksums of the project file and every LAS file it names.
+
+    Written to ``run_summary.json`` under ``"inputs"`` so a run records exactly what
+    it read (paths in the project file are relative to its folder).
+    """
+    proj = Path(project.path).resolve()
+    return {"project_file": {"path": str(proj), "sha256": _sha256(proj)},
+            "base_folder": str(proj.parent),
+            "wells": [{"name": spec.name, "las": str(Path(spec.las).resolve()),
+                       "sha256": _sha256(Path(spec.las))} for spec in project.wells]}
+
+
+def check_output_folder(out_dir, overwrite: bool) -> None:
+    """Refuse to write into a folder that holds an earlier run's results unless ``overwrite``.
+
+    Raises
+    ------
+    OutputExistsError
+        If ``out_dir`` contains any of :data:`OUTPUT_MARKERS` and ``overwrite`` is false
+        (exit code 2 on the command line).
+    """
+    from .errors import OutputExistsError
+
+    out_dir = Path(out_dir)
+    if overwrite or not out_dir.is_dir():
+        return
+    found = [m for m in OUTPUT_MARKERS if (out_dir / m).exists()]
+    if found:
+        raise OutputExistsError("the output folder already holds the results of an earlier run "
+                                f"({found[0]})", where=str(out_dir),
+                                hint="add --overwrite to replace them, or choose another --out")
