@@ -191,6 +191,7 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     msgs += w4
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev)
+    msgs += value_warnings(result)
     return result, msgs
 
 
@@ -412,3 +413,35 @@ def check_output_folder(out_dir, overwrite: bool) -> None:
         raise OutputExistsError("the output folder already holds the results of an earlier run "
                                 f"({found[0]})", where=str(out_dir),
                                 hint="add --overwrite to replace them, or choose another --out")
+
+
+def value_warnings(result: WellResult) -> list[str]:
+    """Notes on zones of one well whose values give no or one-sided SHM results.
+
+    One note per zone that: holds no sample of the well; has its FWL at or above its
+    shallowest sample (the whole zone is at or below the FWL: Sw = 1 throughout); has
+    its FWL below its deepest sample (no sample reaches the FWL: normal for an
+    undrilled contact, noted so it is seen); or has no sample with a usable porosity
+    and permeability (no SHM Sw at all). Depths in the notes are TVDSS [m].
+    """
+    out: list[str] = []
+    src = result.well.source
+    z = np.asarray(result.tvdss, dtype=float)
+    shm = result.shm
+    for i, zn in enumerate(result.zones):
+        m = shm.zone == i
+        if not m.any():
+            out.append(f"{src}: zone {zn.name!r} ({zn.top:.2f} to {zn.base:.2f} m TVDSS) holds no "
+                       "sample of this well")
+            continue
+        shallow, deep = float(z[m].min()), float(z[m].max())
+        if zn.fwl <= shallow:
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies at or above "
+                       f"its shallowest sample ({shallow:.2f} m): Sw = 1 throughout the zone")
+        elif zn.fwl > deep:
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies below its "
+                       f"deepest sample ({deep:.2f} m): every sample is above the FWL")
+        if not np.isfinite(shm.sw[m]).any():
+            out.append(f"{src}: zone {zn.name!r}: no sample has a usable porosity and "
+                       "permeability, so no SHM Sw (see SHM_FLAG)")
+    return out
