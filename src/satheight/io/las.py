@@ -196,7 +196,7 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
     other = las.other if isinstance(las.other, str) else ""
     keep = [m for m in messages if not m.startswith("Could not convert curve")]
     no_data = [m for m in keep if "but there is no data in ~A" in m]
-    if no_data:                         # robustness: lasio would fill the curve with NaN
+    if no_data and any(np.asarray(c.data).size for c in las.curves):                         # robustness: lasio would fill the curve with NaN
         raise InputFileError(f"the ~A section has fewer columns than the ~Curve section has "
                              f"curves ({no_data[0]})", where=str(path),
                              hint="every ~A row needs one value per ~Curve line; for wrapped "
