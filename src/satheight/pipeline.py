@@ -19,7 +19,7 @@ from . import units as U
 from .compare import summarise
 from .engine import ZoneModel, compute_shm
 from .errors import ProjectFileError, SatHeightError
-from .io.atomic import atomic_write_text
+from .io.atomic import atomic_open, atomic_write_text
 from .io.las import read_las, write_las
 from .logsw import archie_sw
 from .models import build_function
@@ -271,7 +271,9 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         cols[label] = c.data
     frame = pd.DataFrame(cols)
-    atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
+    # written straight into the temporary file (pandas writes in blocks): no whole-file string
+    with atomic_open(path, "w", encoding="utf-8", newline="") as f:
+        frame.to_csv(f, index=False, float_format="%.10g", lineterminator="\n")
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,

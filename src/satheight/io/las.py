@@ -597,7 +597,8 @@ def _description(text: str) -> str:
     A LAS 2.0 header line splits value and description at its last colon, so a
     colon inside a description is written as a semicolon.
     """
-    return " ".join(str(text).split()).replace(":", ";")
+    # robustness (issue 6): inner blanks are kept as read; only line breaks are joined
+    return " ".join(str(text).splitlines()).strip().replace(":", ";")
 
 
 def _depth_step(index: np.ndarray, decimals: int) -> float:
@@ -748,7 +749,7 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
                              "choose another null_value")
 
     index = all_data[0]
-    index_text = _format_column(index, dec[0], null_text)
+    index_text = _format_column(index[[0, -1]], dec[0], null_text)    # STRT and STOP
     index_unit = in_curves[0].unit or (
         next((it.unit for it in well.well_header.values() if it.mnemonic.upper() == "STRT"), "")
         or well.depth_unit)
@@ -777,19 +778,41 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
 
     with atomic_open(path, "w", encoding="utf-8", newline="\n") as f:
         f.write(header)
-        columns = [index_text] + [_format_column(d, k, null_text)
-                                  for d, k in zip(all_data[1:], dec[1:])]
         labels = [_file_mnemonic(c.mnemonic, keys) if i < len(in_curves) else c.mnemonic
                   for i, c in enumerate(all_curves)]
-        widths = [max(int(np.char.str_len(col).max()), len(lab)) for col, lab in zip(columns, labels)]
+        widths = [max(_text_width(d, k, null_text), len(lab))
+                  for d, k, lab in zip(all_data, dec, labels)]
         widths[0] = max(widths[0], len(labels[0]) + 3)      # room for "~A " before the first label
         f.write("~A" + f"{labels[0]:>{widths[0] - 2}}"
                 + "".join(f" {lab:>{w}}" for lab, w in zip(labels[1:], widths[1:])) + "\n")
-        rows = np.char.rjust(columns[0], widths[0])
-        for col, w in zip(columns[1:], widths[1:]):
-            rows = np.char.add(np.char.add(rows, " "), np.char.rjust(col, w))
-        f.write("\n".join(rows.tolist()))
-        f.write("\n")
+        # robustness (issue 6): rows are formatted and written in blocks, so the text of a
+        # long well never sits in memory all at once
+        for lo in range(0, well.n_samples, _WRITE_BLOCK):
+            hi = lo + _WRITE_BLOCK
+            rows = np.char.rjust(_format_column(all_data[0][lo:hi], dec[0], null_text), widths[0])
+            for d, k, w in zip(all_data[1:], dec[1:], widths[1:]):
+                rows = np.char.add(np.char.add(rows, " "),
+                                   np.char.rjust(_format_column(d[lo:hi], k, null_text), w))
+            f.write("\n".join(rows.tolist()))
+            f.write("\n")
+
+
+#: Data rows formatted and written at a time by :func:`write_las`.
+_WRITE_BLOCK = 20_000
+
+
+def _text_width(values: np.ndarray, decimals: int, null_text: str) -> int:
+    """Width of the widest text :func:`_format_column` gives for ``values``.
+
+    Fixed-point text grows with the magnitude, so the widest finite value is the
+    largest or the smallest one; missing values are written as ``null_text``.
+    """
+    finite = values[np.isfinite(values)]
+    width = len(null_text) if finite.size < values.size else 0
+    if finite.size:
+        width = max(width, len(f"{float(finite.max()):.{decimals}f}"),
+                    len(f"{float(finite.min()):.{decimals}f}"))
+    return width
 
 
 # ---------------------------------------------------------------------------
