@@ -94,11 +94,12 @@ def _print_run(report, out) -> int:
     for w in report.wells:
         if w.ok:
             print(f"  {w.name}: ok", file=out)
-            s = w.result.summary.get("whole_well", {}) if w.result else {}
+            full = w.summary or (w.result.summary if w.result else None) or {}
+            s = full.get("whole_well", {})
             if s.get("samples_compared"):
                 print(f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
                       f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {w.result.summary['units']['thickness']}", file=out)
+                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}", file=out)
             for f in w.files:
                 print(f"    {f}", file=out)
             for m in w.warnings:
@@ -177,7 +178,8 @@ def main(argv=None) -> int:
         from .pipeline import check_output_folder
 
         check_output_folder(out, args.overwrite)
-        report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots)
+        report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
+                             keep_results=False)
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:

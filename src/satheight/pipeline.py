@@ -62,6 +62,7 @@ class WellOutcome:
     error: str | None = None
     warnings: list[str] = field(default_factory=list)
     result: WellResult | None = None
+    summary: dict | None = None        # the well's summary (kept when ``result`` is dropped)
 
 
 @dataclass
@@ -310,11 +311,13 @@ CAUTION = ("Results are estimates for review by a qualified professional; local 
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True) -> RunReport:
+                plot: bool = True, keep_results: bool = True) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     A well that fails (missing curve, bad file) is reported and the others still
-    run. The run summary ``run_summary.json`` lists every well, its files and
+    run. With ``keep_results=False`` the per-sample arrays of each well are released
+    once its files are written (``WellOutcome.result`` is None, ``summary`` stays), so
+    memory does not grow with the number of wells. The run summary ``run_summary.json`` lists every well, its files and
     errors.
     """
     if not isinstance(project, Project):
@@ -339,7 +342,9 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                 names_seen.add(_safe_name(result.well.name))
                 files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot)
             msgs += [str(c.message) for c in caught]
-            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result))
+            # keep_results=False drops each well's arrays once written (big projects)
+            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs,
+                                        result if keep_results else None, result.summary))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
         except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
@@ -353,7 +358,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         "caution": CAUTION,
         "wells": [{"name": o.name, "ok": o.ok, "error": o.error, "warnings": o.warnings,
                    "files": [p.name for p in o.files],
-                   "summary": o.result.summary if o.result is not None else None}
+                   "summary": o.summary}
                   for o in outcomes],
     }
     summary["inputs"] = input_record(project)
