@@ -102,6 +102,13 @@ def test_cli_never_crashes_and_round_trips(project_dir, text, mutate, data):
                            "--no-plots", "--overwrite"])
     assert "Traceback" not in err and "Traceback" not in out
     assert code in (0, 3), (code, err)           # the project file is fine: only the well may fail
+    # inspect: listing or a one-line error, never a traceback
+    icode, iout, ierr = _run(["inspect", str(las), "--json"])
+    assert icode in (0, 2) and "Traceback" not in ierr and ierr.count("\n") <= 1, ierr
+    if icode == 0:
+        json.loads(iout)
+    else:
+        assert "w.las" in ierr
     summary = json.loads((out_dir / "run_summary.json").read_text())
     (well,) = summary["wells"]
     if code == 3:
