@@ -118,7 +118,8 @@ def test_cli_never_crashes_and_round_trips(project_dir, text, mutate, data):
     assert well["ok"]
     # round trip: every input curve back unchanged (values, units, descriptions, order)
     src = read_las(las)
-    written = lasio.read(out_dir / "FZ-1.las", encoding="utf-8")   # outputs are UTF-8
+    las_out = next(f for f in well["files"] if f.endswith(".las"))   # named after the well
+    written = lasio.read(out_dir / las_out, encoding="utf-8")        # outputs are UTF-8
     for c in src.curves.values():
         got = written.curves[c.mnemonic]
         assert got.unit == c.unit and got.descr == c.description, c.mnemonic
