@@ -153,7 +153,7 @@ def _print_description(info: dict, out) -> None:
 
 def _one_line(exc: BaseException) -> str:
     """The error text on one line (text quoted from input files may hold line breaks)."""
-    return " ".join(str(exc).split())
+    return " ".join(ln.strip() for ln in str(exc).splitlines() if ln.strip())
 
 
 def main(argv=None) -> int:

@@ -317,8 +317,8 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     A well that fails (missing curve, bad file) is reported and the others still
     run. With ``keep_results=False`` the per-sample arrays of each well are released
     once its files are written (``WellOutcome.result`` is None, ``summary`` stays), so
-    memory does not grow with the number of wells. The run summary ``run_summary.json`` lists every well, its files and
-    errors.
+    memory does not grow with the number of wells. The run summary
+    ``run_summary.json`` lists every well, its files and errors.
     """
     if not isinstance(project, Project):
         project = load_project(project)
