@@ -138,7 +138,7 @@ def test_rerun_same_folder_is_consistent(demo_run, tmp_path):
     _, out, _, _ = demo_run
     code = main(["demo", "--out", str(tmp_path), "--no-plots"])
     assert code == 0
-    code = main(["demo", "--out", str(tmp_path), "--no-plots"])
+    code = main(["demo", "--out", str(tmp_path), "--no-plots", "--overwrite"])
     assert code == 0
     for f in tmp_path.glob("*.las"):
         assert (out / f.name).read_bytes() == f.read_bytes()

@@ -210,8 +210,13 @@ def test_wrapped_file_goes_to_lasio(tmp_path):
 
 
 def test_version_3_and_delimiter_go_to_lasio(tmp_path):
+    # LAS 3.0 is refused on both paths (lasio would read its delimited data as 2.0)
+    from satheight.errors import InputFileError
+
     v3 = las(PLAIN).replace("VERS.   2.0", "VERS.   3.0")
-    check(write(tmp_path, v3, name="v3.las"), False)
+    for engine in ("auto", "lasio"):
+        with pytest.raises(InputFileError, match="LAS version 3.0 is not supported"):
+            read_las(write(tmp_path, v3, name="v3.las"), engine=engine)
     dlm = las(PLAIN).replace(" WRAP.   NO  : wrap mode\n", " WRAP.   NO  : wrap mode\n DLM . SPACE : d\n")
     check(write(tmp_path, dlm, name="dlm.las"), False)
 

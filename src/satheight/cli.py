@@ -346,6 +346,11 @@ def _common_run_options(sp):
                          "TVDSS (true vertical depth below datum); the other is the second scale")
     sp.add_argument("--workers", metavar="N", type=_positive_int, default=1,
                     help="run N wells at a time in separate processes (default 1)")
+    sp.add_argument("--overwrite", action="store_true",
+                    help="replace the results of an earlier run in the output folder (without "
+                         "it, a folder holding a run_summary.json is refused)")
+    sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
+                    help="print full details (tracebacks) of errors")
 
 
 def _positive_int(text: str) -> int:
@@ -364,12 +369,12 @@ def _print_run(report, out) -> int:
     for w in report.wells:
         if w.ok:
             print(f"  {w.name}: ok", file=out)
-            summary = w.summary or {}
-            s = summary.get("whole_well", {})
+            full = w.summary or (w.result.summary if w.result else None) or {}
+            s = full.get("whole_well", {})
             if s.get("samples_compared"):
                 print(f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
                       f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {summary['units']['thickness']}", file=out)
+                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}", file=out)
             for f in w.files:
                 print(f"    {f}", file=out)
             for m in w.warnings:
@@ -425,6 +430,11 @@ def _print_description(info: dict, out) -> None:
         print(f"note: {w}", file=out)
 
 
+def _one_line(exc: BaseException) -> str:
+    """The error text on one line (text quoted from input files may hold line breaks)."""
+    return " ".join(ln.strip() for ln in str(exc).splitlines() if ln.strip())
+
+
 def main(argv=None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
@@ -450,13 +460,17 @@ def main(argv=None) -> int:
         else:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
+        from .pipeline import check_output_folder
+
+        check_output_folder(out, args.overwrite)
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
-                             depth_axis=args.depth_axis, workers=args.workers)
+                             depth_axis=args.depth_axis, workers=args.workers,
+                             keep_results=False)
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: error: {exc}", file=sys.stderr)
+        print(f"satheight: error: {_one_line(exc)}", file=sys.stderr)
         return getattr(exc, "exit_code", EXIT_BAD_INPUT)
     except KeyboardInterrupt:
         print("satheight: interrupted", file=sys.stderr)
@@ -470,7 +484,7 @@ def main(argv=None) -> int:
     except Exception as exc:  # noqa: BLE001 - last line of defence for the command line
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: internal error: {type(exc).__name__}: {exc} "
+        print(f"satheight: internal error: {type(exc).__name__}: {_one_line(exc)} "
               "(rerun with --verbose and report it)", file=sys.stderr)
         return EXIT_INTERNAL
 

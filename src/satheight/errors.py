@@ -68,3 +68,7 @@ class WellFailedError(SatHeightError):
     """One or more wells of a project could not be computed."""
 
     exit_code = 3
+
+
+class OutputExistsError(SatHeightError):
+    """The output folder already holds the results of an earlier run."""

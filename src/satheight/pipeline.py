@@ -19,7 +19,7 @@ from . import units as U
 from .compare import summarise
 from .engine import ZoneModel, compute_shm
 from .errors import ProjectFileError, SatHeightError
-from .io.atomic import atomic_write_text
+from .io.atomic import atomic_open, atomic_write_text
 from .io.las import read_las, write_las
 from .logsw import archie_sw
 from .models import build_function
@@ -233,6 +233,7 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
                         tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None))
+    msgs += value_warnings(result)
     return result, msgs
 
 
@@ -466,7 +467,8 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True, depth_axis: str = "md", workers: int = 1) -> RunReport:
+                plot: bool = True, depth_axis: str = "md", workers: int = 1,
+                keep_results: bool = True) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -474,8 +476,10 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     as ``field_section.png`` (a failure there is a note, not a failed run).
 
     A well that fails (missing curve, bad file) is reported and the others still
-    run. The run summary ``run_summary.json`` lists every well, its files and
-    errors.
+    run. With ``keep_results=False`` the per-sample arrays of each well are released
+    once its files are written (``WellOutcome.result`` is None, ``summary`` stays), so
+    memory does not grow with the number of wells. The run summary
+    ``run_summary.json`` lists every well, its files and errors.
 
     Parameters
     ----------
@@ -518,10 +522,18 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                                       depth_axis=depth_axis)
                 locations[result.well.name] = getattr(spec, "location", None)
             msgs += [str(c.message) for c in caught]
-            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs, result,
-                                        result.summary))
+            # keep_results=False drops each well's arrays once written (big projects); the
+            # field section then gets a thinned view of the few arrays it draws
+            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs,
+                                        result if keep_results else None, result.summary,
+                                        None if keep_results or not plot else _section_view(result)))
         except SatHeightError as exc:
             outcomes.append(WellOutcome(label, False, [], str(exc)))
+        except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
+                ValueError, OSError) as exc:
+            # a program error on one well's data must not cost the other wells their results
+            outcomes.append(WellOutcome(label, False, [], f"{spec.las}: internal error "
+                                        f"{type(exc).__name__}: {exc} (please report it)"))
     notes = []
     section_file = None
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
@@ -553,6 +565,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         summary["field_section"] = section_file.name
     if notes:
         summary["notes"] = notes
+    summary["inputs"] = input_record(project)
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
     return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
@@ -649,3 +662,90 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
     finally:
         shutil.rmtree(work, ignore_errors=True)
     return outcomes
+
+
+# --------------------------------------------------------------------------------------
+# reliability (issue 6): what was read, and not overwriting earlier results by accident
+
+#: Files whose presence marks a folder as holding the results of an earlier run.
+OUTPUT_MARKERS = ("run_summary.json",)
+
+
+def _sha256(path: Path) -> str | None:
+    """SHA-256 of a file's bytes (read-only, in blocks), or None if it cannot be read."""
+    import hashlib
+
+    h = hashlib.sha256()
+    try:
+        with open(path, "rb") as f:
+            for block in iter(lambda: f.read(1 << 20), b""):
+                h.update(block)
+    except OSError:
+        return None
+    return h.hexdigest()
+
+
+def input_record(project: Project) -> dict:
+    """Resolved paths and SHA-256 checksums of the project file and every LAS file it names.
+
+    Written to ``run_summary.json`` under ``"inputs"`` so a run records exactly what
+    it read (paths in the project file are relative to its folder).
+    """
+    proj = Path(project.path).resolve()
+    return {"project_file": {"path": str(proj), "sha256": _sha256(proj)},
+            "base_folder": str(proj.parent),
+            "wells": [{"name": spec.name, "las": str(Path(spec.las).resolve()),
+                       "sha256": _sha256(Path(spec.las))} for spec in project.wells]}
+
+
+def check_output_folder(out_dir, overwrite: bool) -> None:
+    """Refuse to write into a folder that holds an earlier run's results unless ``overwrite``.
+
+    Raises
+    ------
+    OutputExistsError
+        If ``out_dir`` contains any of :data:`OUTPUT_MARKERS` and ``overwrite`` is false
+        (exit code 2 on the command line).
+    """
+    from .errors import OutputExistsError
+
+    out_dir = Path(out_dir)
+    if overwrite or not out_dir.is_dir():
+        return
+    found = [m for m in OUTPUT_MARKERS if (out_dir / m).exists()]
+    if found:
+        raise OutputExistsError("the output folder already holds the results of an earlier run "
+                                f"({found[0]})", where=str(out_dir),
+                                hint="add --overwrite to replace them, or choose another --out")
+
+
+def value_warnings(result: WellResult) -> list[str]:
+    """Notes on zones of one well whose values give no or one-sided SHM results.
+
+    One note per zone that: holds no sample of the well; has its FWL at or above its
+    shallowest sample (the whole zone is at or below the FWL: Sw = 1 throughout); has
+    its FWL below its deepest sample (no sample reaches the FWL: normal for an
+    undrilled contact, noted so it is seen); or has no sample with a usable porosity
+    and permeability (no SHM Sw at all). Depths in the notes are TVDSS [m].
+    """
+    out: list[str] = []
+    src = result.well.source
+    z = np.asarray(result.tvdss, dtype=float)
+    shm = result.shm
+    for i, zn in enumerate(result.zones):
+        m = shm.zone == i
+        if not m.any():
+            out.append(f"{src}: zone {zn.name!r} ({zn.top:.2f} to {zn.base:.2f} m TVDSS) holds no "
+                       "sample of this well")
+            continue
+        shallow, deep = float(z[m].min()), float(z[m].max())
+        if zn.fwl <= shallow:
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies at or above "
+                       f"its shallowest sample ({shallow:.2f} m): Sw = 1 throughout the zone")
+        elif zn.fwl > deep:
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies below its "
+                       f"deepest sample ({deep:.2f} m): every sample is above the FWL")
+        if not np.isfinite(shm.sw[m]).any():
+            out.append(f"{src}: zone {zn.name!r}: no sample has a usable porosity and "
+                       "permeability, so no SHM Sw (see SHM_FLAG)")
+    return out

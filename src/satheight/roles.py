@@ -45,6 +45,8 @@ _ROLE_KIND = {"porosity": "fraction", "sw": "fraction",
 
 # Fraction-like curves whose largest value exceeds this are taken to be in percent.
 _PERCENT_THRESHOLD = 1.5
+# ... but only if at least this share of its finite values is above 1 (else: spikes).
+_PERCENT_MIN_SHARE = 0.1
 
 
 def _curves_present(well: Well) -> str:
@@ -230,11 +232,30 @@ def role_values(well: Well, role: str, mnemonic: str) -> tuple[np.ndarray, list[
     warnings: list[str] = []
     if kind == "fraction" and f == 1.0:
         finite = data[np.isfinite(data)]
-        if finite.size and float(finite.max()) > _PERCENT_THRESHOLD:
+        share_above_one = float(np.mean(finite > 1.0)) if finite.size else 0.0
+        if (finite.size and float(finite.max()) > 1.0
+                and not (float(finite.max()) > _PERCENT_THRESHOLD
+                         and share_above_one >= _PERCENT_MIN_SHARE)):
+            # a fraction curve with a few spikes: keep it; the spikes are flagged downstream
+            warnings.append(
+                f"{where}: {role} curve {key!r} has unit {unit or '(none)'!r} and "
+                f"{int(np.sum(finite > 1.0))} of {finite.size} values above 1 (up to "
+                f"{float(finite.max()):g}); read as fractions, the values above 1 are unusable "
+                "(give the curve unit % if it is in percent)"
+            )
+        elif finite.size and float(finite.max()) > _PERCENT_THRESHOLD:
             out = out / 100.0
             warnings.append(
                 f"{where}: {role} curve {key!r} has unit {unit or '(none)'!r} but values up to "
                 f"{float(finite.max()):g}; read as percent and divided by 100 "
                 "(give the curve unit % in the LAS file to silence this)"
+            )
+    elif kind == "fraction" and f == 0.01:
+        finite = data[np.isfinite(data)]
+        if finite.size and 0.0 < float(finite.max()) <= 1.0:
+            warnings.append(
+                f"{where}: {role} curve {key!r} has unit {unit!r} (percent) but no value above "
+                f"1 (largest {float(finite.max()):g}); read as percent as the unit says "
+                "(if the values are fractions, give the curve unit V/V)"
             )
     return out, warnings

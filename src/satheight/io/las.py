@@ -138,11 +138,17 @@ def _read_text(path: Path) -> str:
 
 
 def _decode(raw: bytes) -> str:
-    """Text of LAS bytes: UTF-8 (a leading byte-order mark dropped), else Latin-1."""
+    """Text of LAS bytes: UTF-8 (a leading byte-order mark dropped), else Latin-1.
+
+    Old Mac (CR only) and Windows (CRLF) line ends are turned into LF.
+    """
     try:
-        return raw.decode("utf-8-sig")
+        text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:
-        return raw.decode("latin-1")
+        text = raw.decode("latin-1")
+    if "\r" in text:
+        text = text.replace("\r\n", "\n").replace("\r", "\n")
+    return text
 
 
 def _read_bytes(path: Path) -> bytes:
@@ -183,16 +189,26 @@ def _parse_with_lasio(path: Path, text: str) -> _RawLas:
         try:
             las = lasio.read(io.StringIO(text), mnemonic_case="preserve", engine="normal")
         except Exception as exc:  # lasio raises KeyError, ValueError, LASHeaderError...
-            raise InputFileError(f"cannot read as LAS: {_lasio_error_text(exc)}",
-                                 where=str(path), hint=_HINT_LAS) from exc
-    return _raw_from_lasio(path, las, [np.asarray(c.data) for c in las.curves], messages)
+            raise _located_error(path, text, exc) from exc
+    return _raw_from_lasio(path, las, [np.asarray(c.data) for c in las.curves], messages, text)
 
 
-def _raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[str]) -> _RawLas:
-    """A :class:`_RawLas` from lasio's header objects and the given data columns."""
+def _raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[str],
+                    text: str) -> _RawLas:
+    """A :class:`_RawLas` from lasio's header objects and the given data columns.
 
-    def items(section) -> list[HeaderItem]:
-        return [HeaderItem(it.mnemonic, str(it.unit or ""), _plain(it.value), str(it.descr or ""))
+    ``text`` is the file's text (at least up to the ``~A`` line): header values
+    lasio would change (well names, identifiers with leading zeros) are kept as written.
+    """
+
+    def items(section, letter) -> list[HeaderItem]:
+        raw_values = _raw_header_values(text, letter, las12=(letter == "W" and
+                                                             str(_plain(las.version["VERS"].value)
+                                                                 if "VERS" in las.version else "")
+                                                             .startswith("1")))
+        return [HeaderItem(it.mnemonic, str(it.unit or ""),
+                           _keep_text(it.mnemonic, _plain(it.value), raw_values),
+                           str(it.descr or ""))
                 for it in section]
 
     version = "2.0"
@@ -204,7 +220,14 @@ def _raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[s
                    "" if c.value is None else str(c.value)) for c in las.curves]
     other = las.other if isinstance(las.other, str) else ""
     keep = [m for m in messages if not m.startswith("Could not convert curve")]
-    return _RawLas(version, items(las.well), items(las.params), curve_defs, columns, other,
+    no_data = [m for m in keep if "but there is no data in ~A" in m]
+    if no_data and any(np.asarray(c.data).size for c in las.curves):                         # robustness: lasio would fill the curve with NaN
+        raise InputFileError(f"the ~A section has fewer columns than the ~Curve section has "
+                             f"curves ({no_data[0]})", where=str(path),
+                             hint="every ~A row needs one value per ~Curve line; for wrapped "
+                                  "data (WRAP YES) put the depth alone on the first line of "
+                                  "each row")
+    return _RawLas(version, items(las.well, "W"), items(las.params, "P"), curve_defs, columns, other,
                    [f"{path}: LAS reader: {m}" for m in keep])
 
 
@@ -395,6 +418,145 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
     )
 
 
+# --- robustness checks (issue 6): small, local, run before lasio -----------------
+
+# A section title line: "~" as the first non-blank character of a line.
+_SECTION_LINE = re.compile(r"^[ \t]*~(\S?)", re.M)
+# The VERS item of the ~Version section, e.g. "VERS.   2.0 : ..."
+_VERS_LINE = re.compile(r"^[ \t]*VERS[ \t]*\.[^\s]*[ \t]+([0-9]+(?:\.[0-9]*)?)", re.M | re.I)
+# lasio's message when the data do not fill whole rows.
+_RESHAPE = re.compile(r"into (\d+) columns")
+# Sections a LAS file may hold only once (first letter of the title).
+_SINGLE_SECTIONS = {"V": "~Version", "W": "~Well", "C": "~Curve", "P": "~Parameter",
+                    "A": "~A (data)"}
+
+
+def _line_of(text: str, pos: int) -> int:
+    """1-based line number of character offset ``pos`` in ``text``."""
+    return text.count("\n", 0, pos) + 1
+
+
+def _check_structure(path: Path, text: str) -> None:
+    """Refuse LAS 3.0 files and repeated sections, naming the line.
+
+    lasio reads a second ``~Curve`` or ``~A`` section over the first one, and
+    reads LAS 3.0 comma-separated data as if it were LAS 2.0; both would load
+    wrong values silently.
+    """
+    m = _VERS_LINE.search(text)
+    if m:
+        try:
+            version = float(m.group(1))
+        except ValueError:
+            version = 0.0
+        if version >= 3.0:
+            raise InputFileError(f"LAS version {m.group(1)} is not supported",
+                                 where=f"{path}, line {_line_of(text, m.start())}",
+                                 hint="save the file as LAS 2.0 (or 1.2) from the program "
+                                      "that wrote it")
+    seen: dict[str, int] = {}
+    for sm in _SECTION_LINE.finditer(text):
+        letter = sm.group(1).upper()
+        if letter not in _SINGLE_SECTIONS:
+            continue
+        line = _line_of(text, sm.start())
+        if letter in seen:
+            raise InputFileError(
+                f"section {_SINGLE_SECTIONS[letter]} appears twice (lines {seen[letter]} and "
+                f"{line}); the second would hide the first", where=f"{path}, line {line}",
+                hint="keep one section of each kind; merge or remove the other")
+        seen[letter] = line
+
+
+def _located_error(path: Path, text: str, exc: Exception) -> InputFileError:
+    """An InputFileError for a lasio failure, naming the first bad data line when it can."""
+    what = f"cannot read as LAS: {_lasio_error_text(exc)}"
+    m = _RESHAPE.search(str(exc))
+    if m:
+        ncols = int(m.group(1))
+        line, count = _bad_data_line(text, ncols)
+        if line is not None:
+            return InputFileError(
+                f"data line has {count} values but the ~Curve section defines {ncols} curves",
+                where=f"{path}, line {line}",
+                hint="every ~A row needs one value per ~Curve line; fix or remove that row "
+                     "(a truncated file ends in a short row)")
+        return InputFileError(f"the ~A data do not fill whole rows of {ncols} values (wrapped "
+                              "data with a value missing or extra)", where=str(path),
+                              hint="check the ~A section; every depth needs one value per "
+                                   "~Curve line")
+    return InputFileError(what, where=str(path), hint=_HINT_LAS)
+
+
+def _bad_data_line(text: str, ncols: int) -> tuple[int | None, int]:
+    """(line number, value count) of the first unwrapped ~A row without ``ncols`` values.
+
+    Only used on the error path. Returns ``(None, 0)`` for wrapped files
+    (WRAP YES) or when no single row is at fault.
+    """
+    if re.search(r"^[ \t]*WRAP[ \t]*\.[^\s]*[ \t]+YES", text, re.M | re.I):
+        return None, 0
+    sm = None
+    for sm in _SECTION_LINE.finditer(text):
+        if sm.group(1).upper() == "A":
+            break
+    else:
+        return None, 0
+    start = text.find("\n", sm.start())
+    if start < 0:
+        return None, 0
+    first_line = _line_of(text, start) + 1
+    for i, raw in enumerate(text[start + 1:].split("\n")):
+        s = raw.strip()
+        if not s or s.startswith("#"):
+            continue
+        count = len(s.split())
+        if count != ncols:
+            return first_line + i, count
+    return None, 0
+
+
+# A header item line: MNEM.UNIT  VALUE : DESCRIPTION (value up to the last colon).
+_ITEM_LINE = re.compile(r"^[ \t]*([^.#~\s][^.\n]*?)[ \t]*\.(\S*)[ \t]+([^\n]*):([^:\n]*)$", re.M)
+# An identifier that looks like a number but is not one (leading zero: 007, 0012345).
+_LEADING_ZERO = re.compile(r"[+-]?0\d+")
+
+
+def _raw_header_values(text: str, letter: str, las12: bool = False) -> dict[str, str]:
+    """Value text of each item of the header section titled ``~<letter>...``, as written.
+
+    lasio turns header values into numbers ("007" -> 7, "1E5" -> 100000.0); the
+    well name and identifiers with leading zeros are kept as written instead.
+    """
+    out: dict[str, str] = {}
+    sections = list(_SECTION_LINE.finditer(text))
+    for i, sm in enumerate(sections):
+        if sm.group(1).upper() == "A":
+            break
+        if sm.group(1).upper() != letter:
+            continue
+        end = sections[i + 1].start() if i + 1 < len(sections) else len(text)
+        for im in _ITEM_LINE.finditer(text, sm.end(), end):
+            mn = im.group(1).strip()
+            # LAS 1.2 ~Well items other than the depth range and NULL carry their value
+            # after the colon (lasio reads them so)
+            late = las12 and mn.upper() not in ("STRT", "STOP", "STEP", "NULL")
+            out.setdefault(mn, im.group(4 if late else 3).strip())
+    return out
+
+
+def _keep_text(mnemonic: str, value: Any, raw_values: Mapping[str, str]) -> Any:
+    """The header value, or its text as written when lasio's number would change it."""
+    if not isinstance(value, (int, float)) or isinstance(value, bool):
+        return value
+    raw = raw_values.get(mnemonic)
+    if raw is None or not raw:
+        return value
+    if mnemonic.upper() == "WELL" or _LEADING_ZERO.fullmatch(raw):
+        return raw
+    return value
+
+
 def read_las(path, engine: str = "auto") -> Well:
     """Read a LAS 1.2 or 2.0 file into a :class:`~satheight.well.Well`.
 
@@ -433,8 +595,12 @@ def read_las(path, engine: str = "auto") -> Well:
     data = _read_bytes(path)
     parsed = _parse_fast(path, data) if engine == "auto" else None
     if parsed is None:
-        parsed = _parse_with_lasio(path, _decode(data))
-    del data
+        text = _decode(data)
+        del data
+        _check_structure(path, text)
+        parsed = _parse_with_lasio(path, text)
+    else:
+        del data
     return _build_well(path, parsed)
 
 
@@ -459,6 +625,7 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
         return None
     start, end = found
     header_text = _decode(data[:end])             # the header sections and the ~A line
+    _check_structure(path, header_text)
     for line in _decode(data[:start]).split("\n"):   # every line before the ~A line
         t = line.strip()
         if t.startswith("~") and (t[:2] == "~A" or "_Data" in t or "~Log_" in t):
@@ -486,7 +653,7 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
     if parsed is None:
         return None
     block, texts = parsed
-    raw = _raw_from_lasio(path, las, block, messages)
+    raw = _raw_from_lasio(path, las, block, messages, header_text)
     raw.owned = True
     names = [d[0] for d in raw.curve_defs]
     raw.messages += [_text_warning(path, names[t.column], t.count, t.first_text, t.first_row)
@@ -589,7 +756,8 @@ def _description(text: str) -> str:
     A LAS 2.0 header line splits value and description at its last colon, so a
     colon inside a description is written as a semicolon.
     """
-    return " ".join(str(text).split()).replace(":", ";")
+    # robustness (issue 6): inner blanks are kept as read; only line breaks are joined
+    return " ".join(str(text).splitlines()).strip().replace(":", ";")
 
 
 def _depth_step(index: np.ndarray, decimals: int) -> float:

@@ -1,0 +1,165 @@
+"""Bad values, one test per row of the README table "Bad input: what happens" (values part):
+each gives a defined behaviour (flag and NaN, a note, or an error naming the key).
+
+Checks are behavioural (which samples are NaN/flagged, which messages appear); the flag bits
+are the documented SHM_FLAG meanings. Trade facts: Sw = 1 at and below the FWL (common
+practice); water must be denser than the hydrocarbon for a hydrocarbon column to exist
+(common practice).
+"""
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from satheight.errors import ProjectFileError
+from satheight.logsw import archie_sw
+from satheight.pipeline import compute_well
+from satheight.project import load_project
+from satheight.results import (FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_J_ABOVE_RANGE,
+                               FLAG_J_BELOW_RANGE, FLAG_NO_ZONE)
+
+ZONE = """
+[[zones]]
+name = "{name}"
+top = "{top} m"
+base = "{base} m"
+fwl = "{fwl} m"
+hydrocarbon = "oil"
+water_density = "{rho_w} g/cm3"
+hydrocarbon_density = "0.8 g/cm3"
+sigma_cos_theta = "26 mN/m"
+[zones.function]
+family = "power_law"
+swirr = 0.1
+a = 0.2
+b = 1.5
+j_min = {j_min}
+j_max = {j_max}
+"""
+
+
+def make(tmp_path: Path, phi, perm, rt=None, phi_unit="V/V", zones=None, depth=None):
+    """A LAS file (EKB 0: TVDSS = MD) and a project with the given zones; return (result, msgs)."""
+    n = len(phi)
+    depth = np.round(1000.0 + np.arange(n), 1) if depth is None else depth
+    rt = np.full(n, 20.0) if rt is None else rt
+    rows = "\n".join(" ".join("-999.25" if not np.isfinite(v) else repr(float(v)) for v in r)
+                     for r in zip(depth, phi, perm, rt))
+    (tmp_path / "w.las").write_text(
+        "~Version\nVERS. 2.0 :\nWRAP. NO :\n~Well\nNULL. -999.25 :\nWELL. BV-1 :\nEKB.M 0 :\n"
+        f"~Curve\nDEPT.M : depth\nPHIE.{phi_unit} : porosity\nPERM.MD : permeability\n"
+        f"RT.OHMM : resistivity\n~A\n{rows}\n")
+    zones = zones if zones is not None else [dict(name="Z", top=990, base=1100, fwl=1050)]
+    text = '[project]\nunits = "metric"\n[log_sw]\nrw = "0.05 ohm.m"\n[[wells]]\nlas = "w.las"\n'
+    for z in zones:
+        z = {"rho_w": 1.05, "j_min": 0.0001, "j_max": 1000.0, **z}
+        text += ZONE.format(**z)
+    (tmp_path / "p.toml").write_text(text)
+    project = load_project(tmp_path / "p.toml")
+    return compute_well(project, project.wells[0])
+
+
+def test_porosity_outside_0_1_is_flagged_nan(tmp_path):
+    phi = [0.2, 0.0, -0.05, 1.2, np.nan, 0.25] + [0.2] * 20      # few spikes: not percent
+    result, msgs = make(tmp_path, phi, [100.0] * 26)
+    flag, sw = result.shm.flag, result.shm.sw
+    for i in (1, 2, 3, 4):
+        assert flag[i] & FLAG_BAD_POROSITY and np.isnan(sw[i]), i
+    assert np.isfinite(sw[[0, 5]]).all() and not (flag[[0, 5]] & FLAG_BAD_POROSITY).any()
+    assert any("values above 1" in m and "PHIE" in m for m in msgs)
+
+
+def test_percent_looking_porosity_is_divided_by_100_with_a_note(tmp_path):
+    phi = np.linspace(5.0, 30.0, 20)                                  # clearly percent
+    result, msgs = make(tmp_path, phi, [100.0] * 20)
+    np.testing.assert_allclose(result.phi, phi / 100.0)
+    assert any("read as percent" in m for m in msgs)
+
+
+def test_percent_unit_with_fraction_values_keeps_the_unit_with_a_note(tmp_path):
+    phi = [0.2] * 10
+    result, msgs = make(tmp_path, phi, [100.0] * 10, phi_unit="%")
+    np.testing.assert_allclose(result.phi, 0.002)                    # the unit wins
+    assert any("no value above 1" in m and "V/V" in m for m in msgs)
+
+
+def test_permeability_not_positive_is_flagged_nan(tmp_path):
+    k = [100.0, 0.0, -3.0, np.nan, 50.0]
+    result, _ = make(tmp_path, [0.2] * 5, k)
+    flag, sw = result.shm.flag, result.shm.sw
+    assert all(flag[i] & FLAG_BAD_PERMEABILITY and np.isnan(sw[i]) for i in (1, 2, 3))
+    assert np.isfinite(sw[[0, 4]]).all()
+
+
+def test_rt_not_positive_gives_no_archie_sw(tmp_path):
+    rt = [20.0, 0.0, -1.0, np.nan, 5.0]
+    result, _ = make(tmp_path, [0.2] * 5, [100.0] * 5, rt=rt)
+    assert result.sw_log_source == "archie"
+    assert np.isnan(result.sw_log[[1, 2, 3]]).all()
+    # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (REFERENCES.md, computed)
+    np.testing.assert_allclose(result.sw_log[[0, 4]], np.sqrt(0.05 / (0.04 * np.array([20, 5]))))
+    assert np.isnan(archie_sw(np.array([0.0, -2.0]), np.array([0.2, 0.2]), 0.05)).all()
+
+
+def test_nan_runs_stay_nan_and_a_zone_without_usable_samples_is_noted(tmp_path):
+    phi = [0.2] * 5 + [np.nan] * 30 + [0.2] * 5
+    zones = [dict(name="Up", top=990, base=1005, fwl=1060),
+             dict(name="Mid", top=1005, base=1035, fwl=1060),
+             dict(name="Low", top=1035, base=1050, fwl=1060)]
+    result, msgs = make(tmp_path, phi, [100.0] * 40, zones=zones)
+    sw = result.shm.sw
+    assert np.isnan(sw[5:35]).all() and np.isfinite(sw[:5]).all() and np.isfinite(sw[35:]).all()
+    assert any("'Mid'" in m and "no SHM Sw" in m for m in msgs)
+    assert not any("'Up'" in m and "no SHM Sw" in m for m in msgs)
+
+
+def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
+    result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
+                        zones=[dict(name="Z", top=990, base=1100, fwl=900)])
+    assert np.all(result.shm.sw == 1.0)
+    assert any("at or above its shallowest sample" in m for m in msgs)
+
+
+def test_fwl_below_the_well_is_noted(tmp_path):
+    result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
+                        zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+    assert np.all(result.shm.hafwl > 0) and np.all(result.shm.sw < 1.0)
+    assert any("below its deepest sample" in m for m in msgs)
+
+
+def test_zone_gap_samples_are_outside_every_zone(tmp_path):
+    zones = [dict(name="A", top=990, base=1005, fwl=1060),
+             dict(name="B", top=1010, base=1030, fwl=1060)]
+    result, _ = make(tmp_path, [0.2] * 40, [100.0] * 40, zones=zones)
+    gap = (result.tvdss >= 1005) & (result.tvdss < 1010)
+    assert gap.sum() == 5
+    assert np.all(result.shm.flag[gap] & FLAG_NO_ZONE)
+    assert np.isnan(result.shm.sw[gap]).all() and np.isnan(result.shm.j[gap]).all()
+
+
+def test_overlapping_zones_are_an_error_naming_the_key(tmp_path):
+    zones = [dict(name="A", top=990, base=1010, fwl=1060),
+             dict(name="B", top=1005, base=1030, fwl=1060)]
+    with pytest.raises(ProjectFileError, match=r"p\.toml, key zones\[B\].*overlaps"):
+        make(tmp_path, [0.2] * 10, [100.0] * 10, zones=zones)
+
+
+def test_j_outside_calibrated_range_is_flagged_and_sw_kept(tmp_path):
+    k = [0.001, 100.0, 1e6] * 3
+    result, _ = make(tmp_path, [0.2] * 9, k,
+                     zones=[dict(name="Z", top=990, base=1100, fwl=1050, j_min=0.5, j_max=5.0)])
+    j, flag, sw = result.shm.j, result.shm.flag, result.shm.sw
+    lo, hi = (j > 0) & (j < 0.5), j > 5.0
+    assert lo.any() and hi.any()
+    assert np.all(flag[lo] & FLAG_J_BELOW_RANGE) and np.all(flag[hi] & FLAG_J_ABOVE_RANGE)
+    assert np.isfinite(sw[lo | hi]).all()
+    ok = (j >= 0.5) & (j <= 5.0)
+    assert not (flag[ok] & (FLAG_J_BELOW_RANGE | FLAG_J_ABOVE_RANGE)).any()
+
+
+@pytest.mark.parametrize("rho_w", [0.8, 0.5])
+def test_delta_rho_not_positive_is_an_error_naming_the_key(tmp_path, rho_w):
+    with pytest.raises(ProjectFileError, match=r"key zones\[Z\]\.water_density.*denser"):
+        make(tmp_path, [0.2] * 5, [100.0] * 5,
+             zones=[dict(name="Z", top=990, base=1100, fwl=1050, rho_w=rho_w)])
