@@ -141,6 +141,14 @@ def test_project_per_depth_rock_typing(tmp_path):
     fa = build_function("power_law", fits["A"]["fits"]["power_law"].params)
     fb = build_function("power_law", fits["B"]["fits"]["power_law"].params)
     np.testing.assert_allclose(res.sw, [fa.predict(res.j[0]), fb.predict(res.j[1])])
+    # the ROCK_ID output curve numbers the rock types in the zone's table order
+    import types
+
+    from satheight.pipeline import rock_type_ids
+
+    ids = rock_type_ids(types.SimpleNamespace(zones=[zm], shm=res, phi=phi, k=k))
+    names = list(zm.rock_functions)
+    assert [names[int(i) - 1] for i in ids] == ["A", "B"]
 
 
 # --- the fit command on the invented demo core data

@@ -364,6 +364,18 @@ def test_fwl_line_and_zone_name_drawn_at_md_of_fwl():
         assert any(y == pytest.approx(fwl_md) for y in ys)
 
 
+def test_free_oil_level_drawn_for_gas_cap_zone():
+    datum = 25.0
+    z = zone("Cap", 1600.0, 1800.0, 1750.0, "oil")
+    z.gas_oil_level = 1680.0
+    res = make_result(datum=datum, zones=[z])
+    fig = plots._track_figure(res, depth_axis="md")
+    assert "Free-oil level Cap" in all_texts(fig)
+    ys = [ln.get_ydata()[0] for ln in fig.axes[0].get_lines()
+          if len(ln.get_ydata()) == 2 and ln.get_ydata()[0] == ln.get_ydata()[1]]
+    assert any(y == pytest.approx(1680.0 + datum) for y in ys)  # vertical: MD = TVDSS + datum
+
+
 def test_fwl_below_log_gets_a_note():
     zones = [zone("Deep", 1600.0, 1800.0, 5000.0, "gas")]
     fig = plots._track_figure(make_result(zones=zones))

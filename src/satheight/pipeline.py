@@ -44,6 +44,7 @@ NEW_CURVES = {
     "SW_LOG": "Water saturation from resistivity (Archie)",
     "SHM_FLAG": "Quality flag bits: " + "; ".join(f"{b}={t}" for b, t in FLAG_MEANINGS.items()),
     "ZONE_ID": "Zone number (1-based order of the project file), 0 outside zones",
+    "ROCK_ID": "Rock type number within its zone (see Zn_RTk parameters), 0 none",
     "TVD": "True vertical depth below the log depth reference, positive down",
     "NORTH": "Offset north of the well head (survey azimuth reference)",
     "EAST": "Offset east of the well head (survey azimuth reference)",
@@ -55,7 +56,7 @@ CAUTION = ("Results are estimates for review by a qualified professional; local 
            "and reserves-reporting rules govern their use.")
 
 #: Decimals written for each new curve in the output LAS.
-OUTPUT_DECIMALS = {"TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
+OUTPUT_DECIMALS = {"ROCK_ID": 0, "TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "SW_SHM": 5, "SW_LOG": 5,
                    "SHM_FLAG": 0, "ZONE_ID": 0, "TVD": 4, "NORTH": 4, "EAST": 4}
 
 
@@ -332,7 +333,32 @@ def output_curves(result: WellResult, project: Project) -> list[Curve]:
         curves.append(Curve("SW_LOG", "v/v", NEW_CURVES["SW_LOG"], result.sw_log.copy()))
     curves.append(Curve("SHM_FLAG", "", NEW_CURVES["SHM_FLAG"], shm.flag.astype(float)))
     curves.append(Curve("ZONE_ID", "", NEW_CURVES["ZONE_ID"], (shm.zone + 1).astype(float)))
+    rock = rock_type_ids(result)
+    if rock is not None:
+        curves.append(Curve("ROCK_ID", "", NEW_CURVES["ROCK_ID"], rock))
     return curves
+
+
+def rock_type_ids(result: WellResult) -> np.ndarray | None:
+    """Per sample, the 1-based number of its rock type in its zone's rock-type table.
+
+    Only for wells with a zone whose J-Sw function is chosen per depth by rock type
+    (numbers as listed by the ``Zn_RTk`` items of ~Parameter); 0 where a sample has
+    no rock type with a function (or lies in a zone without per-depth rock typing),
+    NaN outside every zone. None when no zone of the well uses rock typing.
+    """
+    zones = [(i, zn) for i, zn in enumerate(result.zones) if zn.rock_functions]
+    if not zones:
+        return None
+    ids = np.where(result.shm.zone >= 0, 0.0, np.nan)
+    for i, zn in zones:  # one pass per zone and rock type, not per sample
+        m = result.shm.zone == i
+        labels = np.asarray(zn.rock_classifier(result.phi[m], result.k[m]), dtype=object)
+        out = np.zeros(labels.shape)
+        for number, name in enumerate(zn.rock_functions, start=1):
+            out[labels == name] = number
+        ids[m] = out
+    return ids
 
 
 def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
@@ -376,6 +402,13 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
             items += [HeaderItem(p + "JMIN", "", zn.function.j_range_[0], f"Zone {i} calibrated J minimum"),
                       HeaderItem(p + "JMAX", "", zn.function.j_range_[1], f"Zone {i} calibrated J maximum")]
         items += _model_file_parameters(project, zn, p, i)
+        for number, (name, fn) in enumerate((zn.rock_functions or {}).items(), start=1):
+            q = f"{p}RT{number}"
+            items += [HeaderItem(q, "", name, f"Zone {i} rock type {number} (ROCK_ID = {number})"),
+                      HeaderItem(q + "_FUNC", "", fn.name, f"Zone {i} rock type {number} J-Sw function")]
+            items += [HeaderItem(f"{q}_{pn.upper()}", "", pv,
+                                 f"Zone {i} rock type {number} function parameter {pn}")
+                      for pn, pv in fn.params_.items()]
     return items
 
 

@@ -50,6 +50,9 @@ _BLUE = "#0072B2"
 _VERMILLION = "#D55E00"
 _PURPLE = "#CC79A7"
 
+#: Line colour of the free-oil (gas-oil) level (reddish purple of the Okabe & Ito set).
+_GOL_COLOUR = "#CC79A7"
+
 _COLOURS = {
     "gr": _GREEN,
     "phi": _BLUE,
@@ -434,6 +437,27 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
     if fwl_groups:
         handles.append(Line2D([], [], color=_COLOURS["fwl"], lw=1.6, ls=(0, (6, 2)),
                               label="Free-water level"))
+    # free-oil (gas-oil) level of zones with a gas cap over an oil leg
+    gol_drawn = False
+    for zone in zones:
+        gol = _number(zone, "gas_oil_level")
+        if not np.isfinite(gol):
+            continue
+        if depth_axis == "tvdss":
+            ys = np.array([gol]) if y_top * scale <= gol <= y_base * scale else np.empty(0)
+        else:
+            ys = _level_crossings(md, tvdss, gol) if have_tvdss else np.empty(0)
+        label = "Free-oil level " + _safe_text(getattr(zone, "name", ""))
+        for yy in ys / scale:
+            for ax in axes.values():
+                ax.axhline(yy, color=_GOL_COLOUR, lw=1.4, ls=(0, (2, 2)), zorder=3.5)
+            last.text(0.97, yy, label, transform=last.get_yaxis_transform(), ha="right",
+                      va="bottom", fontsize=8, color=_GOL_COLOUR, zorder=6,
+                      bbox=dict(facecolor="white", edgecolor="none", alpha=0.7, pad=0.5))
+            gol_drawn = True
+    if gol_drawn:
+        handles.append(Line2D([], [], color=_GOL_COLOUR, lw=1.4, ls=(0, (2, 2)),
+                              label="Free-oil (gas-oil) level"))
 
     # -- (1) gamma ray
     if gr is not None:
