@@ -176,6 +176,17 @@ def assign_zones(tvdss, zones: Sequence[ZoneModel]) -> np.ndarray:
     return idx
 
 
+def _columns(tvdss, phi, k):
+    """The three inputs as float64 arrays, checked to be 1-D and of one length."""
+    z = np.asarray(tvdss, dtype=float)
+    phi = np.asarray(phi, dtype=float)
+    k = np.asarray(k, dtype=float)
+    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
+        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
+                             f"{z.shape}, {phi.shape}, {k.shape}")
+    return z, phi, k
+
+
 def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
     """Saturation-height model at every sample.
 
@@ -207,12 +218,7 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
     windows overlap the first zone wins, as in :func:`assign_zones`. The results
     equal those of :func:`compute_shm_masks`.
     """
-    z = np.asarray(tvdss, dtype=float)
-    phi = np.asarray(phi, dtype=float)
-    k = np.asarray(k, dtype=float)
-    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
-        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
-                             f"{z.shape}, {phi.shape}, {k.shape}")
+    z, phi, k = _columns(tvdss, phi, k)
     order = None
     if z.size > 1 and not bool(np.all(z[1:] >= z[:-1])):
         order = np.argsort(z, kind="stable")          # NaN depths sort last: in no zone
@@ -318,34 +324,12 @@ def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
 def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
     """Saturation-height model at every sample, straightforward mask form.
 
-    Same results as :func:`compute_shm` (which the tests check against this
-    function) but slower on large wells: every zone is a boolean mask over all
-    samples and every value is gathered through it.
-
-    Parameters
-    ----------
-    tvdss : array_like
-        TVDSS of each sample [m], positive down.
-    phi : array_like
-        Porosity [fraction]. NaN, <= 0 or > 1 gives Sw NaN and FLAG_BAD_POROSITY.
-    k : array_like
-        Permeability [m^2]. NaN or <= 0 gives Sw NaN and FLAG_BAD_PERMEABILITY.
-    zones : sequence of ZoneModel
-
-    Returns
-    -------
-    ShmResult
-        Arrays of the input length. Outside every zone all values are NaN and
-        the flag carries FLAG_NO_ZONE. At and below the FWL Pc = 0, J = 0 and
-        Sw = 1 whatever the porosity and permeability (they are still flagged).
-        J outside the function's calibrated range keeps its Sw but is flagged.
+    Same parameters and results as :func:`compute_shm` (which the tests check
+    against this function) but slower on large wells: every zone is a boolean mask
+    over all samples and every value is gathered through it. It also serves the
+    zones the in-place segment code does not cover (see :func:`_needs_general_path`).
     """
-    z = np.asarray(tvdss, dtype=float)
-    phi = np.asarray(phi, dtype=float)
-    k = np.asarray(k, dtype=float)
-    if not (z.shape == phi.shape == k.shape) or z.ndim != 1:
-        raise SatHeightError(f"tvdss, phi and k must be 1-D arrays of one length, got "
-                             f"{z.shape}, {phi.shape}, {k.shape}")
+    z, phi, k = _columns(tvdss, phi, k)
     n = z.size
     zone = assign_zones(z, zones)
     in_zone = zone >= 0
