@@ -96,6 +96,8 @@ def check_complete(out: Path, old: dict[str, bytes], new_fwl: float) -> int:
             json.loads(data)
         elif f.suffix == ".csv":
             assert len(pd.read_csv(f)) == N_SAMPLES, f.name
+        elif f.suffix == ".html":
+            assert data.rstrip().endswith(b"</html>"), f.name
         else:
             raise AssertionError(f"unexpected output {f.name}")
     return n_new
@@ -110,7 +112,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
-    assert len(old) == 3 * N_WELLS + 1
+    assert len(old) == 3 * N_WELLS + 2  # per well LAS, CSV, JSON; run summary; report
     inputs = {f.name: _digest(f) for f in src.iterdir()}
 
     second = make_project(src, 1500.0, "p2.toml")

@@ -386,6 +386,7 @@ def _print_run(report, out) -> int:
     for note in getattr(report, "notes", []):
         print(f"note: {note}", file=out)
     print(f"run summary: {report.summary_file}", file=out)
+    print(f"report: {report.out_dir / 'report.html'}", file=out)
     print("Caution: results are estimates for review by a qualified professional; local "
           "regulations and reserves-reporting rules govern their use.", file=out)
     return EXIT_WELLS_FAILED if report.failed else EXIT_OK
