@@ -107,3 +107,16 @@ def test_leading_zero_identifier_kept_as_written(tmp_path):
     assert str(well.well_header["UWI"].value) == "0012345"
     write_las(tmp_path / "out.las", well)
     assert " 0012345 " in (tmp_path / "out.las").read_text()
+
+
+def test_curve_named_dlm_is_refused_naming_the_line(tmp_path):
+    # lasio takes any item named DLM for the LAS 3.0 delimiter and fails on it; we say so
+    from satheight.errors import InputFileError
+    from satheight.io.las import read_las
+
+    p = tmp_path / "dlm.las"
+    p.write_text("~Version\nVERS.  2.0 :\nWRAP.  NO :\n~Well\nSTRT.M 0 :\nSTOP.M 1 :\nSTEP.M 1 :\n"
+                 "NULL.  -999.25 :\nWELL.  W :\n~Curve\nDEPT.M : depth\nDLM.V/V : \n~A\n0 1\n1 2\n")
+    with pytest.raises(InputFileError) as e:
+        read_las(p)
+    assert "dlm.las, line 12" in str(e.value) and "DLM" in str(e.value)

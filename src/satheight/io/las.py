@@ -431,6 +431,11 @@ _SINGLE_SECTIONS = {"V": "~Version", "W": "~Well", "C": "~Curve", "P": "~Paramet
                     "A": "~A (data)"}
 
 
+# A ~Curve line whose mnemonic is DLM (inside the ~Curve section: see _check_structure).
+_RESERVED_CURVE = re.compile(r"^[ \t]*~C[^\n]*\n(?:(?![ \t]*~)[^\n]*\n)*?[ \t]*(DLM)[ \t]*\.",
+                             re.M | re.I)
+
+
 def _line_of(text: str, pos: int) -> int:
     """1-based line number of character offset ``pos`` in ``text``."""
     return text.count("\n", 0, pos) + 1
@@ -454,6 +459,11 @@ def _check_structure(path: Path, text: str) -> None:
                                  where=f"{path}, line {_line_of(text, m.start())}",
                                  hint="save the file as LAS 2.0 (or 1.2) from the program "
                                       "that wrote it")
+    dlm = _RESERVED_CURVE.search(text)
+    if dlm:
+        raise InputFileError("a curve is named DLM, which the LAS reader takes for the LAS 3.0 "
+                             "delimiter item", where=f"{path}, line {_line_of(text, dlm.start(1))}",
+                             hint="rename that curve (e.g. DLM_1) in the ~Curve section")
     seen: dict[str, int] = {}
     for sm in _SECTION_LINE.finditer(text):
         letter = sm.group(1).upper()

@@ -210,7 +210,12 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
         except ValueError as exc:
             if isinstance(exc, ParserError):
                 return None
-            block, texts = _read_with_text(raw, offset, n_columns, scan)
+            try:
+                block, texts = _read_with_text(raw, offset, n_columns, scan)
+            except (ValueError, TypeError):
+                # pandas' dtype guess of a text column can disagree between reads (mixed
+                # chunks): the lasio path reads such a section
+                return None
             if block is None:
                 return None
             frame = None
