@@ -202,3 +202,29 @@ def test_pressures_command_bad_file_exit_code(tmp_path):
                         str(tmp_path / "none.csv"), "--out", str(tmp_path / "o")],
                        capture_output=True, text=True, timeout=60)
     assert r.returncode == 2 and "not found" in r.stderr
+
+
+def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
+    # VANTREL-5 (invented demo) is deviated: an MD-only point must get the TVDSS of the
+    # survey (minimum curvature), the same TVDSS the log samples of that MD get.
+    import lasio
+
+    from satheight.contacts_run import _datums
+
+    demo = Path(__file__).resolve().parents[1] / "demo_wells"
+    from satheight.project import load_project
+    from satheight.pipeline import run_project
+
+    project = load_project(demo / "demo_project.toml")
+    conv = _datums(project, {"VANTREL-5"})["VANTREL-5"]
+    assert callable(conv)
+    report = run_project(project, tmp_path / "o", plot=False)
+    las = lasio.read(next(f for w in report.wells if w.name == "VANTREL-5"
+                          for f in w.files if f.suffix == ".las"))
+    md = las.index[[500, 1500, 2500]]
+    path = tmp_path / "dev.csv"
+    path.write_text("well,md [m],pressure [bar],fluid,quality\n"
+                    + "".join(f"VANTREL-5,{m:.4f},210,water,good\n" for m in md))
+    done = resolve_tvdss(read_pressure_points(path), {"VANTREL-5": conv})
+    np.testing.assert_allclose(done.tvdss, las["TVDSS"][[500, 1500, 2500]], atol=1e-3)
+    assert np.all(done.tvdss < md - 29.0)               # deviated: shallower than MD - KB

@@ -99,7 +99,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         Pressure-points CSV (:mod:`satheight.io.pressures`).
     out_dir : str or pathlib.Path
     project_path : str or pathlib.Path, optional
-        Gives datum elevations for MD-only points (vertical wells), the project's
+        Turns MD-only points into TVDSS (datum elevation; minimum curvature through
+        the survey of a deviated well), gives the project's
         FWL of each zone and the wells for the FWL from log Sw.
     zone : str, optional
         Project zone the points belong to when the file has no zone column.
@@ -195,8 +196,9 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
 
 
 def _datums(project, wells: set) -> dict:
+    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well."""
     from .io.las import read_las
-    from .pipeline import datum_elevation
+    from .pipeline import datum_elevation, well_path
 
     out = {}
     for spec in project.wells:
@@ -205,7 +207,9 @@ def _datums(project, wells: set) -> dict:
         well = read_las(spec.las)
         name = spec.name or well.name
         if name in wells:
-            out[name] = datum_elevation(well, spec)
+            elev = datum_elevation(well, spec)
+            md_to_tvdss = well_path(spec, well, elev)[3]
+            out[name] = elev if md_to_tvdss is None else md_to_tvdss
     return out
 
 

@@ -221,15 +221,19 @@ def read_pressure_points(path) -> PressurePoints:
                           line=np.array(out["line"], dtype=np.int64))
 
 
-def resolve_tvdss(points: PressurePoints, datum_elevation: dict[str, float]) -> PressurePoints:
-    """Fill TVDSS [m] of points given only by MD, for vertical wells: ``TVDSS = MD - datum``.
+def resolve_tvdss(points: PressurePoints, datum_elevation: dict) -> PressurePoints:
+    """Fill TVDSS [m] of points given only by MD.
+
+    A vertical well: ``TVDSS = MD - datum``; a deviated well: its MD -> TVDSS
+    function (minimum curvature through its survey).
 
     Parameters
     ----------
     points : PressurePoints
         Not modified.
-    datum_elevation : dict[str, float]
-        Well name -> elevation of the depth reference above the TVDSS datum [m].
+    datum_elevation : dict[str, float or callable]
+        Well name -> elevation of the depth reference above the TVDSS datum [m], or
+        a function MD [m] -> TVDSS [m] (array in, array out) for a deviated well.
 
     Returns
     -------
@@ -251,7 +255,8 @@ def resolve_tvdss(points: PressurePoints, datum_elevation: dict[str, float]) -> 
                                  "elevation is unknown", where=f"{points.source}, line {line}",
                                  hint="give the tvdss column, or run with --project naming a "
                                       "project file that has this well")
-        tvd[m] = points.md[m] - datum_elevation[well]
+        conv = datum_elevation[well]
+        tvd[m] = conv(points.md[m]) if callable(conv) else points.md[m] - conv
     return PressurePoints(points.source, points.well.copy(), tvd, points.md.copy(),
                           points.pressure.copy(), points.fluid.copy(), points.quality.copy(),
                           points.zone.copy(), points.line.copy())
