@@ -630,7 +630,8 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
         t = line.strip()
         if t.startswith("~") and (t[:2] == "~A" or "_Data" in t or "~Log_" in t):
             return None
-    scan = las_fast.scan_data_section(data, end)
+    # the quick checks now; the byte checks and token count run beside the parser
+    scan = las_fast.scan_data_section(data, end, count=False)
     if scan is None:
         return None
     with _lasio_messages() as messages:

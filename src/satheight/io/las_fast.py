@@ -30,6 +30,7 @@ formatted by Python's own ``%`` operator, so the text is the same as ``"%.{d}f" 
 from __future__ import annotations
 
 import io
+import os
 import re
 from dataclasses import dataclass
 
@@ -77,17 +78,22 @@ def split_data_section(raw: bytes) -> tuple[int, int] | None:
 class DataScan:
     """What one pass over the data bytes found."""
 
-    tokens: int                 # whitespace-separated tokens outside comment lines
+    tokens: int | None          # whitespace-separated tokens outside comment lines
     has_comments: bool          # whole-line ``#`` comments present (none indented)
+    comment_tokens: int = 0     # tokens inside those comment lines
 
 
-def scan_data_section(raw: bytes, offset: int) -> DataScan | None:
+def scan_data_section(raw: bytes, offset: int, count: bool = True) -> DataScan | None:
     """Check and count the data section ``raw[offset:]``; None if it is not plain.
 
     Plain means: only printable ASCII, blank, tab, LF and CR-LF; no ``~`` (a later
     section), no quotes (lasio joins quoted text into one token), no commas; ``#``
     only as the first character of a line (lasio and pandas both skip such a
     line; an indented or trailing ``#`` is handled differently by the two).
+
+    With ``count=False`` only the quick checks (``~``, quotes, commas, ``#``) are
+    made and ``tokens`` is None: :func:`parse_data_section` then checks the bytes
+    and counts the tokens itself, part by part beside the parser.
     """
     for ch in (b"~", b'"', b"'", b","):
         if raw.find(ch, offset) >= 0:
@@ -106,10 +112,26 @@ def scan_data_section(raw: bytes, offset: int) -> DataScan | None:
         comment_tokens += len(raw[k:end].split())
         has_comments = True
         k = raw.find(b"#", end)
+    if not count:
+        return DataScan(tokens=None, has_comments=has_comments, comment_tokens=comment_tokens)
+    tokens = _count_tokens(raw, offset, len(raw))
+    if tokens is None:
+        return None
+    return DataScan(tokens=tokens - comment_tokens, has_comments=has_comments,
+                    comment_tokens=comment_tokens)
+
+
+def _count_tokens(raw: bytes, begin: int, end: int) -> int | None:
+    """Whitespace-separated tokens in ``raw[begin:end]`` (comment lines included).
+
+    None when a byte is not plain (see :func:`scan_data_section`). ``begin`` must
+    be the start of a line. numpy releases the GIL here, so parts of a section
+    can be counted in threads.
+    """
     tokens = 0
     prev_blank = True
-    for s in range(offset, len(raw), _CHUNK):
-        c = np.frombuffer(raw, np.uint8, count=min(_CHUNK, len(raw) - s), offset=s)
+    for s in range(begin, end, _CHUNK):
+        c = np.frombuffer(raw, np.uint8, count=min(_CHUNK, end - s), offset=s)
         if int(c.max(initial=0)) > 126:
             return None
         n_low = int(np.count_nonzero(c < 32))
@@ -133,7 +155,7 @@ def scan_data_section(raw: bytes, offset: int) -> DataScan | None:
         starts = np.count_nonzero(word[1:] > word[:-1])      # blank then non-blank
         tokens += int(starts) + int(bool(word[0]) and prev_blank)
         prev_blank = not bool(word[-1])
-    return DataScan(tokens=tokens - comment_tokens, has_comments=has_comments)
+    return tokens
 
 
 def _lasio_number(token: str) -> tuple[float, bool]:
@@ -144,11 +166,33 @@ def _lasio_number(token: str) -> tuple[float, bool]:
         return np.nan, True
 
 
-def _read(raw: bytes, offset: int, n_columns: int, comments: bool, dtype):
+class _Window(io.RawIOBase):
+    """Read-only file over ``raw[begin:end]`` without copying the bytes up front."""
+
+    def __init__(self, raw: bytes, begin: int, end: int) -> None:
+        super().__init__()
+        self._view = memoryview(raw)
+        self._pos = begin
+        self._end = end
+
+    def readable(self) -> bool:
+        return True
+
+    def readinto(self, buf) -> int:
+        n = max(0, min(len(buf), self._end - self._pos))
+        buf[:n] = self._view[self._pos:self._pos + n]
+        self._pos += n
+        return n
+
+
+def _read(raw: bytes, offset: int, n_columns: int, comments: bool, dtype, end: int | None = None):
     import pandas as pd
 
-    buf = io.BytesIO(raw)          # shares the bytes; no copy of the file
-    buf.seek(offset)
+    if end is None:
+        buf = io.BytesIO(raw)          # shares the bytes; no copy of the file
+        buf.seek(offset)
+    else:
+        buf = _Window(raw, offset, end)
     kwargs = dict(sep=r"\s+", header=None, names=list(range(n_columns)), engine="c",
                   na_filter=False, skip_blank_lines=True, comment="#" if comments else None,
                   dtype=dtype)
@@ -177,9 +221,110 @@ class TextReport:
     first_row: int              # 1-based data row
 
 
+#: Data sections of at least this many bytes are read in parts, one thread per part
+#: (pandas' C parser and the numpy byte checks release the GIL).
+PARALLEL_MIN_BYTES = 1 << 22
+
+#: Most parts (threads) a data section is cut into.
+MAX_PARTS = 4
+
+
+def _n_parts(size: int) -> int:
+    """Number of parts for a data section of ``size`` bytes (1 below PARALLEL_MIN_BYTES)."""
+    if size < PARALLEL_MIN_BYTES:
+        return 1
+    try:
+        cpus = len(os.sched_getaffinity(0))
+    except (AttributeError, OSError):
+        cpus = os.cpu_count() or 1
+    return max(1, min(cpus, MAX_PARTS, size // (PARALLEL_MIN_BYTES // 2)))
+
+
+def _cuts(raw: bytes, offset: int, parts: int) -> list[int]:
+    """Byte offsets cutting ``raw[offset:]`` into ``parts`` pieces at line starts."""
+    cuts = [offset]
+    size = len(raw) - offset
+    for i in range(1, parts):
+        nl = raw.find(b"\n", offset + size * i // parts)
+        if nl < 0 or nl + 1 >= len(raw):
+            break
+        if nl + 1 > cuts[-1]:
+            cuts.append(nl + 1)
+    cuts.append(len(raw))
+    return cuts
+
+
+def _read_part(raw: bytes, begin: int, end: int, n_columns: int, scan: DataScan):
+    """(frame, tokens) of one part, or (None, None) when its bytes are not plain.
+
+    Raises what pandas raises (ParserError, ValueError for text).
+    """
+    tokens = None
+    if scan.tokens is None:
+        tokens = _count_tokens(raw, begin, end)
+        if tokens is None:
+            return None, None
+    frame = _read(raw, begin, n_columns, scan.has_comments, np.float64, end)
+    return frame, tokens
+
+
+def _read_parts(raw: bytes, offset: int, n_columns: int, scan: DataScan):
+    """Frames of the parts of the data section, in order, and the token count.
+
+    Returns ``(frames, tokens)``; ``frames`` is None when the bytes are not plain.
+    """
+    cuts = _cuts(raw, offset, _n_parts(len(raw) - offset))
+    spans = list(zip(cuts[:-1], cuts[1:]))
+    if len(spans) == 1:
+        results = [_read_part(raw, spans[0][0], spans[0][1], n_columns, scan)]
+    else:
+        from concurrent.futures import ThreadPoolExecutor
+
+        with ThreadPoolExecutor(max_workers=len(spans)) as pool:
+            futures = [pool.submit(_read_part, raw, a, b, n_columns, scan) for a, b in spans]
+            # wait for all, then raise the first part's error (same order as one read)
+            results = [f.exception() or f.result() for f in futures]
+        for r in results:
+            if isinstance(r, BaseException):
+                raise r
+    if any(frame is None for frame, _ in results):
+        return None, None
+    if scan.tokens is None:
+        tokens = sum(t for _, t in results) - scan.comment_tokens
+    else:
+        tokens = scan.tokens
+    return [frame for frame, _ in results], tokens
+
+
+def _join_columns(frames, n_columns: int) -> list[np.ndarray]:
+    """One contiguous writable float64 array per column from the frames of the parts."""
+    if len(frames) == 1:
+        # column by column, no interleaved copy of the whole table
+        return [_writable(frames[0][i].to_numpy(dtype=np.float64)) for i in range(n_columns)]
+    rows = sum(len(f) for f in frames)
+    block = [np.empty(rows, dtype=np.float64) for _ in range(n_columns)]
+
+    def fill(i: int) -> None:
+        pos = 0
+        for f in frames:
+            part = f[i].to_numpy(dtype=np.float64)
+            block[i][pos:pos + part.size] = part
+            pos += part.size
+
+    from concurrent.futures import ThreadPoolExecutor
+
+    with ThreadPoolExecutor(max_workers=min(len(frames), n_columns)) as pool:
+        list(pool.map(fill, range(n_columns)))
+    return block
+
+
 def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
                        ) -> tuple[list[np.ndarray], list[TextReport]] | None:
     """Numbers of the data section, one float64 array per curve.
+
+    A large section is cut at line starts into parts read at the same time, one
+    thread each (:data:`PARALLEL_MIN_BYTES`, :data:`MAX_PARTS`); the parts are
+    joined in file order, so the result is that of one read of the whole section.
 
     Parameters
     ----------
@@ -190,7 +335,8 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
     n_columns : int
         Number of curves in ``~Curve``.
     scan : DataScan
-        Result of :func:`scan_data_section` for the same bytes.
+        Result of :func:`scan_data_section` for the same bytes; when it was made
+        with ``count=False``, the bytes are checked and the tokens counted here.
 
     Returns
     -------
@@ -198,32 +344,39 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
         One array per curve, in ``~Curve`` order, each contiguous. Text entries
         are NaN and reported per column. None when the section cannot be read
         exactly as lasio would (a line with another number of values, text that
-        lasio rewrites, no rows): the caller then uses lasio.
+        lasio rewrites, no rows, bytes that are not plain): the caller then uses lasio.
     """
     from pandas.errors import ParserError
 
+    tokens = scan.tokens
     try:
         try:
-            frame = _read(raw, offset, n_columns, scan.has_comments, np.float64)
+            frames, tokens = _read_parts(raw, offset, n_columns, scan)
+            if frames is None:
+                return None
             texts: list[TextReport] = []
             block = None
         except ValueError as exc:
             if isinstance(exc, ParserError):
                 return None
+            if tokens is None:
+                tokens = _count_tokens(raw, offset, len(raw))
+                if tokens is None:
+                    return None
+                tokens -= scan.comment_tokens
             block, texts = _read_with_text(raw, offset, n_columns, scan)
             if block is None:
                 return None
-            frame = None
+            frames = None
     except (ParserError, UnicodeDecodeError, OverflowError, MemoryError):
         return None
-    if frame is not None:
-        if frame.shape[1] != n_columns:
+    if frames is not None:
+        if any(f.shape[1] != n_columns for f in frames):
             return None
-        # column by column, no interleaved copy of the whole table
-        block = [_writable(frame[i].to_numpy(dtype=np.float64)) for i in range(n_columns)]
-        del frame
+        block = _join_columns(frames, n_columns)
+        del frames
     rows = len(block[0]) if len(block) else 0
-    if rows == 0 or rows * n_columns != scan.tokens:
+    if rows == 0 or rows * n_columns != tokens:
         return None
     return block, texts
 
