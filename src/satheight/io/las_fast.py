@@ -226,19 +226,37 @@ class TextReport:
 #: (pandas' C parser and the numpy byte checks release the GIL).
 PARALLEL_MIN_BYTES = 1 << 22
 
-#: Most parts (threads) a data section is cut into.
-MAX_PARTS = 4
+#: Most parts a data section is cut into.
+MAX_PARTS = 16
+
+#: Parts per thread (more parts than threads evens out a thread slowed by other work).
+PARTS_PER_THREAD = 1
+
+
+def _threads() -> int:
+    """Threads worth using: CPUs this process may run on, less those other work keeps busy.
+
+    The busy CPUs are read from the 1-minute load average (which counts this
+    process's own running thread). On a machine whose cores are all busy a second
+    thread was measured to slow the read down (it waits for the slower part), so
+    it is only used when the load leaves a core free.
+    """
+    try:
+        cpus = max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):
+        cpus = os.cpu_count() or 1
+    try:
+        load = os.getloadavg()[0]
+    except (AttributeError, OSError):
+        load = 0.0
+    return max(1, min(cpus, int(cpus - load + 1.5)))
 
 
 def _n_parts(size: int) -> int:
     """Number of parts for a data section of ``size`` bytes (1 below PARALLEL_MIN_BYTES)."""
-    if size < PARALLEL_MIN_BYTES:
+    if size < PARALLEL_MIN_BYTES or _threads() < 2:
         return 1
-    try:
-        cpus = len(os.sched_getaffinity(0))
-    except (AttributeError, OSError):
-        cpus = os.cpu_count() or 1
-    return max(1, min(cpus, MAX_PARTS, size // (PARALLEL_MIN_BYTES // 2)))
+    return max(1, min(PARTS_PER_THREAD * _threads(), MAX_PARTS, size // (PARALLEL_MIN_BYTES // 2)))
 
 
 def _cuts(raw: bytes, offset: int, parts: int) -> list[int]:
@@ -281,7 +299,7 @@ def _read_parts(raw: bytes, offset: int, n_columns: int, scan: DataScan):
     else:
         from concurrent.futures import ThreadPoolExecutor
 
-        with ThreadPoolExecutor(max_workers=len(spans)) as pool:
+        with ThreadPoolExecutor(max_workers=min(len(spans), _threads())) as pool:
             futures = [pool.submit(_read_part, raw, a, b, n_columns, scan) for a, b in spans]
             # wait for all, then raise the first part's error (same order as one read)
             results = [f.exception() or f.result() for f in futures]
