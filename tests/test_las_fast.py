@@ -345,6 +345,8 @@ def test_cuts_fall_on_line_starts():
     ("".join(f"{1000 + 0.5 * i} 45 -999.25 1\r\n" for i in range(40)), True),        # CRLF
     ("# head\n" + "".join(f"{1000 + 0.5 * i} 1 2 3\n#c {i}\n\n" for i in range(30)), True),
     ("".join(f"{1000 + 0.5 * i} 1 2 3\n" for i in range(40)) + "1020.0 5 6 7", True),  # no last LF
+    ("".join(f"{1000 + 0.5 * i} 1 2 3\n" for i in range(10)) + "\n" * 300, True),   # blank tail
+    ("1000 1 2 3\n" + "#" * 600 + "\n" + "1000.5 4 5 6\n", True),          # long comment
     ("".join(f"{1000 + 0.5 * i} 1 {'x' if i == 33 else 2} 3\n" for i in range(40)), True),  # text
     ("".join(f"{1000 + 0.5 * i} 1 2 3{' 9' if i == 35 else ''}\n" for i in range(40)), False),
     ("".join(f"{1000 + 0.5 * i} 1 2{'' if i == 36 else ' 3'}\n" for i in range(40)), False),
@@ -355,14 +357,15 @@ def test_cuts_fall_on_line_starts():
 def test_parts_give_the_same_well(tmp_path, monkeypatch, rows, fast, parts):
     # reference: the lasio path (read_las engine="lasio"), as everywhere in this file
     calls = []
-    real = las_fast._read_part
+    real = las_fast._scan_part
 
     def spy(*args, **kwargs):
         calls.append(args[1:3])
         return real(*args, **kwargs)
 
     monkeypatch.setattr(las_fast, "_n_parts", lambda size: parts)
-    monkeypatch.setattr(las_fast, "_read_part", spy)
+    monkeypatch.setattr(las_fast, "_scan_part", spy)
+    monkeypatch.setattr(las_fast, "ROWS_PER_STEP", 3)      # several parser steps per part
     path = write(tmp_path, las(rows))
     check(path, fast)
     assert len(calls) >= parts                      # the section was really cut

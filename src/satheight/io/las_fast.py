@@ -82,6 +82,7 @@ class DataScan:
     tokens: int | None          # whitespace-separated tokens outside comment lines
     has_comments: bool          # whole-line ``#`` comments present (none indented)
     comment_tokens: int = 0     # tokens inside those comment lines
+    checked: bool = True        # False: made with count=False, nothing checked yet
 
 
 def scan_data_section(raw: bytes, offset: int, count: bool = True) -> DataScan | None:
@@ -92,10 +93,12 @@ def scan_data_section(raw: bytes, offset: int, count: bool = True) -> DataScan |
     only as the first character of a line (lasio and pandas both skip such a
     line; an indented or trailing ``#`` is handled differently by the two).
 
-    With ``count=False`` only the quick checks (``~``, quotes, commas, ``#``) are
-    made and ``tokens`` is None: :func:`parse_data_section` then checks the bytes
-    and counts the tokens itself, part by part beside the parser.
+    With ``count=False`` nothing is checked yet and ``tokens`` is None:
+    :func:`parse_data_section` then checks the bytes and counts the tokens itself,
+    part by part in threads, before it parses them.
     """
+    if not count:
+        return DataScan(tokens=None, has_comments=False, checked=False)
     for ch in (b"~", b'"', b"'", b","):
         if raw.find(ch, offset) >= 0:
             return None
@@ -113,8 +116,6 @@ def scan_data_section(raw: bytes, offset: int, count: bool = True) -> DataScan |
         comment_tokens += len(raw[k:end].split())
         has_comments = True
         k = raw.find(b"#", end)
-    if not count:
-        return DataScan(tokens=None, has_comments=has_comments, comment_tokens=comment_tokens)
     tokens = _count_tokens(raw, offset, len(raw))
     if tokens is None:
         return None
@@ -126,17 +127,37 @@ def _count_tokens(raw: bytes, begin: int, end: int) -> int | None:
     """Whitespace-separated tokens in ``raw[begin:end]`` (comment lines included).
 
     None when a byte is not plain (see :func:`scan_data_section`). ``begin`` must
-    be the start of a line. numpy releases the GIL here, so parts of a section
-    can be counted in threads.
+    be the start of a line.
+    """
+    found = _scan_part(raw, begin, end)
+    return None if found is None else found[0]
+
+
+def _scan_part(raw: bytes, begin: int, end: int) -> tuple[int, int, bool] | None:
+    """``(tokens, lines, hashes)`` of ``raw[begin:end]``, or None when a byte is not plain.
+
+    ``lines`` counts line ends, plus one for a last line without one: no more
+    data rows than that can be in the part. ``hashes`` says whether a ``#`` occurs
+    (its place is checked by :func:`scan_data_section`). Bytes ``~``, quotes and
+    commas make the part not plain. numpy releases the GIL here, so parts of a
+    section can be scanned in threads.
     """
     tokens = 0
+    lines = 0
+    hashes = False
     prev_blank = True
     for s in range(begin, end, _CHUNK):
         c = np.frombuffer(raw, np.uint8, count=min(_CHUNK, end - s), offset=s)
-        if int(c.max(initial=0)) > 126:
+        if int(c.max(initial=0)) > 125:                      # '~' (126), DEL, non-ASCII
             return None
+        if np.count_nonzero((c - np.uint8(33)) < 12):        # one of !"#$%&'()*+, here
+            piece = raw[s:s + c.size]
+            if b'"' in piece or b"'" in piece or b"," in piece:
+                return None
+            hashes = hashes or b"#" in piece
         n_low = int(np.count_nonzero(c < 32))
         n_lf = int(np.count_nonzero(c == 10))
+        lines += n_lf
         if n_low != n_lf:
             n_tab = int(np.count_nonzero(c == 9))
             n_cr = int(np.count_nonzero(c == 13))
@@ -156,7 +177,9 @@ def _count_tokens(raw: bytes, begin: int, end: int) -> int | None:
         starts = np.count_nonzero(word[1:] > word[:-1])      # blank then non-blank
         tokens += int(starts) + int(bool(word[0]) and prev_blank)
         prev_blank = not bool(word[-1])
-    return tokens
+    if end > begin and raw[end - 1] != 10:
+        lines += 1
+    return tokens, lines, hashes
 
 
 def _lasio_number(token: str) -> tuple[float, bool]:
@@ -172,12 +195,19 @@ class _Window(io.RawIOBase):
 
     def __init__(self, raw: bytes, begin: int, end: int) -> None:
         super().__init__()
+        self._raw = raw
         self._view = memoryview(raw)
         self._pos = begin
         self._end = end
 
     def readable(self) -> bool:
         return True
+
+    def read(self, size: int = -1) -> bytes:
+        stop = self._end if size is None or size < 0 else min(self._end, self._pos + size)
+        out = self._raw[self._pos:stop] if stop > self._pos else b""
+        self._pos = max(self._pos, stop)
+        return out
 
     def readinto(self, buf) -> int:
         n = max(0, min(len(buf), self._end - self._pos))
@@ -273,68 +303,107 @@ def _cuts(raw: bytes, offset: int, parts: int) -> list[int]:
     return cuts
 
 
-def _read_part(raw: bytes, begin: int, end: int, n_columns: int, scan: DataScan):
-    """(frame, tokens) of one part, or (None, None) when its bytes are not plain.
+#: Rows pandas converts per step (16384: its buffers stay in the CPU cache; measured
+#: faster than 4096 or 65536 and more); each step is copied straight into the result
+#: columns (no chunk list joined at the end, as one pandas read would do).
+ROWS_PER_STEP = 1 << 14
 
-    Raises what pandas raises (ParserError, ValueError for text).
+
+def _read_part(raw: bytes, begin: int, end: int, n_columns: int, comments: bool,
+               out: list[np.ndarray], row0: int, capacity: int) -> int | None:
+    """Parse ``raw[begin:end]`` into ``out[i][row0:row0 + capacity]``; the rows read.
+
+    None when a step of the parser gives another number of columns or more rows
+    than ``capacity``. Raises what pandas raises (ParserError; ValueError for text).
     """
-    tokens = None
-    if scan.tokens is None:
-        tokens = _count_tokens(raw, begin, end)
-        if tokens is None:
-            return None, None
-    frame = _read(raw, begin, n_columns, scan.has_comments, np.float64, end)
-    return frame, tokens
+    import pandas as pd
+
+    kwargs = dict(sep=r"\s+", header=None, names=list(range(n_columns)), engine="c",
+                  na_filter=False, skip_blank_lines=True, comment="#" if comments else None,
+                  dtype=np.float64, chunksize=ROWS_PER_STEP, low_memory=False)
+    if _OLD_PANDAS:
+        kwargs["float_precision"] = "round_trip"
+    from pandas.errors import EmptyDataError
+
+    r = row0
+    try:
+        reader = pd.read_csv(_Window(raw, begin, end), **kwargs)
+    except EmptyDataError:              # only blank or comment lines in this part
+        return 0
+    with reader:
+        for frame in reader:
+            k = len(frame)
+            if frame.shape[1] != n_columns or r + k > row0 + capacity:
+                return None
+            for i in range(n_columns):
+                out[i][r:r + k] = frame[i].to_numpy(dtype=np.float64)
+            r += k
+    return r - row0
+
+
+def _map(fn, args: list[tuple], threads: int) -> list:
+    """``[fn(*a) for a in args]``, in threads when ``threads`` > 1; all finish first,
+    then the first exception in ``args`` order is raised (as one pass in order would)."""
+    if threads <= 1 or len(args) <= 1:
+        return [fn(*a) for a in args]
+    from concurrent.futures import ThreadPoolExecutor
+
+    with ThreadPoolExecutor(max_workers=min(threads, len(args))) as pool:
+        futures = [pool.submit(fn, *a) for a in args]
+        done = [f.exception() or f.result() for f in futures]
+    for r in done:
+        if isinstance(r, BaseException):
+            raise r
+    return done
 
 
 def _read_parts(raw: bytes, offset: int, n_columns: int, scan: DataScan):
-    """Frames of the parts of the data section, in order, and the token count.
+    """The data section as float64 columns, read part by part; and its token count.
 
-    Returns ``(frames, tokens)``; ``frames`` is None when the bytes are not plain.
+    First every part is scanned (bytes checked, tokens and lines counted), then
+    parsed into one preallocated array per column, each part at its own rows; a
+    part with fewer rows than lines (blank or comment lines) is moved up after.
+    Returns ``(None, None)`` when the bytes are not plain or a part does not fit.
     """
     cuts = _cuts(raw, offset, _n_parts(len(raw) - offset))
     spans = list(zip(cuts[:-1], cuts[1:]))
-    if len(spans) == 1:
-        results = [_read_part(raw, spans[0][0], spans[0][1], n_columns, scan)]
-    else:
-        from concurrent.futures import ThreadPoolExecutor
-
-        with ThreadPoolExecutor(max_workers=min(len(spans), _threads())) as pool:
-            futures = [pool.submit(_read_part, raw, a, b, n_columns, scan) for a, b in spans]
-            # wait for all, then raise the first part's error (same order as one read)
-            results = [f.exception() or f.result() for f in futures]
-        for r in results:
-            if isinstance(r, BaseException):
-                raise r
-    if any(frame is None for frame, _ in results):
+    threads = _threads() if len(spans) > 1 else 1
+    scans = _map(_scan_part, [(raw, a, b) for a, b in spans], threads)
+    if any(sc is None for sc in scans):
         return None, None
-    if scan.tokens is None:
-        tokens = sum(t for _, t in results) - scan.comment_tokens
-    else:
-        tokens = scan.tokens
-    return [frame for frame, _ in results], tokens
+    if not scan.checked:
+        if any(h for _, _, h in scans):
+            scan = scan_data_section(raw, offset)        # where the '#' are (rare): serial
+            if scan is None:
+                return None, None
+        else:
+            scan = DataScan(tokens=sum(t for t, _, _ in scans), has_comments=False)
+    tokens = scan.tokens
+    starts = np.concatenate([[0], np.cumsum([n for _, n, _ in scans])]).tolist()
+    out = [np.empty(starts[-1], dtype=np.float64) for _ in range(n_columns)]
+    rows = _map(_read_part, [(raw, a, b, n_columns, scan.has_comments, out, r0, n)
+                             for (a, b), r0, (_, n, _) in zip(spans, starts, scans)], threads)
+    if any(r is None for r in rows):
+        return None, None
+    total = sum(rows)
+    if total != starts[-1]:
+        pos = rows[0]
+        for r0, k in zip(starts[1:-1], rows[1:]):
+            if r0 != pos:
+                for col in out:
+                    col[pos:pos + k] = col[r0:r0 + k]        # overlap-safe in numpy
+            pos += k
+        out = [_shrunk(col, total) for col in out]
+    return out, tokens
 
 
-def _join_columns(frames, n_columns: int) -> list[np.ndarray]:
-    """One contiguous writable float64 array per column from the frames of the parts."""
-    if len(frames) == 1:
-        # column by column, no interleaved copy of the whole table
-        return [_writable(frames[0][i].to_numpy(dtype=np.float64)) for i in range(n_columns)]
-    rows = sum(len(f) for f in frames)
-    block = [np.empty(rows, dtype=np.float64) for _ in range(n_columns)]
-
-    def fill(i: int) -> None:
-        pos = 0
-        for f in frames:
-            part = f[i].to_numpy(dtype=np.float64)
-            block[i][pos:pos + part.size] = part
-            pos += part.size
-
-    from concurrent.futures import ThreadPoolExecutor
-
-    with ThreadPoolExecutor(max_workers=min(len(frames), n_columns)) as pool:
-        list(pool.map(fill, range(n_columns)))
-    return block
+def _shrunk(col: np.ndarray, n: int) -> np.ndarray:
+    """The first ``n`` values of ``col`` as an array of its own (in place where possible)."""
+    try:
+        col.resize(n, refcheck=False)
+        return col
+    except ValueError:
+        return col[:n].copy()
 
 
 def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
@@ -370,44 +439,27 @@ def parse_data_section(raw: bytes, offset: int, n_columns: int, scan: DataScan
     tokens = scan.tokens
     try:
         try:
-            frames, tokens = _read_parts(raw, offset, n_columns, scan)
-            if frames is None:
+            block, tokens = _read_parts(raw, offset, n_columns, scan)
+            if block is None:
                 return None
             texts: list[TextReport] = []
-            block = None
         except ValueError as exc:
             if isinstance(exc, ParserError):
                 return None
-            if tokens is None:
-                tokens = _count_tokens(raw, offset, len(raw))
-                if tokens is None:
+            if not scan.checked:
+                scan = scan_data_section(raw, offset)        # the full check (rare path)
+                if scan is None:
                     return None
-                tokens -= scan.comment_tokens
+            tokens = scan.tokens
             block, texts = _read_with_text(raw, offset, n_columns, scan)
             if block is None:
                 return None
-            frames = None
     except (ParserError, UnicodeDecodeError, OverflowError, MemoryError):
         return None
-    if frames is not None:
-        if any(f.shape[1] != n_columns for f in frames):
-            return None
-        block = _join_columns(frames, n_columns)
-        del frames
     rows = len(block[0]) if len(block) else 0
     if rows == 0 or rows * n_columns != tokens:
         return None
     return block, texts
-
-
-def _writable(a: np.ndarray) -> np.ndarray:
-    """``a`` made writable without a copy where numpy allows it (the frame is dropped)."""
-    if not a.flags.writeable:
-        try:
-            a.flags.writeable = True
-        except ValueError:
-            a = a.copy()
-    return a
 
 
 def _read_with_text(raw: bytes, offset: int, n_columns: int, scan: DataScan):
