@@ -12,6 +12,14 @@ for the header sections only and hands the ``~A`` section to the functions here:
   curve) and returns ``None`` whenever the result could differ from lasio's, so
   the caller falls back to lasio for that file.
 
+For speed (issue 7) :func:`read_las` calls :func:`scan_data_section` with
+``count=False`` and :func:`parse_data_section` does the byte checks itself: a
+large section is cut at line starts into parts (one per free CPU, see
+:func:`_threads`); each part is first scanned (bytes checked, tokens and lines
+counted) and then parsed in steps of :data:`ROWS_PER_STEP` rows written straight
+into one preallocated float64 array per curve, the parts in threads (numpy and
+pandas' tokenizer release the GIL). The result is that of one read in file order.
+
 The fast path takes a data section only when it is plain: ASCII printable
 characters, blanks, tabs and line ends (LF or CRLF); no quotes, commas or ``~``;
 ``#`` only at the start of a line (a whole-line comment, as lasio skips it).
