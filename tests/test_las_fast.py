@@ -356,19 +356,23 @@ def test_cuts_fall_on_line_starts():
 ])
 def test_parts_give_the_same_well(tmp_path, monkeypatch, rows, fast, parts):
     # reference: the lasio path (read_las engine="lasio"), as everywhere in this file
+    import threading
+
     calls = []
     real = las_fast._scan_part
 
     def spy(*args, **kwargs):
-        calls.append(args[1:3])
+        calls.append(threading.current_thread() is threading.main_thread())
         return real(*args, **kwargs)
 
     monkeypatch.setattr(las_fast, "_n_parts", lambda size: parts)
     monkeypatch.setattr(las_fast, "_scan_part", spy)
     monkeypatch.setattr(las_fast, "ROWS_PER_STEP", 3)      # several parser steps per part
+    monkeypatch.setattr(las_fast, "_threads", lambda: 2)   # threads whatever the machine load
     path = write(tmp_path, las(rows))
     check(path, fast)
     assert len(calls) >= parts                      # the section was really cut
+    assert not all(calls)                           # ... and scanned in threads
 
 
 @pytest.mark.parametrize("chunk", [1, 2, 3, 7, 64])
@@ -380,3 +384,12 @@ def test_token_count_across_chunk_edges(monkeypatch, chunk):
     assert las_fast._count_tokens(b"~A\n1 2\r3\n", 3, 9) is None          # lone CR
     assert las_fast._count_tokens(b"~A\n1 2\r", 3, 7) is None              # CR at the end
     assert las_fast._count_tokens(b"~A\n1 \x7f\n", 3, 7) is None           # DEL byte
+
+
+def test_threads_follow_the_load(monkeypatch):
+    monkeypatch.setattr(las_fast.os, "sched_getaffinity", lambda pid: {0, 1}, raising=False)
+    monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (0.9, 0.0, 0.0))
+    assert las_fast._threads() == 2                 # one core free besides this process
+    monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (2.8, 0.0, 0.0))
+    assert las_fast._threads() == 1                 # both cores busy: no second thread
+    assert las_fast._n_parts(1 << 30) == 1
