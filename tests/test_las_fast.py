@@ -324,3 +324,72 @@ def test_random_layouts(tmp_path):
         fast += expect_fast
         check(p, expect_fast)
     assert fast >= 20
+
+
+# ---------------------------------------------------------------------------
+# a data section read in parts (threads), as large files are
+# ---------------------------------------------------------------------------
+
+def test_cuts_fall_on_line_starts():
+    raw = b"~A\n" + b"".join(b"%d 1 2\n" % i for i in range(50))
+    for parts in (1, 2, 3, 7):
+        cuts = las_fast._cuts(raw, 3, parts)
+        assert cuts[0] == 3 and cuts[-1] == len(raw) and cuts == sorted(set(cuts))
+        assert all(raw[c - 1:c] == b"\n" for c in cuts[1:-1])
+        assert len(cuts) - 1 == parts
+
+
+@pytest.mark.parametrize("parts", [2, 3, 4])
+@pytest.mark.parametrize("rows,fast", [
+    ("".join(f"{1000 + 0.5 * i} {i % 7}.25 0.{i % 9}1 {i * 3}\n" for i in range(40)), True),
+    ("".join(f"{1000 + 0.5 * i} 45 -999.25 1\r\n" for i in range(40)), True),        # CRLF
+    ("# head\n" + "".join(f"{1000 + 0.5 * i} 1 2 3\n#c {i}\n\n" for i in range(30)), True),
+    ("".join(f"{1000 + 0.5 * i} 1 2 3\n" for i in range(40)) + "1020.0 5 6 7", True),  # no last LF
+    ("".join(f"{1000 + 0.5 * i} 1 2 3\n" for i in range(10)) + "\n" * 300, True),   # blank tail
+    ("1000 1 2 3\n" + "#" * 600 + "\n" + "1000.5 4 5 6\n", True),          # long comment
+    ("".join(f"{1000 + 0.5 * i} 1 {'x' if i == 33 else 2} 3\n" for i in range(40)), True),  # text
+    ("".join(f"{1000 + 0.5 * i} 1 2 3{' 9' if i == 35 else ''}\n" for i in range(40)), False),
+    ("".join(f"{1000 + 0.5 * i} 1 2{'' if i == 36 else ' 3'}\n" for i in range(40)), False),
+    ("".join(f"{1000 + 0.5 * i} 1 2 3 9\n" for i in range(20))                    # long rows,
+     + "".join(f"{1010 + 0.5 * i} 1 2\n" for i in range(20)), False),             # then short
+    ("".join(f"{1000 + 0.5 * i} 1 2 3\n" for i in range(38)) + "1019 1 2 \u00e9\n", False),
+])
+def test_parts_give_the_same_well(tmp_path, monkeypatch, rows, fast, parts):
+    # reference: the lasio path (read_las engine="lasio"), as everywhere in this file
+    import threading
+
+    calls = []
+    real = las_fast._scan_part
+
+    def spy(*args, **kwargs):
+        calls.append(threading.current_thread() is threading.main_thread())
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(las_fast, "_n_parts", lambda size: parts)
+    monkeypatch.setattr(las_fast, "_scan_part", spy)
+    monkeypatch.setattr(las_fast, "ROWS_PER_STEP", 3)      # several parser steps per part
+    monkeypatch.setattr(las_fast, "_threads", lambda: 2)   # threads whatever the machine load
+    path = write(tmp_path, las(rows))
+    check(path, fast)
+    assert len(calls) >= parts                      # the section was really cut
+    assert not all(calls)                           # ... and scanned in threads
+
+
+@pytest.mark.parametrize("chunk", [1, 2, 3, 7, 64])
+def test_token_count_across_chunk_edges(monkeypatch, chunk):
+    # reference: bytes.split() (Python's own whitespace split) on the same text
+    monkeypatch.setattr(las_fast, "_CHUNK", chunk)
+    raw = b"~A\n 1 22\t333\r\n4  55\r\n\r\n 6 7 8\r\n9"
+    assert las_fast._count_tokens(raw, 3, len(raw)) == len(raw[3:].split())
+    assert las_fast._count_tokens(b"~A\n1 2\r3\n", 3, 9) is None          # lone CR
+    assert las_fast._count_tokens(b"~A\n1 2\r", 3, 7) is None              # CR at the end
+    assert las_fast._count_tokens(b"~A\n1 \x7f\n", 3, 7) is None           # DEL byte
+
+
+def test_threads_follow_the_load(monkeypatch):
+    monkeypatch.setattr(las_fast.os, "sched_getaffinity", lambda pid: {0, 1}, raising=False)
+    monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (0.9, 0.0, 0.0))
+    assert las_fast._threads() == 2                 # one core free besides this process
+    monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (2.8, 0.0, 0.0))
+    assert las_fast._threads() == 1                 # both cores busy: no second thread
+    assert las_fast._n_parts(1 << 30) == 1

@@ -305,22 +305,26 @@ def _replace_nulls(columns: list[np.ndarray], names: list[str], header_null: flo
     labels.append(f"magnitude >= {HUGE_NULL:g}")
     codes = [code for code in EXTRA_NULL_CODES if code != header_null]
     counts = np.zeros((len(labels), len(columns)), dtype=np.int64)
-    top = max(codes, default=-np.inf)                # the codes are looked for below this
+    # every value to replace is at most `top` or at least HUGE_NULL: one pass over a
+    # curve finds these few candidates, and only they are looked at further
+    top = max(codes + ([header_null] if header_null is not None else []) + [-HUGE_NULL])
     for i, col in enumerate(columns):
-        if header_null is not None:
-            col[col == header_null] = np.nan
         with np.errstate(invalid="ignore"):
-            low = np.flatnonzero(col <= top)
-            big = np.abs(col) >= HUGE_NULL
-        if low.size:
-            sub = col[low]
-            for j, code in enumerate(codes):
-                hit = low[sub == code]
-                counts[j, i] = hit.size
-                col[hit] = np.nan
+            cand = np.flatnonzero((col <= top) | (col >= HUGE_NULL))
+        if cand.size == 0:
+            continue
+        sub = col[cand]
+        if header_null is not None:
+            sub[sub == header_null] = np.nan
+        for j, code in enumerate(codes):
+            hit = sub == code
+            counts[j, i] = np.count_nonzero(hit)
+            sub[hit] = np.nan
+        with np.errstate(invalid="ignore"):
+            big = np.abs(sub) >= HUGE_NULL
         counts[-1, i] = np.count_nonzero(big)
-        if counts[-1, i]:
-            col[big] = np.nan
+        sub[big] = np.nan
+        col[cand] = sub
     warnings: list[str] = []
     null_text = _num(header_null) if header_null is not None else "not given"
     for label, per_curve in zip(labels, counts):
@@ -640,7 +644,8 @@ def _parse_fast(path: Path, data: bytes) -> _RawLas | None:
         t = line.strip()
         if t.startswith("~") and (t[:2] == "~A" or "_Data" in t or "~Log_" in t):
             return None
-    scan = las_fast.scan_data_section(data, end)
+    # the quick checks now; the byte checks and token count run beside the parser
+    scan = las_fast.scan_data_section(data, end, count=False)
     if scan is None:
         return None
     with _lasio_messages() as messages:
