@@ -61,6 +61,9 @@ class ReaderCase:
     support_files : dict
         File name -> text of files the reader needs beside the file under test
         (e.g. the LAS file a project file names).
+    same_values : dict
+        Name -> :data:`Mutation` that changes only the form of a valid file (line
+        ends, byte-order mark, blanks): the result must pass ``check_valid``.
     """
 
     name: str
@@ -71,6 +74,7 @@ class ReaderCase:
     check_loaded: Callable[[Any], None]
     mutations: Mapping[str, Mutation] = field(default_factory=dict)
     support_files: Mapping[str, str] = field(default_factory=dict)
+    same_values: Mapping[str, Mutation] = field(default_factory=dict)
 
 
 READERS: dict[str, ReaderCase] = {}
@@ -654,3 +658,9 @@ def fuzz_examples(n_ci: int) -> int:
     import os
 
     return n_ci * (20 if os.environ.get("SATHEIGHT_FUZZ") == "long" else 1)
+
+
+# --------------------------------------------------------------------------------------
+# CSV readers (survey, tops, core data, pressure points): registered by their module
+
+import fuzz_tables  # noqa: E402,F401

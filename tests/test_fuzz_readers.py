@@ -13,6 +13,7 @@ from fuzzkit import READERS, fuzz_examples, load_cleanly, write_case
 
 CASES = list(READERS.values())
 MUTATIONS = [(c, m) for c in CASES for m in c.mutations]
+SAME = [(c, m) for c in CASES for m in c.same_values]
 
 
 @pytest.fixture(scope="module")
@@ -51,3 +52,18 @@ def test_mutated_files_load_or_fail_cleanly(case, mutation, workdir, data):
     result, error = load_cleanly(case.load, path)
     if error is None:
         case.check_loaded(result)
+
+
+@pytest.mark.parametrize("case,mutation", SAME, ids=[f"{c.name}-{m}" for c, m in SAME])
+@settings(max_examples=fuzz_examples(40))
+@given(data=st.data())
+def test_form_changes_keep_the_values(case, mutation, workdir, data):
+    """Line ends, byte-order mark, blanks, letter case: the same values and line numbers."""
+    content, expected = data.draw(case.valid, label="valid file")
+    text = content if isinstance(content, str) else content.decode("utf-8")
+    path = workdir / case.name / f"same{case.suffix}"
+    write_case(path, case.same_values[mutation](text, data))
+    result, error = load_cleanly(case.load, path)
+    assert error is None, f"a valid file in another form was refused: {error}"
+    case.check_loaded(result)
+    case.check_valid(result, expected)

@@ -81,7 +81,20 @@ class Table:
                                  hint="write a plain number such as 1234.5")
         out = np.full(cells.size, np.nan)
         out[ok] = np.array([float(c) for c in cells[ok]], dtype=float)
+        huge = np.isinf(out)
+        if np.any(huge):
+            k = int(np.argmax(huge))
+            raise InputFileError(f"column {self.original[i]!r} holds {cells[k]!r}, too large a number",
+                                 where=f"{self.path}, line {int(self.lines[k])}",
+                                 hint="write a number below 1e308")
         return out
+
+    def first_number(self, i: int) -> float:
+        """Column ``i`` on the first data row only (the other rows are not read); errors as
+        :meth:`numbers`; a blank cell gives NaN."""
+        first = Table(self.path, self.names, self.units, self.rows[:1], self.lines[:1],
+                      self.header_line, self.original)
+        return float(first.numbers(i, allow_blank=True)[0])
 
 
 def read_table(path, what: str) -> Table:
