@@ -76,6 +76,9 @@ class ReaderCase:
     support_files: Mapping[str, str] = field(default_factory=dict)
     same_values: Mapping[str, Mutation] = field(default_factory=dict)
 
+    def __repr__(self) -> str:                  # short test ids and failure reports
+        return f"ReaderCase({self.name!r})"
+
 
 READERS: dict[str, ReaderCase] = {}
 

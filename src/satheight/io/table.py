@@ -14,7 +14,6 @@ Layout (our own):
 from __future__ import annotations
 
 import csv
-import io
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -130,7 +129,13 @@ def read_table(path, what: str) -> Table:
     if not kept:
         raise InputFileError(f"the {what} file has no header row", where=str(p),
                              hint="the first line that is not a comment names the columns")
-    cells = list(csv.reader(io.StringIO("\n".join(ln for _, ln in kept))))
+    cells = []
+    for n, ln in kept:                     # one row per line, whatever the quotes
+        try:
+            cells.append(next(csv.reader([ln]), []))
+        except csv.Error as exc:
+            raise InputFileError(f"cannot read the line as CSV: {exc}", where=f"{p}, line {n}",
+                                 hint="check quotes and very long cells") from None
     numbers = [n for n, _ in kept]
     header_line = numbers[0]
     original = [c.strip() for c in cells[0]]
