@@ -115,7 +115,7 @@ def _named(draw, name, unit, style):
 
 @st.composite
 def valid_survey_files(draw):
-    n = draw(st.integers(1, 25))
+    n = draw(st.integers(1, 15))
     md_unit = draw(st.sampled_from(["m", "ft", "M", "FT", "feet"]))
     f_md = 1.0 if md_unit.lower() in ("m",) else FT
     ang_unit = draw(st.sampled_from(["", "deg", "rad", "DEG"]))
@@ -538,7 +538,7 @@ def check_single_sane(result):
 def valid_pressure_files(draw):
     from satheight.io.pressures import FLUIDS, QUALITIES
 
-    n = draw(st.integers(1, 20))
+    n = draw(st.integers(1, 12))
     depth_cols = draw(st.sampled_from([("tvdss",), ("md",), ("tvdss", "md")]))
     d_unit = {c: draw(st.sampled_from(["m", "ft", "M", "FT"])) for c in depth_cols}
     p_unit = draw(st.sampled_from(sorted(PRESSURE)))
@@ -901,7 +901,7 @@ def _cases():
     for name, load, valid, check_valid, check_loaded in specs:
         register(ReaderCase(name=name, suffix=".csv", load=located(load), valid=valid,
                             check_valid=check_valid, check_loaded=check_loaded,
-                            mutations=CSV_MUTATIONS, same_values=SAME_VALUES))
+                            mutations=CSV_MUTATIONS, same_values=SAME_VALUES, light=True))
 
 
 _cases()

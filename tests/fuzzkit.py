@@ -64,6 +64,9 @@ class ReaderCase:
     same_values : dict
         Name -> :data:`Mutation` that changes only the form of a valid file (line
         ends, byte-order mark, blanks): the result must pass ``check_valid``.
+    light : bool
+        Fewer examples per test (``tests/test_fuzz_readers.py``): for readers with
+        many mutations whose files are cheap.
     """
 
     name: str
@@ -75,6 +78,7 @@ class ReaderCase:
     mutations: Mapping[str, Mutation] = field(default_factory=dict)
     support_files: Mapping[str, str] = field(default_factory=dict)
     same_values: Mapping[str, Mutation] = field(default_factory=dict)
+    light: bool = False
 
     def __repr__(self) -> str:                  # short test ids and failure reports
         return f"ReaderCase({self.name!r})"
