@@ -181,6 +181,8 @@ def _read_text(path: Path) -> str:
 
 def _number(text: str, where: str, what: str) -> float:
     try:
+        if "_" in text:                      # Python reads "1_000" as 1000; a CSV number has no "_"
+            raise ValueError(text)
         v = float(text)
     except ValueError:
         raise InputFileError(f"{what} {text!r} is not a number", where=where,

@@ -187,6 +187,8 @@ def read_pressure_points(path) -> PressurePoints:
                     raise InputFileError(f"column {col!r} is empty", where=where)
                 return math.nan
             try:
+                if "_" in t:                 # Python reads "1_000" as 1000; a CSV number has no "_"
+                    raise ValueError(t)
                 v = float(t)
             except ValueError:
                 raise InputFileError(f"column {col!r}: {t!r} is not a number", where=where,
