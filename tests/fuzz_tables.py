@@ -30,8 +30,9 @@ from satheight.errors import SatHeightError
 FT = 0.3048                                  # NIST SP 811: 1 ft = 0.3048 m (exact)
 DEG = math.pi / 180                          # definition of the degree
 PSI = 0.45359237 * 9.80665 / 0.0254 ** 2     # NIST SP 811: 1 lbf/in^2 (lb, g_n, in exact)
-PRESSURE = {"psi": PSI, "psia": PSI, "Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": 1e5,  # SI prefixes; 1 bar = 1e5 Pa (NIST SP 811)
-            "atm": 101325.0}                 # NIST SP 811: 1 atm = 101 325 Pa (exact)
+# SI prefixes; NIST SP 811: 1 bar = 1e5 Pa, 1 atm = 101 325 Pa (both exact)
+PRESSURE = {"psi": PSI, "psia": PSI, "Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": 1e5,
+            "atm": 101325.0}
 MILLIDARCY = 9.869233e-16                    # NIST SP 811 Appendix B: 1 darcy = 9.869233e-13 m^2
 G_CM3 = 1000.0                               # SI prefixes: 1 g/cm3 = 1000 kg/m3
 
@@ -102,7 +103,7 @@ def _layout(draw, body_rows, header, units_row=None):
     return "\n".join(lines) + "\n", numbers
 
 
-def _named(draw, name, unit, style):
+def _named(name, unit, style):
     """Header cell: name with the unit in [..] or (..) or none (unit given elsewhere)."""
     if not unit or style == "none":
         return name
@@ -142,7 +143,7 @@ def valid_survey_files(draw):
         cols.append(("note", "comment", ""))
     order = draw(st.permutations(range(len(cols))))
     cols = [cols[i] for i in order]
-    header = ",".join(_named(draw, name, unit, "none" if style == "row" else style)
+    header = ",".join(_named(name, unit, "none" if style == "row" else style)
                       for _, name, unit in cols)
     units_row = ",".join(unit for _, _, unit in cols) if style == "row" else None
     rows = []
@@ -215,7 +216,7 @@ def valid_tops_files(draw):
         cols.append(("note", "source", ""))
     order = draw(st.permutations(range(len(cols))))
     cols = [cols[i] for i in order]
-    header = ",".join(_named(draw, name, u, "none" if style == "row" else style)
+    header = ",".join(_named(name, u, "none" if style == "row" else style)
                       for _, name, u in cols)
     units_row = ",".join(u for _, _, u in cols) if style == "row" else None
     rows, exp = [], []
