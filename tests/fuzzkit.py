@@ -61,6 +61,12 @@ class ReaderCase:
     support_files : dict
         File name -> text of files the reader needs beside the file under test
         (e.g. the LAS file a project file names).
+    same_values : dict
+        Name -> :data:`Mutation` that changes only the form of a valid file (line
+        ends, byte-order mark, blanks): the result must pass ``check_valid``.
+    light : bool
+        Fewer examples per test (``tests/test_fuzz_readers.py``): for readers with
+        many mutations whose files are cheap.
     """
 
     name: str
@@ -71,6 +77,11 @@ class ReaderCase:
     check_loaded: Callable[[Any], None]
     mutations: Mapping[str, Mutation] = field(default_factory=dict)
     support_files: Mapping[str, str] = field(default_factory=dict)
+    same_values: Mapping[str, Mutation] = field(default_factory=dict)
+    light: bool = False
+
+    def __repr__(self) -> str:                  # short test ids and failure reports
+        return f"ReaderCase({self.name!r})"
 
 
 READERS: dict[str, ReaderCase] = {}
@@ -656,3 +667,9 @@ def fuzz_examples(n_ci: int) -> int:
     import os
 
     return n_ci * (20 if os.environ.get("SATHEIGHT_FUZZ") == "long" else 1)
+
+
+# --------------------------------------------------------------------------------------
+# CSV readers (survey, tops, core data, pressure points): registered by their module
+
+import fuzz_tables  # noqa: E402,F401

@@ -403,3 +403,32 @@ def test_permeability_plotted_in_millidarcy():
     assert len(lines) == 1
     k_md = np.asarray(lines[0].get_xdata(), dtype=float)
     np.testing.assert_allclose(k_md, res.k / MD_IN_M2, rtol=1e-12)
+
+
+def test_every_figure_file_is_fsynced_through_atomic(tmp_path, monkeypatch):
+    """Figures go through io/atomic.py: each written file is fsynced before its rename."""
+    import stat
+
+    from satheight import contact_plots, core_plots
+    from satheight.io import atomic
+
+    synced = []
+    real_fsync = os.fsync
+
+    def counting_fsync(fd):
+        if stat.S_ISREG(os.fstat(fd).st_mode):       # files, not the folder fsync after a rename
+            synced.append(fd)
+        return real_fsync(fd)
+
+    monkeypatch.setattr(atomic.os, "fsync", counting_fsync)
+    png, pdf = tmp_path / "w.png", tmp_path / "w.pdf"
+    plots.track_plot(make_result(), png, pdf_path=pdf)
+    assert len(synced) == 2
+    fig = Figure()
+    fig.add_subplot().plot([0, 1], [1, 0])
+    for save in (core_plots._save, contact_plots._save):
+        before = len(synced)
+        save(fig, tmp_path / "x.png")
+        assert len(synced) == before + 1
+    assert (tmp_path / "x.png").read_bytes()[:8] == PNG_SIGNATURE
+    assert sorted(os.listdir(tmp_path)) == ["w.pdf", "w.png", "x.png"]

@@ -20,7 +20,7 @@ from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from .contacts import FwlSearch
-from .io.atomic import atomic_open
+from .io.atomic import atomic_save_figure
 from .pressures import ZonePressures
 from .units import UNIT_SYSTEMS, factor
 
@@ -38,8 +38,7 @@ def _save(fig: Figure, path) -> Path:
     p = Path(path)
     fmt = p.suffix.lstrip(".").lower() or "png"
     FigureCanvasAgg(fig)
-    with atomic_open(p, "wb") as f:
-        fig.savefig(f, format=fmt, dpi=DPI)
+    atomic_save_figure(fig, [(p, fmt)], dpi=DPI)
     return p
 
 

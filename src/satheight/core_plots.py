@@ -22,7 +22,7 @@ from matplotlib.figure import Figure
 
 from . import constants as C
 from .core import CorePoints
-from .io.atomic import atomic_open
+from .io.atomic import atomic_save_figure
 from .models import get_family
 
 __all__ = ["j_sw_plot", "pc_plot"]
@@ -41,8 +41,7 @@ def _colours(names):
 def _save(fig: Figure, path: Path) -> Path:
     path = Path(path)
     FigureCanvasAgg(fig)
-    with atomic_open(path, "wb") as f:
-        fig.savefig(f, format=path.suffix.lstrip(".") or "png", dpi=DPI)
+    atomic_save_figure(fig, [(path, path.suffix.lstrip(".") or "png")], dpi=DPI)
     return path
 
 

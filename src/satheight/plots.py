@@ -14,8 +14,6 @@ a temporary file in the target folder and renamed into place.
 
 from __future__ import annotations
 
-import os
-import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Callable
@@ -29,6 +27,7 @@ from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullForma
 
 from . import constants as C
 from .errors import DepthError, InputFileError, SatHeightError, UnitError
+from .io.atomic import atomic_save_figure
 from .results import FLAG_NO_ZONE, WellResult
 from .units import UNIT_SYSTEMS, factor
 
@@ -597,29 +596,12 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
 
 
 def _save_atomic(fig: Figure, targets: list[tuple[Path, str]]) -> list[Path]:
-    """Save ``fig`` to each (path, format) through temp files, then rename all into place.
+    """Save ``fig`` to each (path, format) through :func:`satheight.io.atomic.atomic_save_figure`.
 
-    Every temp file sits in its target's folder, named ``.<name>.<random>.<fmt>``.
-    If any save fails, every temp file is removed and the targets are untouched.
+    Every target gets a flushed and fsynced temp file in its folder; all are renamed into
+    place only after all saved. If any save fails, the targets are untouched.
     """
-    temps: list[tuple[str, Path]] = []
-    try:
-        for path, fmt in targets:
-            fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=f".{fmt}",
-                                       dir=path.parent)
-            os.close(fd)
-            temps.append((tmp, path))
-            fig.savefig(tmp, format=fmt, dpi=DPI)
-        for tmp, path in temps:
-            os.replace(tmp, path)
-    except BaseException:
-        for tmp, _ in temps:
-            try:
-                os.remove(tmp)
-            except FileNotFoundError:
-                pass
-        raise
-    return [path for _, path in temps]
+    return atomic_save_figure(fig, targets, dpi=DPI)
 
 
 def _target(path, fmt: str, key: str) -> Path:

@@ -18,7 +18,7 @@ from typing import IO, Iterator
 
 from ..errors import InputFileError, SatHeightError
 
-__all__ = ["atomic_open", "atomic_write_text", "atomic_write_bytes"]
+__all__ = ["atomic_open", "atomic_write_text", "atomic_write_bytes", "atomic_save_figure"]
 
 _WRITE_MODES = {"w": False, "wt": False, "tw": False, "wb": True, "bw": True}
 
@@ -151,3 +151,44 @@ def atomic_write_bytes(path, data: bytes) -> None:
     """Write ``data`` to ``path`` atomically (see :func:`atomic_open`)."""
     with atomic_open(path, "wb") as f:
         f.write(data)
+
+
+def atomic_save_figure(fig, targets, **savefig_kwargs) -> list[Path]:
+    """Save a matplotlib figure to one or more files atomically (see :func:`atomic_open`).
+
+    Every file is written to its own temporary file (flushed and fsynced); the
+    renames onto the targets happen only after *all* of them were saved, so a
+    failure in any save leaves every target as it was and no temporary file behind.
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+        The figure (with a canvas that can render the formats asked for, e.g. Agg).
+    targets : sequence of path or of (path, format)
+        Output files; a bare path takes its format from its ending (``png`` when none).
+    **savefig_kwargs
+        Passed to :meth:`~matplotlib.figure.Figure.savefig` (e.g. ``dpi``).
+
+    Returns
+    -------
+    list[pathlib.Path]
+        The files written, in the order given.
+
+    Raises
+    ------
+    InputFileError
+        A temporary file cannot be created, written or renamed.
+    """
+    pairs = []
+    for t in targets:
+        if isinstance(t, (tuple, list)):
+            p, fmt = Path(t[0]), str(t[1])
+        else:
+            p = Path(t)
+            fmt = p.suffix.lstrip(".").lower() or "png"
+        pairs.append((p, fmt))
+    with contextlib.ExitStack() as stack:       # leaving it renames every file, or none on error
+        for p, fmt in pairs:
+            f = stack.enter_context(atomic_open(p, "wb"))
+            fig.savefig(f, format=fmt, **savefig_kwargs)
+    return [p for p, _ in pairs]

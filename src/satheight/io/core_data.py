@@ -47,7 +47,6 @@ Every error names the file and the row (file line, counting from 1).
 from __future__ import annotations
 
 import csv
-import io
 import re
 from pathlib import Path
 
@@ -86,9 +85,8 @@ class _Table:
         self.meta: dict[str, tuple[str, int]] = {}
         rows: list[tuple[int, list[str]]] = []
         header = None
-        reader = csv.reader(io.StringIO(text))
-        for fields in reader:
-            line = reader.line_num
+        for line, raw in enumerate(text.splitlines(), start=1):   # any line ends; one row per line
+            fields = _csv_cells(raw, f"{path}, row {line}")
             if not fields or all(not f.strip() for f in fields):
                 continue
             first = fields[0].lstrip()
@@ -107,6 +105,10 @@ class _Table:
                                  hint="the first non-comment line must name the columns, "
                                       "e.g. plug,pc [psi],snw [%]")
         self.header_line = header[0]
+        if not rows:
+            raise InputFileError("the file has a header but no data rows",
+                                 where=f"{path}, row {self.header_line}",
+                                 hint="add one row per pressure step or plug below the header")
         self.columns: dict[str, tuple[int, str]] = {}   # canonical -> (index, unit)
         self.other: dict[str, int] = {}
         for i, h in enumerate(header[1]):
@@ -153,6 +155,15 @@ class _Table:
         return self.columns[name][1]
 
 
+def _csv_cells(raw: str, where: str) -> list[str]:
+    """Cells of one CSV line; a line the csv module refuses is an error naming ``where``."""
+    try:
+        return next(csv.reader([raw]), [])
+    except csv.Error as exc:
+        raise InputFileError(f"cannot read the line as CSV: {exc}", where=where,
+                             hint="check quotes and very long cells") from None
+
+
 def _read_text(path: Path) -> str:
     try:
         raw = Path(path).read_bytes()
@@ -170,12 +181,23 @@ def _read_text(path: Path) -> str:
 
 def _number(text: str, where: str, what: str) -> float:
     try:
+        if "_" in text:                      # Python reads "1_000" as 1000; a CSV number has no "_"
+            raise ValueError(text)
         v = float(text)
     except ValueError:
         raise InputFileError(f"{what} {text!r} is not a number", where=where,
                              hint="write a plain number; the unit goes in the column header") from None
     if not np.isfinite(v):
         raise InputFileError(f"{what} {text!r} is not a finite number", where=where)
+    return v
+
+
+def _in_si(value: float, factor: float, where: str, what: str, text: str) -> float:
+    """``value * factor``; a result too large for a float is an error naming ``where``."""
+    v = value * factor
+    if not np.isfinite(v):
+        raise InputFileError(f"{what} {text!r} is too large after unit conversion", where=where,
+                             hint="check the number and the unit in the column header")
     return v
 
 
@@ -240,7 +262,7 @@ def _steps_from_rows(t: _Table, rows, plug_of, system_of, default_system):
         if not system:
             raise InputFileError("no lab fluid system for this step", where=where,
                                  hint="add a system column (e.g. mercury_air) or give a default")
-        pc = _number(t.cell(row, "pc"), where, "pc") * pf
+        pc = _in_si(_number(t.cell(row, "pc"), where, "pc"), pf, where, "pc", t.cell(row, "pc"))
         if not pc > 0:
             raise SatHeightError(f"capillary pressure {t.cell(row, 'pc')} is not positive",
                                  where=where, hint="drainage steps have Pc > 0")
@@ -291,24 +313,28 @@ def read_pressure_steps(path, default_system: str | None = None) -> list:
 
 def _plug_from(values: dict, where: str, units: dict, extra: dict) -> Plug:
     """values: canonical -> text; units: canonical -> unit text."""
-    def num(name):
-        return _number(values[name], where, name)
-    depth = num("depth") * _factor(units.get("depth", ""), "length", where, "depth")
-    phi = num("porosity") * _factor(units.get("porosity", ""), "fraction", where, "porosity",
-                                    default="frac")
+    def num(name, f=1.0):
+        return _in_si(_number(values[name], where, name), f, where, name, values[name])
+    depth = num("depth", _factor(units.get("depth", ""), "length", where, "depth"))
+    phi = num("porosity", _factor(units.get("porosity", ""), "fraction", where, "porosity",
+                                  default="frac"))
     if not 0 < phi < 1:
         raise SatHeightError(f"porosity {values['porosity']} is outside (0, 1) after unit "
                              "conversion", where=where,
                              hint="write a fraction, or mark the column as percent: porosity [%]")
-    k = num("permeability") * _factor(units.get("permeability", ""), "permeability", where,
-                                      "permeability", default="mD")
+    k = num("permeability", _factor(units.get("permeability", ""), "permeability", where,
+                                    "permeability", default="mD"))
     if not k > 0:
         raise SatHeightError(f"permeability {values['permeability']} is not positive", where=where,
                              hint="J needs k > 0")
     rho = None
     if values.get("grain_density"):
-        rho = num("grain_density") * _factor(units.get("grain_density", ""), "density", where,
-                                             "grain_density", default="g/cm3")
+        rho = num("grain_density", _factor(units.get("grain_density", ""), "density", where,
+                                           "grain_density", default="g/cm3"))
+        if not rho > 0:
+            raise SatHeightError(f"grain density {values['grain_density']} is not positive",
+                                 where=where, hint="give the grain density, e.g. 2.65 g/cm3, "
+                                                   "or leave the cell blank")
     rt = values.get("rock_type") or None
     return Plug(values["plug"], values.get("well", ""), depth, phi, k, rho, rt, extra, where)
 
@@ -358,6 +384,9 @@ def read_single_plug(path, default_system: str | None = None):
     p = Path(path)
     t = _Table(p)
     meta = t.meta
+    t.need("pc", what="single-plug table")
+    if "sw" not in t.columns and "snw" not in t.columns:
+        t.need("sw", what="single-plug table")
     plug_id = meta["plug"][0] if "plug" in meta else p.stem
     system = meta["system"][0] if "system" in meta else default_system
     curves = _steps_from_rows(t, t.rows, lambda r: plug_id, lambda r: system or "", default_system)

@@ -26,7 +26,6 @@ Every value is checked; errors name the file, the line and the column.
 from __future__ import annotations
 
 import csv
-import io
 import math
 import re
 from dataclasses import dataclass
@@ -84,6 +83,15 @@ class PressurePoints:
                               self.line[m])
 
 
+def _csv_cells(raw: str, where: str) -> list[str]:
+    """Cells of one CSV line; a line the csv module refuses is an error naming ``where``."""
+    try:
+        return next(csv.reader([raw]), [])
+    except csv.Error as exc:
+        raise InputFileError(f"cannot read the line as CSV: {exc}", where=where,
+                             hint="check quotes and very long cells") from None
+
+
 def read_pressure_points(path) -> PressurePoints:
     """Read a pressure-points CSV (layout in the module docstring).
 
@@ -122,7 +130,7 @@ def read_pressure_points(path) -> PressurePoints:
                              hint="the first non-comment line names the columns: "
                                   "well,tvdss [m],pressure [psi],fluid,quality")
     header_line, header_text = rows[0]
-    header = next(csv.reader(io.StringIO(header_text)))
+    header = _csv_cells(header_text, f"{p}, line {header_line}")
     cols: dict[str, tuple[int, str]] = {}
     for i, h in enumerate(header):
         m = _HEADER.match(h)
@@ -162,8 +170,8 @@ def read_pressure_points(path) -> PressurePoints:
 
     out = {k: [] for k in ("well", "tvdss", "md", "pressure", "fluid", "quality", "zone", "line")}
     for lineno, raw in rows[1:]:
-        cells = next(csv.reader(io.StringIO(raw)))
         where = f"{p}, line {lineno}"
+        cells = _csv_cells(raw, where)
         if len(cells) > len(header):
             raise InputFileError(f"{len(cells)} cells but {len(header)} columns", where=where,
                                  hint="check for a stray comma")
@@ -179,12 +187,17 @@ def read_pressure_points(path) -> PressurePoints:
                     raise InputFileError(f"column {col!r} is empty", where=where)
                 return math.nan
             try:
+                if "_" in t:                 # Python reads "1_000" as 1000; a CSV number has no "_"
+                    raise ValueError(t)
                 v = float(t)
             except ValueError:
                 raise InputFileError(f"column {col!r}: {t!r} is not a number", where=where,
                                      hint="write a plain number; the unit is in the header") from None
             if not math.isfinite(v):
                 raise InputFileError(f"column {col!r}: {t!r} is not a finite number", where=where)
+            if not math.isfinite(v * f):
+                raise InputFileError(f"column {col!r}: {t!r} is too large after unit conversion",
+                                     where=where, hint="check the number and the column's unit")
             return v * f
 
         well = cell("well")

@@ -186,7 +186,7 @@ def _read_csv(path: Path) -> Survey:
                 raise InputFileError(f"tie-in column {t.original[c]!r} is empty on the first station",
                                      where=f"{path}, line {int(t.lines[0])}",
                                      hint="give the first station's TVD (and NORTH, EAST), or remove the column")
-            vals.append(float(t.numbers(c, allow_blank=True)[0]) * f)
+            vals.append(t.first_number(c) * f)          # later rows are not read
         tie = (vals[0], vals[1], vals[2])
     _validate(md, inc, azi, path, labels)
     return Survey(md=md, inc=inc, azi=azi, tie_in=tie, source=path, labels=labels)

@@ -14,7 +14,6 @@ Layout (our own):
 from __future__ import annotations
 
 import csv
-import io
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -81,7 +80,20 @@ class Table:
                                  hint="write a plain number such as 1234.5")
         out = np.full(cells.size, np.nan)
         out[ok] = np.array([float(c) for c in cells[ok]], dtype=float)
+        huge = np.isinf(out)
+        if np.any(huge):
+            k = int(np.argmax(huge))
+            raise InputFileError(f"column {self.original[i]!r} holds {cells[k]!r}, too large a number",
+                                 where=f"{self.path}, line {int(self.lines[k])}",
+                                 hint="write a number below 1e308")
         return out
+
+    def first_number(self, i: int) -> float:
+        """Column ``i`` on the first data row only (the other rows are not read); errors as
+        :meth:`numbers`; a blank cell gives NaN."""
+        first = Table(self.path, self.names, self.units, self.rows[:1], self.lines[:1],
+                      self.header_line, self.original)
+        return float(first.numbers(i, allow_blank=True)[0])
 
 
 def read_table(path, what: str) -> Table:
@@ -117,7 +129,13 @@ def read_table(path, what: str) -> Table:
     if not kept:
         raise InputFileError(f"the {what} file has no header row", where=str(p),
                              hint="the first line that is not a comment names the columns")
-    cells = list(csv.reader(io.StringIO("\n".join(ln for _, ln in kept))))
+    cells = []
+    for n, ln in kept:                     # one row per line, whatever the quotes
+        try:
+            cells.append(next(csv.reader([ln]), []))
+        except csv.Error as exc:
+            raise InputFileError(f"cannot read the line as CSV: {exc}", where=f"{p}, line {n}",
+                                 hint="check quotes and very long cells") from None
     numbers = [n for n, _ in kept]
     header_line = numbers[0]
     original = [c.strip() for c in cells[0]]
