@@ -55,6 +55,7 @@ import numpy as np
 from .. import units as U
 from ..core import LAB_SYSTEMS, CoreDataset, Plug, make_curve, sha256_of
 from ..errors import InputFileError, SatHeightError, UnitError
+from .table import parse_number
 
 __all__ = ["read_pressure_steps", "read_plug_table", "read_single_plug", "read_core_files",
            "file_kind"]
@@ -180,16 +181,7 @@ def _read_text(path: Path) -> str:
 
 
 def _number(text: str, where: str, what: str) -> float:
-    try:
-        if "_" in text:                      # Python reads "1_000" as 1000; a CSV number has no "_"
-            raise ValueError(text)
-        v = float(text)
-    except ValueError:
-        raise InputFileError(f"{what} {text!r} is not a number", where=where,
-                             hint="write a plain number; the unit goes in the column header") from None
-    if not np.isfinite(v):
-        raise InputFileError(f"{what} {text!r} is not a finite number", where=where)
-    return v
+    return parse_number(text, what, where)
 
 
 def _in_si(value: float, factor: float, where: str, what: str, text: str) -> float:

@@ -36,6 +36,7 @@ import numpy as np
 from ..errors import InputFileError
 from ..units import factor
 from ..errors import UnitError
+from .table import parse_number
 
 FLUIDS = ("water", "oil", "gas", "unknown")
 QUALITIES = ("good", "fair", "poor", "bad")
@@ -186,15 +187,7 @@ def read_pressure_points(path) -> PressurePoints:
                 if required:
                     raise InputFileError(f"column {col!r} is empty", where=where)
                 return math.nan
-            try:
-                if "_" in t:                 # Python reads "1_000" as 1000; a CSV number has no "_"
-                    raise ValueError(t)
-                v = float(t)
-            except ValueError:
-                raise InputFileError(f"column {col!r}: {t!r} is not a number", where=where,
-                                     hint="write a plain number; the unit is in the header") from None
-            if not math.isfinite(v):
-                raise InputFileError(f"column {col!r}: {t!r} is not a finite number", where=where)
+            v = parse_number(t, f"column {col!r}:", where)
             if not math.isfinite(v * f):
                 raise InputFileError(f"column {col!r}: {t!r} is too large after unit conversion",
                                      where=where, hint="check the number and the column's unit")

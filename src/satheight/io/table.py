@@ -96,6 +96,25 @@ class Table:
         return float(first.numbers(i, allow_blank=True)[0])
 
 
+def parse_number(text: str, what: str, where: str) -> float:
+    """One CSV cell as a finite float, for readers that go row by row.
+
+    ``what`` starts the message (``"column 'pc':"``, ``"porosity"``), ``where`` names
+    the file and line. Text, ``nan``/``inf`` and Python-only spellings such as
+    ``1_000`` raise :class:`InputFileError`.
+    """
+    try:
+        if "_" in text:                      # Python reads "1_000" as 1000; a CSV number has no "_"
+            raise ValueError(text)
+        v = float(text)
+    except ValueError:
+        raise InputFileError(f"{what} {text!r} is not a number", where=where,
+                             hint="write a plain number; the unit goes in the column header") from None
+    if not np.isfinite(v):
+        raise InputFileError(f"{what} {text!r} is not a finite number", where=where)
+    return v
+
+
 def read_table(path, what: str) -> Table:
     """Read a CSV table with a header row (see the module docstring).
 
