@@ -46,7 +46,6 @@ Every error names the file and the row (file line, counting from 1).
 
 from __future__ import annotations
 
-import csv
 import re
 from pathlib import Path
 
@@ -55,7 +54,7 @@ import numpy as np
 from .. import units as U
 from ..core import LAB_SYSTEMS, CoreDataset, Plug, make_curve, sha256_of
 from ..errors import InputFileError, SatHeightError, UnitError
-from .table import parse_number
+from .table import csv_cells, parse_number, read_csv_text
 
 __all__ = ["read_pressure_steps", "read_plug_table", "read_single_plug", "read_core_files",
            "file_kind"]
@@ -82,12 +81,12 @@ class _Table:
     def __init__(self, path: Path, text: str | None = None):
         self.path = path
         if text is None:
-            text = _read_text(path)
+            text = read_csv_text(path, "core-data")
         self.meta: dict[str, tuple[str, int]] = {}
         rows: list[tuple[int, list[str]]] = []
         header = None
         for line, raw in enumerate(text.splitlines(), start=1):   # any line ends; one row per line
-            fields = _csv_cells(raw, f"{path}, row {line}")
+            fields = csv_cells(raw, f"{path}, row {line}")
             if not fields or all(not f.strip() for f in fields):
                 continue
             first = fields[0].lstrip()
@@ -154,30 +153,6 @@ class _Table:
 
     def unit(self, name: str) -> str:
         return self.columns[name][1]
-
-
-def _csv_cells(raw: str, where: str) -> list[str]:
-    """Cells of one CSV line; a line the csv module refuses is an error naming ``where``."""
-    try:
-        return next(csv.reader([raw]), [])
-    except csv.Error as exc:
-        raise InputFileError(f"cannot read the line as CSV: {exc}", where=where,
-                             hint="check quotes and very long cells") from None
-
-
-def _read_text(path: Path) -> str:
-    try:
-        raw = Path(path).read_bytes()
-    except FileNotFoundError:
-        raise InputFileError("file not found", where=str(path),
-                             hint="check the path and the current folder") from None
-    except OSError as exc:
-        raise InputFileError(f"cannot read the file: {exc.strerror or exc}", where=str(path)) from None
-    try:
-        return raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise InputFileError(f"the file is not UTF-8 text (bad byte at offset {exc.start})",
-                             where=str(path), hint="save it as UTF-8 CSV") from None
 
 
 def _number(text: str, where: str, what: str) -> float:

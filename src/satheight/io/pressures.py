@@ -25,7 +25,6 @@ Every value is checked; errors name the file, the line and the column.
 
 from __future__ import annotations
 
-import csv
 import math
 import re
 from dataclasses import dataclass
@@ -36,7 +35,7 @@ import numpy as np
 from ..errors import InputFileError
 from ..units import factor
 from ..errors import UnitError
-from .table import parse_number
+from .table import csv_cells, parse_number, read_csv_text
 
 FLUIDS = ("water", "oil", "gas", "unknown")
 QUALITIES = ("good", "fair", "poor", "bad")
@@ -84,15 +83,6 @@ class PressurePoints:
                               self.line[m])
 
 
-def _csv_cells(raw: str, where: str) -> list[str]:
-    """Cells of one CSV line; a line the csv module refuses is an error naming ``where``."""
-    try:
-        return next(csv.reader([raw]), [])
-    except csv.Error as exc:
-        raise InputFileError(f"cannot read the line as CSV: {exc}", where=where,
-                             hint="check quotes and very long cells") from None
-
-
 def read_pressure_points(path) -> PressurePoints:
     """Read a pressure-points CSV (layout in the module docstring).
 
@@ -112,14 +102,7 @@ def read_pressure_points(path) -> PressurePoints:
         unknown fluid or quality word: the message names file, line and column.
     """
     p = Path(path)
-    try:
-        text = p.read_text(encoding="utf-8-sig")
-    except FileNotFoundError:
-        raise InputFileError("pressure file not found", where=str(p),
-                             hint="check the path and the current folder") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputFileError(f"cannot read the pressure file: {exc}", where=str(p),
-                             hint="it must be UTF-8 text, comma separated") from None
+    text = read_csv_text(p, "pressure")
 
     rows = []
     for lineno, raw in enumerate(text.splitlines(), start=1):
@@ -131,7 +114,7 @@ def read_pressure_points(path) -> PressurePoints:
                              hint="the first non-comment line names the columns: "
                                   "well,tvdss [m],pressure [psi],fluid,quality")
     header_line, header_text = rows[0]
-    header = _csv_cells(header_text, f"{p}, line {header_line}")
+    header = csv_cells(header_text, f"{p}, line {header_line}")
     cols: dict[str, tuple[int, str]] = {}
     for i, h in enumerate(header):
         m = _HEADER.match(h)
@@ -172,7 +155,7 @@ def read_pressure_points(path) -> PressurePoints:
     out = {k: [] for k in ("well", "tvdss", "md", "pressure", "fluid", "quality", "zone", "line")}
     for lineno, raw in rows[1:]:
         where = f"{p}, line {lineno}"
-        cells = _csv_cells(raw, where)
+        cells = csv_cells(raw, where)
         if len(cells) > len(header):
             raise InputFileError(f"{len(cells)} cells but {len(header)} columns", where=where,
                                  hint="check for a stray comma")

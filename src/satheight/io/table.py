@@ -96,6 +96,35 @@ class Table:
         return float(first.numbers(i, allow_blank=True)[0])
 
 
+def read_csv_text(path, what: str) -> str:
+    """Text of a UTF-8 CSV file (a byte-order mark dropped), only read.
+
+    ``what`` names the kind of file in messages (``"survey"``, ``"pressure"``).
+    A missing, unreadable or non-UTF-8 file raises :class:`InputFileError` naming it.
+    """
+    p = Path(path)
+    try:
+        return p.read_bytes().decode("utf-8-sig")
+    except FileNotFoundError:
+        raise InputFileError(f"{what} file not found", where=str(p),
+                             hint="check the path (relative paths are relative to the project file)") from None
+    except UnicodeDecodeError as exc:
+        raise InputFileError(f"the {what} file is not UTF-8 text (bad byte at offset {exc.start})",
+                             where=str(p), hint="save it as UTF-8 CSV") from None
+    except OSError as exc:
+        raise InputFileError(f"cannot read the {what} file: {exc.strerror or exc}", where=str(p),
+                             hint="check that it is a readable file") from None
+
+
+def csv_cells(line: str, where: str) -> list[str]:
+    """Cells of one CSV line; a line the csv module refuses is an error naming ``where``."""
+    try:
+        return next(csv.reader([line]), [])
+    except csv.Error as exc:
+        raise InputFileError(f"cannot read the line as CSV: {exc}", where=where,
+                             hint="check quotes and very long cells") from None
+
+
 def parse_number(text: str, what: str, where: str) -> float:
     """One CSV cell as a finite float, for readers that go row by row.
 
@@ -131,30 +160,14 @@ def read_table(path, what: str) -> Table:
         Missing, unreadable or non-UTF-8 file; no header; no data rows.
     """
     p = Path(path)
-    try:
-        text = p.read_bytes().decode("utf-8-sig")
-    except FileNotFoundError:
-        raise InputFileError(f"{what} file not found", where=str(p),
-                             hint="check the path (relative paths are relative to the project file)") from None
-    except UnicodeDecodeError as exc:
-        raise InputFileError(f"the {what} file is not UTF-8 text (bad byte at offset {exc.start})",
-                             where=str(p), hint="save it as UTF-8 CSV") from None
-    except OSError as exc:
-        raise InputFileError(f"cannot read the {what} file: {exc.strerror or exc}", where=str(p),
-                             hint="check that it is a readable file") from None
+    text = read_csv_text(p, what)
     raw_lines = text.splitlines()
     kept = [(n, ln) for n, ln in enumerate(raw_lines, start=1)
             if ln.strip() and not ln.lstrip().startswith("#")]
     if not kept:
         raise InputFileError(f"the {what} file has no header row", where=str(p),
                              hint="the first line that is not a comment names the columns")
-    cells = []
-    for n, ln in kept:                     # one row per line, whatever the quotes
-        try:
-            cells.append(next(csv.reader([ln]), []))
-        except csv.Error as exc:
-            raise InputFileError(f"cannot read the line as CSV: {exc}", where=f"{p}, line {n}",
-                                 hint="check quotes and very long cells") from None
+    cells = [csv_cells(ln, f"{p}, line {n}") for n, ln in kept]   # one row per line, whatever the quotes
     numbers = [n for n, _ in kept]
     header_line = numbers[0]
     original = [c.strip() for c in cells[0]]
