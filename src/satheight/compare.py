@@ -91,10 +91,18 @@ def _block(result: WellResult, zone_mask: np.ndarray, net: np.ndarray, dh: np.nd
     return out
 
 
-def net_mask(result: WellResult, min_porosity: float = 0.0, min_permeability: float = 0.0):
-    """Samples that count as reservoir: porosity >= cutoff [fraction] and k >= cutoff [m^2]."""
+def net_mask(phi, k, min_porosity: float = 0.0, min_permeability: float = 0.0):
+    """Samples that count as reservoir: porosity >= cutoff [fraction] and k >= cutoff [m^2].
+
+    Parameters
+    ----------
+    phi : array_like
+        Porosity [fraction]; NaN is never net.
+    k : array_like
+        Permeability [m^2]; NaN is never net.
+    """
     with np.errstate(invalid="ignore"):
-        return (result.phi >= min_porosity) & (result.k >= min_permeability)
+        return (np.asarray(phi, float) >= min_porosity) & (np.asarray(k, float) >= min_permeability)
 
 
 def summarise(result: WellResult, length_unit: str = "m", length_factor: float = 1.0,
@@ -122,7 +130,7 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
         hcpt_log (hydrocarbon pore thickness in ``length_unit``) and vertical_thickness.
     """
     dh = sample_thickness(result.tvdss)
-    net = net_mask(result, min_porosity, min_permeability)
+    net = net_mask(result.phi, result.k, min_porosity, min_permeability)
     zones = {}
     for i, zn in enumerate(result.zones):
         m = result.shm.zone == i

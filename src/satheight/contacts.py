@@ -53,6 +53,7 @@ from typing import Sequence
 import numpy as np
 from scipy.optimize import minimize, minimize_scalar
 
+from .compare import net_mask
 from .constants import STANDARD_GRAVITY
 from .engine import ZoneModel, column_pc_j
 from .errors import SatHeightError
@@ -170,7 +171,7 @@ def zone_samples(well: str, tvdss, phi, k, sw_log, zone: ZoneModel, *,
     with np.errstate(invalid="ignore"):
         keep = ((z >= zone.top) & (z < zone.base) & np.isfinite(sw) & (sw >= 0) & (sw <= SW_LOG_MAX)
                 & (phi > 0) & (phi <= 1) & (k > 0)
-                & (phi >= min_porosity) & (k >= min_permeability))
+                & net_mask(phi, k, min_porosity, min_permeability))
         if shale is not None and max_shale is not None:
             keep &= np.asarray(shale, float) <= max_shale
     if mask is not None:
@@ -729,7 +730,7 @@ def zone_contact(zone: ZoneModel, phi, k, min_porosity: float = 0.0,
     k = np.asarray(k, float)
     with np.errstate(invalid="ignore"):
         ok = (phi > 0) & (phi <= 1) & (k > 0)
-        net = ok & (phi >= min_porosity) & (k >= min_permeability)
+        net = ok & net_mask(phi, k, min_porosity, min_permeability)
     use = net if net.any() else ok
     if not use.any():
         return {"entry_j": entry_j(zone.function), "entry_height_m": None,
