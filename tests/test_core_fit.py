@@ -278,3 +278,28 @@ def test_fixed_closure_pressure_used_for_every_mercury_curve(tmp_path):
     assert np.all(pts.sw[hg & (pts.pc_lab <= 50 * 6894.757293168)] == 1.0)
     raw = core_points(ds, closure=None)
     np.testing.assert_allclose(raw.sw, raw.sw_raw, rtol=0, atol=1e-15)
+
+
+
+def test_core_and_pressure_plots_draw_names_with_dollar_signs(tmp_path):
+    # text from input files (rock types, zone and well names) reaches legends and titles;
+    # an unescaped "$\foo$" would make matplotlib fail when the figure is drawn
+    odd = r"Upper $\foo$ Sand"
+    files = []
+    for f in CORE_FILES:
+        t = tmp_path / f.name
+        t.write_text(f.read_text().replace("Upper Sand", odd))
+        files.append(str(t))
+    out = tmp_path / "fit"
+    code = main(["fit", *files, "--out", str(out), "--reservoir", f"{odd}=26 mN/m,300 kg/m3"])
+    assert code == 0
+    for name in ("core_j_sw.png", "core_pc.png"):
+        assert (out / name).read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    pressures = tmp_path / "p.csv"
+    lines = (DEMO / "demo_pressures.csv").read_text().replace("Upper Sand", odd).splitlines()
+    # points given by TVDSS only (MD-only points need the project's datums)
+    keep = [ln for ln in lines if ln.startswith(("#", "well,")) or ln.split(",")[1] != ""]
+    pressures.write_text("\n".join(keep) + "\n")
+    code = main(["pressures", str(pressures), "--out", str(tmp_path / "pr")])
+    assert code == 0
+    assert list((tmp_path / "pr").glob("*.png"))

@@ -259,7 +259,7 @@ def test_dollar_and_backslash_in_names_do_not_raise(tmp_path):
 
 def test_safe_text_is_not_mathtext_and_shows_the_original():
     for raw in ["A$b$c", "x\\$y$", "$\\frac{1}{2}$", "plain"]:
-        safe = plots._safe_text(raw)
+        safe = plots.safe_text(raw)
         assert not cbook.is_math_text(safe)
         # matplotlib shows "\$" as "$" outside math mode (matplotlib Text docs)
         assert safe.replace("\\$", "$") == raw

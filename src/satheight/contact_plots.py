@@ -21,6 +21,7 @@ from matplotlib.figure import Figure
 
 from .contacts import FwlSearch
 from .io.atomic import atomic_save_figure
+from .plots import safe_text
 from .pressures import ZonePressures
 from .units import UNIT_SYSTEMS, factor
 
@@ -82,7 +83,7 @@ def misfit_plot(search: FwlSearch, path, units: str = "metric") -> Path:
             if prof is None or not np.isfinite(prof).any():
                 continue
             col = _WELL_COLOURS[i % len(_WELL_COLOURS)]
-            label = f"{w.well} ({w.n_samples})" + (" flagged" if w.flagged else "")
+            label = f"{safe_text(w.well)} ({w.n_samples})" + (" flagged" if w.flagged else "")
             ax.plot(scaled(prof, sel), depth, color=col, lw=1.0, ls="--" if w.flagged else "-",
                     label=label)
             if w.best is not None:
@@ -101,7 +102,7 @@ def misfit_plot(search: FwlSearch, path, units: str = "metric") -> Path:
             ax.set_ylabel(f"candidate FWL, TVDSS [{lu}]")
         else:
             ax.legend(loc="lower right", fontsize=8, framealpha=0.9)
-    fig.suptitle(f"FWL from log Sw: {search.zone}")
+    fig.suptitle(f"FWL from log Sw: {safe_text(search.zone)}")
     fig.tight_layout()
     return _save(fig, path)
 
@@ -169,7 +170,7 @@ def pressure_plot(zp: ZonePressures, path, units: str = "metric",
     ax.set_ylim(zz[1] / f, zz[0] / f)
     ax.set_xlabel(f"pressure [{pu}]")
     ax.set_ylabel(f"TVDSS [{lu}]")
-    ax.set_title("Pressure versus depth" + (f": {zp.zone}" if zp.zone else ""))
+    ax.set_title("Pressure versus depth" + (f": {safe_text(zp.zone)}" if zp.zone else ""))
     ax.grid(True, color="#DDDDDD", lw=0.6)
     ax.legend(loc="upper right", fontsize=8, framealpha=0.9)
     fig.tight_layout()

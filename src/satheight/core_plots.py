@@ -24,6 +24,7 @@ from . import constants as C
 from .core import CorePoints
 from .io.atomic import atomic_save_figure
 from .models import get_family
+from .plots import safe_text
 
 __all__ = ["j_sw_plot", "pc_plot"]
 
@@ -72,7 +73,7 @@ def j_sw_plot(points: CorePoints, fits: dict, path) -> Path:
             if m.any():
                 ax.scatter(points.sw[m], points.j[m], s=14, color=colours[rt],
                            marker=_MARKERS.get(system, "o"), alpha=0.75,
-                           label=f"{rt} ({system.replace('_', '-')})")
+                           label=f"{safe_text(rt)} ({safe_text(system).replace('_', '-')})")
     if ok.any():
         jgrid = np.geomspace(points.j[ok].min(), points.j[ok].max(), 300)
         for rt in names:
@@ -86,7 +87,7 @@ def j_sw_plot(points: CorePoints, fits: dict, path) -> Path:
                 selected = fam == e["selected"]
                 ax.plot(fn.predict(jgrid), jgrid, color=colours[rt],
                         lw=2.0 if selected else 0.8, ls="-" if selected else "--",
-                        label=f"{rt}: {fam}" + (" (selected)" if selected else ""))
+                        label=f"{safe_text(rt)}: {fam}" + (" (selected)" if selected else ""))
     ax.set_yscale("log")
     ax.set_xlim(0.0, 1.0)
     ax.set_xlabel("Sw (wetting-phase saturation) [fraction]")
@@ -122,7 +123,7 @@ def pc_plot(points: CorePoints, reservoir: dict, path) -> Path:
             ax.plot(points.sw[m], points.pc_lab[m] / C.PSI, color=colours[rt],
                     marker=_MARKERS.get(system, "o"), ms=3, lw=0.8)
     for rt in names:
-        ax.plot([], [], color=colours[rt], label=rt)
+        ax.plot([], [], color=colours[rt], label=safe_text(rt))
     ax.set_yscale("log")
     ax.set_xlim(0.0, 1.0)
     ax.set_xlabel("Sw [fraction]")
@@ -142,7 +143,7 @@ def pc_plot(points: CorePoints, reservoir: dict, path) -> Path:
         a.set_ylabel("reservoir Pc [psi]")
         a.grid(True, alpha=0.3)
         fluids = reservoir.get(rt, reservoir.get("*"))
-        title = f"{rt}: reservoir Pc"
+        title = f"{safe_text(rt)}: reservoir Pc"
         if fluids is not None:
             title += f" (σcosθ {fluids.sigma_cos_theta * 1e3:g} mN/m)"
         finite = points.pc_res[m][np.isfinite(points.pc_res[m])]

@@ -99,7 +99,7 @@ class _Track:
 # --------------------------------------------------------------------------- text
 
 
-def _safe_text(value, max_len: int = _NAME_MAX) -> str:
+def safe_text(value, max_len: int = _NAME_MAX) -> str:
     """Text from input files made safe to draw.
 
     matplotlib reads text between two unescaped ``$`` as mathtext (and fails on
@@ -389,7 +389,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
     fwl_groups: dict[float, list[str]] = {}
     zone_drawn = False
     for iz, zone in enumerate(zones):  # one pass per zone, not per sample
-        zname = _safe_text(getattr(zone, "name", f"zone {iz + 1}"))
+        zname = safe_text(getattr(zone, "name", f"zone {iz + 1}"))
         top, base = _number(zone, "top"), _number(zone, "base")
         if depth_axis == "tvdss":
             ivs = []
@@ -446,7 +446,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
             ys = np.array([gol]) if y_top * scale <= gol <= y_base * scale else np.empty(0)
         else:
             ys = _level_crossings(md, tvdss, gol) if have_tvdss else np.empty(0)
-        label = "Free-oil level " + _safe_text(getattr(zone, "name", ""))
+        label = "Free-oil level " + safe_text(getattr(zone, "name", ""))
         for yy in ys / scale:
             for ax in axes.values():
                 ax.axhline(yy, color=_GOL_COLOUR, lw=1.4, ls=(0, (2, 2)), zorder=3.5)
@@ -462,12 +462,12 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
     if gr is not None:
         ax = axes["gr"]
         curve, data = gr
-        unit = _safe_text(curve.unit, 12)
+        unit = safe_text(curve.unit, 12)
         r = _finite_range(data)
         gmax = _GR_DEFAULT_MAX
         if r is not None and r[1] > gmax:
             gmax = float(np.ceil(np.nanpercentile(data, 99.5) / 50.0) * 50.0) or gmax
-        mnem = _safe_text(curve.mnemonic, 12)
+        mnem = safe_text(curve.mnemonic, 12)
         _header(ax, f"{mnem} [{unit}]" if unit else mnem, _COLOURS["gr"], 0.0, gmax)
         ax.plot(data, y, color=_COLOURS["gr"], lw=0.8, zorder=3)
         handles.append(Line2D([], [], color=_COLOURS["gr"], lw=1, label=f"{mnem} (gamma ray)"))
@@ -490,7 +490,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
     if result.rt is not None:
         ax = axes["rt"]
         rt_name = (result.roles or {}).get("resistivity") or "RT"
-        _header(ax, f"Resistivity {_safe_text(rt_name, 12)} [ohm.m]", _COLOURS["rt"],
+        _header(ax, f"Resistivity {safe_text(rt_name, 12)} [ohm.m]", _COLOURS["rt"],
                 *_RT_RANGE, log=True, ticks=[0.2, 2.0, 20.0, 200.0, 2000.0])
         ax.grid(True, axis="x", which="minor", color=_COLOURS["grid"], lw=0.3, zorder=0.5)
         ax.plot(_positive(result.rt), y, color=_COLOURS["rt"], lw=0.8, zorder=3,
@@ -513,7 +513,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
         ax.fill_betweenx(y, sw, 1.0, where=sw_ok & (kind == hc), color=colour, alpha=0.55,
                          lw=0, zorder=1)
         handles.append(Patch(facecolor=colour, alpha=0.55,
-                             label=f"{_safe_text(hc.capitalize(), 12) or 'Hydrocarbon'} "
+                             label=f"{safe_text(hc.capitalize(), 12) or 'Hydrocarbon'} "
                                    f"(1 \u2212 SHM Sw)"))
     if result.sw_log is not None:
         sw_log = np.asarray(result.sw_log, dtype=float)
@@ -525,7 +525,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
                                  label="Log Sw \u2212 SHM Sw"))
         src = result.sw_log_source or ""
         src_txt = ("Archie" if src == "archie" else
-                   _safe_text(src.split(":", 1)[1], 12) if src.startswith("curve:") else "")
+                   safe_text(src.split(":", 1)[1], 12) if src.startswith("curve:") else "")
         log_label = f"Log Sw ({src_txt})" if src_txt else "Log Sw"
         ax.plot(sw_log, y, color=_COLOURS["sw_log"], lw=0.9, zorder=3)
         handles.append(Line2D([], [], color=_COLOURS["sw_log"], lw=1, label=log_label))
@@ -579,7 +579,7 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
                 bbox=dict(facecolor="white", edgecolor="none", alpha=0.8, pad=1.0))
 
     # -- title and legend
-    name = _safe_text(title if title is not None else well.name, 80)
+    name = safe_text(title if title is not None else well.name, 80)
     fig.text(0.5, 1.0 - 0.18 / fig_h, name, ha="center", va="top", fontsize=13,
              fontweight="bold")
     sub = f"Depth: {primary_name} [{length_unit}]"
@@ -812,7 +812,7 @@ def section_plot(results, png_path, units: str = "metric", locations=None,
             good = np.isfinite(swm)
             lc = LineCollection(seg[good], colors=cmap(norm(swm[good])), linewidths=4.0, zorder=3)
             ax.add_collection(lc)
-        ax.text(xs[0], zs[0], _safe_text(r.well.name) + "\n", ha="center", va="bottom", fontsize=8)
+        ax.text(xs[0], zs[0], safe_text(r.well.name) + "\n", ha="center", va="bottom", fontsize=8)
         for zn in r.zones:
             fwls.setdefault(zn.name, float(zn.fwl))
             for level, kind in ((zn.top, "top"), (zn.base, "base")):
@@ -825,14 +825,14 @@ def section_plot(results, png_path, units: str = "metric", locations=None,
     for name, pts in zone_tops.items():
         pts = sorted(pts)
         ax.plot([p[0] for p in pts], [p[1] for p in pts], color="#555555", lw=0.8, zorder=4)
-        ax.text(pts[0][0], pts[0][1], " " + _safe_text(name), ha="left", va="bottom", fontsize=8,
+        ax.text(pts[0][0], pts[0][1], " " + safe_text(name), ha="left", va="bottom", fontsize=8,
                 color="#333333", zorder=6)
     x_all = np.concatenate([d[np.isfinite(d)] for d in dist]) / scale
     x0, x1 = float(x_all.min()), float(x_all.max())
     pad = max(0.05 * (x1 - x0), 50.0 / scale * 3.0)
     for name, fwl in fwls.items():
         ax.plot([x0 - pad, x1 + pad], [fwl / scale] * 2, ls="--", lw=1.2, color=_COLOURS["fwl"], zorder=4)
-        ax.text(x1 + pad, fwl / scale, f"FWL {_safe_text(name)} ", ha="right", va="bottom",
+        ax.text(x1 + pad, fwl / scale, f"FWL {safe_text(name)} ", ha="right", va="bottom",
                 fontsize=8, color=_BLUE, zorder=6)
     ax.set_xlim(x0 - pad, x1 + pad)
     ax.invert_yaxis()
@@ -846,5 +846,5 @@ def section_plot(results, png_path, units: str = "metric", locations=None,
     ax.grid(True, color=_COLOURS["grid"], lw=0.5)
     sm = mpl.cm.ScalarMappable(norm=norm, cmap=cmap)
     fig.colorbar(sm, cax=cax).set_label("Sw from the saturation-height model [fraction]", fontsize=8)
-    ax.set_title(_safe_text(title if title is not None else "Field section, TVDSS", 80), fontsize=12)
+    ax.set_title(safe_text(title if title is not None else "Field section, TVDSS", 80), fontsize=12)
     return _save_atomic(fig, targets)
