@@ -543,30 +543,15 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         locations = {o.name: getattr(spec, "location", None)
                      for spec, o in zip(project.wells, outcomes) if o.ok}
     for spec in (project.wells if not outcomes else ()):
-        label = spec.name or spec.las.stem
-        try:
-            with warnings.catch_warnings(record=True) as caught:
-                warnings.simplefilter("always")
-                result, msgs = compute_well(project, spec)
-                if _safe_name(result.well.name) in names_seen:
-                    raise _name_clash(project, result.well.name)
-                names_seen.add(_safe_name(result.well.name))
-                files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
-                                      depth_axis=depth_axis)
-                locations[result.well.name] = getattr(spec, "location", None)
-            msgs += [str(c.message) for c in caught]
-            # keep_results=False drops each well's arrays once written (big projects); the
-            # field section then gets a thinned view of the few arrays it draws
-            outcomes.append(WellOutcome(result.well.name, True, files, None, msgs,
-                                        result if keep_results else None, result.summary,
-                                        None if keep_results or not plot else _section_view(result)))
-        except SatHeightError as exc:
-            outcomes.append(WellOutcome(label, False, [], str(exc)))
-        except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
-                ValueError, OSError) as exc:
-            # a program error on one well's data must not cost the other wells their results
-            outcomes.append(WellOutcome(label, False, [], f"{spec.las}: internal error "
-                                        f"{type(exc).__name__}: {exc} (please report it)"))
+        outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen)
+        if outcome.ok:
+            locations[outcome.name] = getattr(spec, "location", None)
+            if not keep_results:
+                # keep_results=False drops each well's arrays once written (big projects); the
+                # field section then gets a thinned view of the few arrays it draws
+                outcome.section = _section_view(outcome.result) if plot else None
+                outcome.result = None
+        outcomes.append(outcome)
     notes = []
     section_file = None
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
@@ -632,12 +617,15 @@ def _section_view(result: WellResult, max_points: int = 4000):
                            shm=SimpleNamespace(sw=thin(result.shm.sw)))
 
 
-def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
-              depth_axis: str = "md") -> tuple[WellOutcome, str | None]:
-    """One well in a worker process: load, compute, write into ``work_dir``.
+def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: bool,
+              depth_axis: str = "md", names_seen: set | None = None
+              ) -> tuple[WellOutcome, str | None]:
+    """Load, compute and write one well into ``out_dir``; never raises for that well.
 
-    Returns the outcome without the arrays (``result`` None) and the well's
-    output name (None if the well failed before its name was known).
+    With ``names_seen`` a well whose output name is already taken fails before
+    writing (and its name is added otherwise). A program error on the well's data
+    fails that well only. Returns the outcome (with the result) and the well's
+    output name (None if it failed before its name was known).
     """
     label = spec.name or spec.las.stem
     safe = None
@@ -646,14 +634,36 @@ def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot:
             warnings.simplefilter("always")
             result, msgs = compute_well(project, spec)
             safe = _safe_name(result.well.name)
-            work_dir.mkdir(parents=True, exist_ok=True)
-            files = write_outputs(result, project, work_dir, pdf=pdf, plot=plot,
+            if names_seen is not None:
+                if safe in names_seen:
+                    raise _name_clash(project, result.well.name)
+                names_seen.add(safe)
+            out_dir.mkdir(parents=True, exist_ok=True)
+            files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
                                   depth_axis=depth_axis)
         msgs += [str(c.message) for c in caught]
-        return WellOutcome(result.well.name, True, files, None, msgs, None, result.summary,
-                           _section_view(result) if plot else None), safe
+        return WellOutcome(result.well.name, True, files, None, msgs, result, result.summary), safe
     except SatHeightError as exc:
         return WellOutcome(label, False, [], str(exc)), safe
+    except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
+            ValueError, OSError) as exc:
+        # a program error on one well's data must not cost the other wells their results
+        return WellOutcome(label, False, [], f"{spec.las}: internal error "
+                           f"{type(exc).__name__}: {exc} (please report it)"), safe
+
+
+def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
+              depth_axis: str = "md") -> tuple[WellOutcome, str | None]:
+    """One well in a worker process (:func:`_one_well` into ``work_dir``).
+
+    Returns the outcome without the arrays (``result`` None; with plots, the thinned
+    view the field section needs) and the well's output name.
+    """
+    outcome, safe = _one_well(project, spec, work_dir, pdf, plot, depth_axis)
+    if outcome.result is not None:
+        outcome.section = _section_view(outcome.result) if plot else None
+        outcome.result = None
+    return outcome, safe
 
 
 def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
