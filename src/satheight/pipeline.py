@@ -718,17 +718,13 @@ OUTPUT_MARKERS = ("run_summary.json",)
 
 
 def _sha256(path: Path) -> str | None:
-    """SHA-256 of a file's bytes (read-only, in blocks), or None if it cannot be read."""
-    import hashlib
+    """SHA-256 of a file's bytes (:func:`satheight.core.sha256_of`), or None if it cannot be read."""
+    from .core import sha256_of
 
-    h = hashlib.sha256()
     try:
-        with open(path, "rb") as f:
-            for block in iter(lambda: f.read(1 << 20), b""):
-                h.update(block)
+        return sha256_of(path)
     except OSError:
         return None
-    return h.hexdigest()
 
 
 def input_record(project: Project) -> dict:

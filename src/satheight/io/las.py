@@ -132,11 +132,6 @@ def _num(x: float) -> str:
     return np.format_float_positional(float(x), trim="-")
 
 
-def _read_text(path: Path) -> str:
-    """The file's text (UTF-8, else Latin-1), or an InputFileError saying why not."""
-    return _decode(_read_bytes(path))
-
-
 def _decode(raw: bytes) -> str:
     """Text of LAS bytes: UTF-8 (a leading byte-order mark dropped), else Latin-1.
 
