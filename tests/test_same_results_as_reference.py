@@ -1,0 +1,72 @@
+"""Refactoring guard: the demo's result files are byte-identical to those of a reference commit.
+
+Both runs happen in this test, on this machine, with the same input files (the demo field of the
+checkout): once with the package source of ``REFERENCE_COMMIT`` (taken out of git history), once
+with the package source of the checkout. A change that moves code around must leave every LAS,
+CSV and JSON result file identical byte for byte. A change that alters results on purpose
+moves ``REFERENCE_COMMIT`` forward, and its commit message says which results changed and why.
+
+Because both runs use the same CPU and libraries, the comparison does not depend on the machine.
+The test is skipped (with the reason) where the checkout has no git history.
+"""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+import sys
+import tarfile
+import io
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+# The last commit whose results are the expected ones (see the module docstring).
+REFERENCE_COMMIT = "85b93e7a8fe426b10d5840c9e76f4e1fd6a3573f"
+COMPARED_SUFFIXES = (".las", ".csv", ".json")
+# Files that carry the run's own provenance (tool version, input paths and checksums): not results.
+NOT_COMPARED = {"run_summary.json"}
+
+
+def _git(*args: str) -> subprocess.CompletedProcess:
+    return subprocess.run(["git", "-C", str(ROOT), *args], capture_output=True)
+
+
+def _reference_source(dest: Path) -> Path:
+    if shutil.which("git") is None or not (ROOT / ".git").exists():
+        pytest.skip("no git history in this checkout: the reference commit cannot be taken out")
+    if _git("cat-file", "-e", f"{REFERENCE_COMMIT}^{{commit}}").returncode != 0:
+        pytest.skip(f"reference commit {REFERENCE_COMMIT[:10]} is not in this clone's history")
+    archive = _git("archive", "--format=tar", REFERENCE_COMMIT, "src")
+    assert archive.returncode == 0, archive.stderr.decode(errors="replace")
+    with tarfile.open(fileobj=io.BytesIO(archive.stdout)) as tar:
+        tar.extractall(dest, filter="data")
+    return dest / "src"
+
+
+def _run_demo(src: Path, out: Path) -> None:
+    project = ROOT / "demo_wells" / "demo_project.toml"
+    code = ("import sys; sys.path.insert(0, sys.argv[1]); from satheight.cli import main; "
+            "sys.exit(main(sys.argv[2:]))")
+    r = subprocess.run([sys.executable, "-c", code, str(src), "run", str(project),
+                        "--out", str(out), "--no-plots"], capture_output=True, text=True,
+                       cwd=out.parent)
+    assert r.returncode == 0, r.stdout + r.stderr
+
+
+def _result_files(folder: Path) -> dict[str, bytes]:
+    return {p.name: p.read_bytes() for p in sorted(folder.iterdir())
+            if p.suffix in COMPARED_SUFFIXES and p.name not in NOT_COMPARED}
+
+
+def test_demo_results_identical_to_reference_commit(tmp_path):
+    ref_src = _reference_source(tmp_path / "ref")
+    _run_demo(ref_src, tmp_path / "ref_out")
+    _run_demo(ROOT / "src", tmp_path / "new_out")
+    before = _result_files(tmp_path / "ref_out")
+    after = _result_files(tmp_path / "new_out")
+    assert len(before) >= 15, sorted(before)  # 5 wells x (LAS, CSV, JSON)
+    assert sorted(after) == sorted(before)
+    changed = [name for name in before if before[name] != after[name]]
+    assert changed == [], f"result files differ from commit {REFERENCE_COMMIT[:10]}: {changed}"
