@@ -45,13 +45,26 @@ def _reference_source(dest: Path) -> Path:
     return dest / "src"
 
 
-def _run_demo(src: Path, out: Path) -> None:
-    project = ROOT / "demo_wells" / "demo_project.toml"
+DEMO = ROOT / "demo_wells"
+PROJECT = DEMO / "demo_project.toml"
+CORE_FILES = [DEMO / n for n in ("core_plugs.csv", "core_pc_steps.csv", "core_plate_steps.csv",
+                                 "core_plug_V12.csv")]
+# The commands whose result files are compared: the run, the core fit, the two contact jobs.
+COMMANDS = {
+    "run": ["run", PROJECT, "--no-plots"],
+    "fit": ["fit", *CORE_FILES, "--reservoir", "Upper Sand=26 mN/m,300 kg/m3",
+            "--reservoir", "Lower Sand=50 mN/m,859.5 kg/m3"],
+    "fwl": ["fwl", PROJECT, "--zone", "Lower Sand", "--resamples", "40"],
+    "pressures": ["pressures", DEMO / "demo_pressures.csv", "--project", PROJECT],
+}
+
+
+def _run(src: Path, args: list, out: Path) -> None:
     code = ("import sys; sys.path.insert(0, sys.argv[1]); from satheight.cli import main; "
             "sys.exit(main(sys.argv[2:]))")
-    r = subprocess.run([sys.executable, "-c", code, str(src), "run", str(project),
-                        "--out", str(out), "--no-plots"], capture_output=True, text=True,
-                       cwd=out.parent)
+    out.parent.mkdir(parents=True, exist_ok=True)
+    r = subprocess.run([sys.executable, "-c", code, str(src), *map(str, args), "--out", str(out)],
+                       capture_output=True, text=True, cwd=out.parent)
     assert r.returncode == 0, r.stdout + r.stderr
 
 
@@ -60,13 +73,18 @@ def _result_files(folder: Path) -> dict[str, bytes]:
             if p.suffix in COMPARED_SUFFIXES and p.name not in NOT_COMPARED}
 
 
-def test_demo_results_identical_to_reference_commit(tmp_path):
-    ref_src = _reference_source(tmp_path / "ref")
-    _run_demo(ref_src, tmp_path / "ref_out")
-    _run_demo(ROOT / "src", tmp_path / "new_out")
-    before = _result_files(tmp_path / "ref_out")
-    after = _result_files(tmp_path / "new_out")
-    assert len(before) >= 15, sorted(before)  # 5 wells x (LAS, CSV, JSON)
+@pytest.fixture(scope="module")
+def reference_src(tmp_path_factory):
+    return _reference_source(tmp_path_factory.mktemp("ref"))
+
+
+@pytest.mark.parametrize("command", sorted(COMMANDS))
+def test_demo_results_identical_to_reference_commit(command, reference_src, tmp_path):
+    _run(reference_src, COMMANDS[command], tmp_path / "before" / command)
+    _run(ROOT / "src", COMMANDS[command], tmp_path / "after" / command)
+    before = _result_files(tmp_path / "before" / command)
+    after = _result_files(tmp_path / "after" / command)
+    assert before, f"{command} wrote no LAS, CSV or JSON file"
     assert sorted(after) == sorted(before)
     changed = [name for name in before if before[name] != after[name]]
     assert changed == [], f"result files differ from commit {REFERENCE_COMMIT[:10]}: {changed}"
