@@ -300,32 +300,33 @@ def case_engine(args) -> dict:
 
 
 def case_well(args) -> dict:
-    from satheight import pipeline as P
     from satheight.io.las import read_las
+    from satheight.workflows import outputs as O
+    from satheight.workflows import well as P
     from satheight.project import load_project
 
     warm = load_project(args.warm_project)
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     r, _ = P.compute_well(warm, warm.wells[0])             # imports and first-call costs
-    P.write_outputs(r, warm, out, plot=False)
+    O.write_outputs(r, warm, out, plot=False)
     project = load_project(args.project)
     spec = project.wells[0]
     res = {"load": _measure(lambda: read_las(spec.las), args.repeat)}
     result, _ = P.compute_well(project, spec)
-    res["write"] = _measure(lambda: P.write_outputs(result, project, out, plot=False), args.repeat)
+    res["write"] = _measure(lambda: O.write_outputs(result, project, out, plot=False), args.repeat)
     del result
 
     def e2e():
         res_, _ = P.compute_well(project, spec)
-        return P.write_outputs(res_, project, out, plot=False)
+        return O.write_outputs(res_, project, out, plot=False)
 
     res["e2e"] = _measure(e2e, args.repeat)
     return res
 
 
 def case_project(args) -> dict:
-    from satheight.pipeline import run_project
+    from satheight.workflows.run import run_project
 
     out = Path(args.out)
     t = time.perf_counter()

@@ -132,7 +132,7 @@ def test_project_per_depth_rock_typing(tmp_path):
     p = _project(tmp_path, {"file": "models.json"})
     f = p.zones[0].function
     assert set(f.by_rock_type) == {"A", "B"} and f.rock_rule == rule
-    from satheight.pipeline import _zone_model
+    from satheight.workflows.well import _zone_model
 
     zm = _zone_model(p.zones[0], 1000.0, 1100.0, p.path)
     phi = np.full(2, 0.2)
@@ -144,7 +144,7 @@ def test_project_per_depth_rock_typing(tmp_path):
     # the ROCK_ID output curve numbers the rock types in the zone's table order
     import types
 
-    from satheight.pipeline import rock_type_ids
+    from satheight.workflows.well import rock_type_ids
 
     ids = rock_type_ids(types.SimpleNamespace(zones=[zm], shm=res, phi=phi, k=k))
     names = list(zm.rock_functions)
@@ -243,7 +243,7 @@ def test_fit_option_parsing():
     import math
 
     from satheight.core import LAB_SYSTEMS
-    from satheight.core_workflow import (parse_classes, parse_closure, parse_lab_override,
+    from satheight.workflows.fit import (parse_classes, parse_closure, parse_lab_override,
                                          parse_reservoir)
     from satheight.errors import SatHeightError
 

@@ -13,7 +13,8 @@ import lasio
 import numpy as np
 import pytest
 
-from satheight.pipeline import compute_well, run_project
+from satheight.workflows.run import run_project
+from satheight.workflows.well import compute_well
 from satheight.project import load_project
 
 KOP, BUILD, HOLD_DEG, AZI_DEG = 500.0, math.radians(3.0) / 30.0, 40.0, 120.0  # 3 deg / 30 m
@@ -205,17 +206,17 @@ def test_demo_deviated_well_matches_its_generator():
 def test_cli_depth_axis_and_field_section(field, tmp_path, monkeypatch):
     import json
 
-    from satheight import plots
     from satheight.cli import main
+    from satheight.workflows import outputs
 
     seen = []
-    original = plots.track_plot
+    original = outputs.track_plot
 
     def spy(*args, **kwargs):
         seen.append(kwargs.get("depth_axis"))
         return original(*args, **kwargs)
 
-    monkeypatch.setattr(plots, "track_plot", spy)
+    monkeypatch.setattr(outputs, "track_plot", spy)
     code = main(["run", str(field / "p.toml"), "--out", str(tmp_path / "o"), "--depth-axis", "tvdss"])
     assert code == 0
     assert seen == ["tvdss", "tvdss"]

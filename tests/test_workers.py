@@ -13,7 +13,7 @@ import pytest
 
 from satheight.cli import main
 from satheight.errors import SatHeightError
-from satheight.pipeline import run_project
+from satheight.workflows.run import run_project
 
 DEMO = Path(__file__).resolve().parents[1] / "demo_wells"
 

@@ -1,4 +1,4 @@
-"""Command line: argument parsing and printing only; the work is done by the public API.
+"""Command line: argument parsing and printing only; each command calls one workflow function.
 
 Exit codes: 0 everything ran; 2 bad input (file, project value, unit, missing
 curve); 3 the project ran but one or more wells failed; 1 an unexpected
@@ -14,6 +14,12 @@ import traceback
 from pathlib import Path
 
 from . import __version__
+from .errors import InputFileError, SatHeightError
+from .workflows.contacts import parse_exclude, parse_fit_bounds, run_fwl, run_pressures
+from .workflows.fit import fit_table, run_fit, settings_from_options
+from .workflows.inspect import inspect_las
+from .workflows.outputs import check_output_folder
+from .workflows.run import run_project
 
 EXIT_OK = 0
 EXIT_INTERNAL = 1
@@ -32,8 +38,6 @@ def find_demo_project() -> Path:
     for c in candidates:
         if c.is_file():
             return c
-    from .errors import InputFileError
-
     raise InputFileError("the bundled demo field was not found",
                          where=", ".join(str(c) for c in candidates),
                          hint="run from the project's source folder or reinstall the package")
@@ -125,29 +129,11 @@ def _add_fit_parser(sub):
 
 
 def _fit(args, out) -> int:
-    from .core import LAB_SYSTEMS
-    from .core_workflow import (FitSettings, fit_table, parse_classes, parse_closure,
-                                parse_lab_override, parse_reservoir, run_fit)
-    from .rocktypes import RockTypeRule
-
-    systems = dict(LAB_SYSTEMS)
-    for text in args.lab:
-        name, system = parse_lab_override(text, systems)
-        systems[name] = system
-    rule = None
-    if args.group_by:
-        rule = RockTypeRule("column", args.group_by)
-    elif args.k_classes:
-        rule = parse_classes(args.k_classes, "permeability", args.class_names)
-    elif args.fzi_classes:
-        rule = parse_classes(args.fzi_classes, "fzi", args.class_names)
-    settings = FitSettings(default_system=args.system, systems=systems,
-                           closure=parse_closure(args.closure), phi_factor=args.phi_factor,
-                           k_factor=args.k_factor, rule=rule,
-                           reservoir=dict(parse_reservoir(t) for t in args.reservoir),
-                           model_file=args.model_file, plots=not args.no_plots)
-    if args.family:
-        settings.families = tuple(args.family)
+    settings = settings_from_options(
+        lab=args.lab, system=args.system, closure=args.closure, phi_factor=args.phi_factor,
+        k_factor=args.k_factor, group_by=args.group_by, k_classes=args.k_classes,
+        fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
+        reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots)
     run = run_fit(args.files, args.out, settings)
     print(fit_table(run.fits), file=out)
     for w in run.warnings:
@@ -216,50 +202,15 @@ def _add_contact_commands(sub):
     pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
 
 
-def _parse_exclude(items):
-    from .errors import SatHeightError
-
-    out = []
-    for it in items:
-        parts = it.split(":")
-        try:
-            if len(parts) == 2:
-                out.append((None, float(parts[0]), float(parts[1])))
-            elif len(parts) == 3:
-                out.append((parts[0], float(parts[1]), float(parts[2])))
-            else:
-                raise ValueError
-        except ValueError:
-            raise SatHeightError(f"--exclude {it!r} is not [WELL:]TOP:BASE",
-                                 hint="e.g. --exclude VANTREL-2:2060:2062") from None
-    return out
-
-
-def _parse_fit(items):
-    from .errors import SatHeightError
-
-    out = {}
-    for it in items:
-        parts = it.split(":")
-        try:
-            name, lo, hi = parts[0], float(parts[1]), float(parts[2])
-        except (ValueError, IndexError):
-            raise SatHeightError(f"--fit {it!r} is not PARAM:LOW:HIGH",
-                                 hint="e.g. --fit swirr:0:0.3") from None
-        out[name] = (lo, hi)
-    return out
-
-
 def _fwl(args, out) -> int:
-    from .contacts_run import run_fwl
-
     project = Path(args.project)
     rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
                   plot=not args.no_plots, window=args.window, step=args.step,
                   misfit=args.misfit, delta=args.delta, n_boot=args.resamples,
                   block_length=args.block, seed=args.seed, tolerance=args.tolerance,
                   shale_curve=args.shale_curve, max_shale=args.max_shale,
-                  exclude=_parse_exclude(args.exclude), fit_parameters=_parse_fit(args.fit) or None)
+                  exclude=parse_exclude(args.exclude),
+                  fit_parameters=parse_fit_bounds(args.fit) or None)
     u = rep["units"]
     print(f"project: {rep['project']}", file=out)
     for name, d in rep["zones"].items():
@@ -296,8 +247,6 @@ def _fwl(args, out) -> int:
 
 
 def _pressures(args, out) -> int:
-    from .contacts_run import run_pressures
-
     src = Path(args.pressure_file)
     quals = ("good", "fair", "poor") if args.use_poor else ("good", "fair")
     rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
@@ -381,9 +330,9 @@ def _print_run(report, out) -> int:
                 print(f"    note: {m}", file=out)
         else:
             print(f"  {w.name}: FAILED: {w.error}", file=out)
-    if getattr(report, "section_file", None) is not None:
+    if report.section_file is not None:
         print(f"field section: {report.section_file}", file=out)
-    for note in getattr(report, "notes", []):
+    for note in report.notes:
         print(f"note: {note}", file=out)
     print(f"run summary: {report.summary_file}", file=out)
     print(f"report: {report.out_dir / 'report.html'}", file=out)
@@ -393,42 +342,8 @@ def _print_run(report, out) -> int:
 
 
 def _inspect(path: str, as_json: bool, out) -> int:
-    from .io.las import describe_las
-
-    info = describe_las(path)
-    if as_json:
-        import json
-
-        print(json.dumps(info, indent=2, default=str), file=out)
-        return EXIT_OK
-    _print_description(info, out)
+    print(inspect_las(path, as_json), file=out)
     return EXIT_OK
-
-
-def _print_description(info: dict, out) -> None:
-    print(f"file: {info.get('path')}", file=out)
-    print(f"well: {info.get('well')}", file=out)
-    dr = info.get("depth", {})
-    print(f"depth: {dr.get('start')} to {dr.get('stop')} {dr.get('unit')}, step {dr.get('step')}, "
-          f"{info.get('n_samples')} samples", file=out)
-    print(f"{'curve':<12} {'unit':<10} {'nulls':>7} {'min':>12} {'max':>12}  description", file=out)
-    for c in info.get("curves", []):
-        lo = "" if c.get("min") is None else f"{c['min']:.6g}"
-        hi = "" if c.get("max") is None else f"{c['max']:.6g}"
-        print(f"{c['mnemonic']:<12} {c.get('unit') or '':<10} {c.get('n_null', 0):>7} {lo:>12} {hi:>12}  "
-              f"{c.get('description') or ''}", file=out)
-    print("roles:", file=out)
-    for role, r in info.get("roles", {}).items():
-        if isinstance(r, dict):
-            chosen = r.get("mnemonic")
-            if chosen:
-                print(f"  {role:<13} {chosen}", file=out)
-            else:
-                print(f"  {role:<13} none (tried {', '.join(r.get('aliases_tried', []))})", file=out)
-        else:
-            print(f"  {role:<13} {r}", file=out)
-    for w in info.get("warnings", []):
-        print(f"note: {w}", file=out)
 
 
 def _one_line(exc: BaseException) -> str:
@@ -442,8 +357,6 @@ def main(argv=None) -> int:
     if args.command is None:
         parser.print_help()
         return EXIT_BAD_INPUT
-    from .errors import SatHeightError
-
     try:
         if args.command == "inspect":
             return _inspect(args.las, args.json, sys.stdout)
@@ -453,16 +366,12 @@ def main(argv=None) -> int:
             return _fwl(args, sys.stdout)
         if args.command == "pressures":
             return _pressures(args, sys.stdout)
-        from .pipeline import run_project
-
         if args.command == "demo":
             project = find_demo_project()
             out = args.out
         else:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
-        from .pipeline import check_output_folder
-
         check_output_folder(out, args.overwrite)
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
                              depth_axis=args.depth_axis, workers=args.workers,
@@ -472,7 +381,7 @@ def main(argv=None) -> int:
         if args.verbose:
             traceback.print_exc()
         print(f"satheight: error: {_one_line(exc)}", file=sys.stderr)
-        return getattr(exc, "exit_code", EXIT_BAD_INPUT)
+        return exc.exit_code
     except KeyboardInterrupt:
         print("satheight: interrupted", file=sys.stderr)
         return 130

@@ -61,7 +61,7 @@ from .models import build_function
 
 __all__ = ["ZoneSamples", "WellFwl", "FwlSearch", "zone_samples", "misfit_matrix",
            "search_fwl", "fit_fwl_with_parameters", "entry_j", "entry_height",
-           "zone_contact", "contacts_summary", "MISFITS", "fwl_from_project"]
+           "zone_contact", "contacts_summary", "MISFITS"]
 
 #: Log Sw above this [fraction] is taken as bad and left out. Log Sw a little above 1
 #: is kept (noise in Rt or Rw): dropping or clipping it would bias the FWL near the
@@ -784,102 +784,3 @@ def contacts_summary(result, length_factor: float = 1.0, min_porosity: float = 0
                                     else zn.gas_oil_level / length_factor),
         }
     return out
-
-
-# ----------------------------------------------------------------------------------
-# whole project
-# ----------------------------------------------------------------------------------
-def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequence[str] | None = None,
-                     *, shale_curve: str | None = None, max_shale: float | None = None,
-                     exclude: Sequence[tuple[str | None, float, float]] = (),
-                     fit_parameters: dict[str, tuple[float, float]] | None = None,
-                     **search_options) -> tuple[dict[str, FwlSearch], list[str]]:
-    """FWL search of each zone of a project from its wells' log Sw.
-
-    Parameters
-    ----------
-    project : satheight.project_types.Project or path
-    zones : list of str, optional
-        Zone names (default: every zone).
-    wells : list of str, optional
-        Well names to use (default: every well).
-    shale_curve : str, optional
-        Mnemonic of a shale indicator curve (file units) and ``max_shale`` its cutoff.
-    exclude : sequence of (well or None, top, base)
-        TVDSS intervals [m] left out (the user mask); ``None`` for every well.
-    fit_parameters : dict, optional
-        J-Sw parameter bounds for :func:`fit_fwl_with_parameters`.
-    **search_options
-        Passed to :func:`search_fwl` (window, step, misfit, delta, n_boot, seed...).
-
-    Returns
-    -------
-    (dict[str, FwlSearch], list[str])
-        Results by zone and notes (wells skipped and why).
-    """
-    from .pipeline import compute_well
-    from .project import load_project
-    from .project_types import Project
-    from .roles import find_curve
-
-    if not isinstance(project, Project):
-        project = load_project(project)
-    names = [z.name for z in project.zones]
-    zones = list(zones) if zones else names
-    for z in zones:
-        if z not in names:
-            raise SatHeightError(f"zone {z!r} is not in the project",
-                                 where=str(project.path), hint="zones: " + ", ".join(names))
-    notes: list[str] = []
-    computed = []
-    for spec in project.wells:
-        if wells and spec.name is not None and spec.name not in wells:
-            continue
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")
-            res, _ = compute_well(project, spec)
-        if wells and res.well.name not in wells:
-            continue
-        if res.sw_log is None:
-            notes.append(f"{res.well.name}: no log Sw (no Sw curve and no Archie inputs): skipped")
-            continue
-        computed.append(res)
-    if wells:
-        missing = set(wells) - {r.well.name for r in computed}
-        for w in sorted(missing):
-            notes.append(f"{w}: not found among the project's wells with log Sw")
-    out = {}
-    for zname in zones:
-        samples = []
-        for res in computed:
-            idx = [i for i, zn in enumerate(res.zones) if zn.name == zname]
-            if not idx:
-                continue
-            zn = res.zones[idx[0]]
-            mask = np.ones(res.tvdss.size, bool)
-            for w, top, base in exclude:
-                if w is None or w == res.well.name:
-                    mask &= ~((res.tvdss >= top) & (res.tvdss <= base))
-            shale = None
-            if shale_curve:
-                key = find_curve(res.well, shale_curve)
-                if key is None:
-                    raise SatHeightError(f"shale curve {shale_curve!r} is not in well "
-                                         f"{res.well.name}", where=str(res.well.source),
-                                         hint="name a curve every well has, e.g. GR")
-                shale = res.well.curves[key].data
-            samples.append(zone_samples(res.well.name, res.tvdss, res.phi, res.k, res.sw_log, zn,
-                                        min_porosity=project.comparison.min_porosity,
-                                        min_permeability=project.comparison.min_permeability,
-                                        shale=shale, max_shale=max_shale, mask=mask))
-        if not samples:
-            notes.append(f"zone {zname}: no well crosses it")
-            continue
-        result = search_fwl(samples, **search_options)
-        if fit_parameters:
-            lo, hi = result.candidates[0], result.candidates[-1]
-            result.parameters = fit_fwl_with_parameters(
-                samples, fit_parameters, fwl_bounds=(lo, hi), fwl_start=result.best,
-                misfit=result.misfit, delta=result.delta)
-        out[zname] = result
-    return out, notes

@@ -2,6 +2,8 @@
 
 The command line calls :func:`run_fwl` and :func:`run_pressures`; they return
 plain dicts (what was found, which files were written) and never print.
+:func:`fwl_from_project` gathers each zone's samples over the project's wells and
+runs the search of :mod:`satheight.contacts`.
 """
 
 from __future__ import annotations
@@ -9,16 +11,25 @@ from __future__ import annotations
 import json
 import warnings
 from pathlib import Path
+from typing import Sequence
 
-from . import units as U
-from .contacts import fwl_from_project
-from .errors import SatHeightError
-from .io.atomic import atomic_write_text
-from .io.pressures import read_pressure_points, resolve_tvdss
-from .pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
-from .project import load_project
+import numpy as np
 
-__all__ = ["run_fwl", "run_pressures"]
+from .. import units as U
+from ..contacts import FwlSearch, fit_fwl_with_parameters, search_fwl, zone_samples
+from ..errors import SatHeightError
+from ..io.atomic import atomic_write_text
+from ..io.las import read_las
+from ..io.pressures import read_pressure_points, resolve_tvdss
+from ..plots.contacts import misfit_plot, pressure_plot
+from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
+from ..project.reader import load_project
+from ..project.types import Project
+from ..results import WellResult
+from ..roles import find_curve
+from .well import compute_well, datum_elevation, well_path
+
+__all__ = ["run_fwl", "run_pressures", "fwl_from_project", "parse_exclude", "parse_fit_bounds"]
 
 
 def _safe(name: str) -> str:
@@ -48,7 +59,7 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **
     plot : bool
         Write the misfit plots.
     **options
-        Passed to :func:`satheight.contacts.fwl_from_project` (window, step,
+        Passed to :func:`fwl_from_project` (window, step,
         misfit, delta, n_boot, seed, shale_curve, max_shale, exclude, fit_parameters...).
 
     Returns
@@ -80,8 +91,6 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **
         atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
         files.append(path)
         if plot:
-            from .contact_plots import misfit_plot
-
             files.append(misfit_plot(res, out / f"fwl_{_safe(name)}_misfit.png",
                                      units=project.unit_system))
     return {"project": str(project.path), "units": lu, "zones": summary, "notes": notes,
@@ -138,50 +147,12 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         points = resolve_tvdss(points, {})
     analysis = analyse_pressures(points, qualities=qualities)
     out = _out_dir(out_dir)
-
-    log = {}
-    if project is not None and with_logs:
-        names = [z.name for z in project.zones]
-        wanted = [z for z in analysis if z in names and analysis[z].fwl is not None]
-        for z in analysis:
-            if z not in names:
-                notes.append(f"zone {z or '(none)'!r} of the pressure file is not a project zone"
-                             + ("; give --zone" if z == "" else ""))
-        if wanted:
-            with warnings.catch_warnings():
-                warnings.simplefilter("ignore")
-                log, more = fwl_from_project(project, zones=wanted, n_boot=n_boot)
-            notes += more
+    log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     files = []
     summary = {}
     for name, zp in analysis.items():
-        d = {"points": len(zp.points),
-             "lines": {f: _line(lf_, lf, pf, lu, pu) for f, lf_ in zp.lines.items()},
-             "fwl": _level(zp.fwl, lf), "free_oil_level": _level(zp.free_oil_level, lf),
-             "rejected_points_lines": sorted(int(zp.points.line[i]) for l_ in zp.lines.values()
-                                             for i in l_.rejected),
-             "unknown_points": [{"line": int(zp.points.line[i]), "nearest_line": f,
-                                 "residual": r / pf} for i, f, r in zp.unknown_nearest],
-             "notes": list(zp.notes)}
-        if project is not None:
-            zs = next((z for z in project.zones if z.name == name), None)
-            if zs is not None and zp.fwl is not None:
-                d["project_fwl"] = zs.fwl / lf
-                c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, zs.fwl, None, None)
-                d["versus_project_fwl"] = _cmp(c, lf)
-        if name in log and zp.fwl is not None:
-            r = log[name]
-            c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, r.best, r.low, r.high)
-            d["log_fwl"] = {"best": r.best / lf, "interval": [r.low / lf, r.high / lf]}
-            d["versus_log_fwl"] = _cmp(c, lf)
-            if not c["consistent"]:
-                notes.append(f"zone {name}: FWL from pressures {zp.fwl.depth / lf:.2f} {lu} and "
-                             f"from log Sw {r.best / lf:.2f} {lu} disagree beyond both intervals "
-                             f"(gap {c['gap_m'] / lf:.2f} {lu})")
-        summary[name] = d
+        summary[name] = _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
         if plot:
-            from .contact_plots import pressure_plot
-
             lg = (log[name].best, log[name].low, log[name].high) if name in log else None
             files.append(pressure_plot(zp, out / f"pressures_{_safe(name or 'all')}.png",
                                        units=system, log_fwl=lg))
@@ -195,11 +166,55 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
             "files": files, "notes": notes, "analysis": analysis}
 
 
+def _log_fwls(project: Project, analysis: dict, n_boot: int, notes: list[str]) -> dict:
+    """FWL from log Sw of the project zones that have a pressure FWL (zones not in the project noted)."""
+    names = [z.name for z in project.zones]
+    wanted = [z for z in analysis if z in names and analysis[z].fwl is not None]
+    for z in analysis:
+        if z not in names:
+            notes.append(f"zone {z or '(none)'!r} of the pressure file is not a project zone"
+                         + ("; give --zone" if z == "" else ""))
+    if not wanted:
+        return {}
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        log, more = fwl_from_project(project, zones=wanted, n_boot=n_boot)
+    notes += more
+    return log
+
+
+def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, units: tuple,
+                            notes: list[str]) -> dict:
+    """One zone's block of ``pressures_summary.json`` in output units ``(lf, pf, lu, pu)``."""
+    lf, pf, lu, pu = units
+    d = {"points": len(zp.points),
+         "lines": {f: _line(lf_, lf, pf, lu, pu) for f, lf_ in zp.lines.items()},
+         "fwl": _level(zp.fwl, lf), "free_oil_level": _level(zp.free_oil_level, lf),
+         "rejected_points_lines": sorted(int(zp.points.line[i]) for l_ in zp.lines.values()
+                                         for i in l_.rejected),
+         "unknown_points": [{"line": int(zp.points.line[i]), "nearest_line": f,
+                             "residual": r / pf} for i, f, r in zp.unknown_nearest],
+         "notes": list(zp.notes)}
+    if project is not None:
+        zs = next((z for z in project.zones if z.name == name), None)
+        if zs is not None and zp.fwl is not None:
+            d["project_fwl"] = zs.fwl / lf
+            c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, zs.fwl, None, None)
+            d["versus_project_fwl"] = _cmp(c, lf)
+    if name in log and zp.fwl is not None:
+        r = log[name]
+        c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, r.best, r.low, r.high)
+        d["log_fwl"] = {"best": r.best / lf, "interval": [r.low / lf, r.high / lf]}
+        d["versus_log_fwl"] = _cmp(c, lf)
+        if not c["consistent"]:
+            notes.append(f"zone {name}: FWL from pressures {zp.fwl.depth / lf:.2f} {lu} and "
+                         f"from log Sw {r.best / lf:.2f} {lu} disagree beyond both intervals "
+                         f"(gap {c['gap_m'] / lf:.2f} {lu})")
+    return d
+
+
 def _datums(project, wells: set) -> dict:
     """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well."""
-    from .io.las import read_las
-    from .pipeline import datum_elevation, well_path
-
     out = {}
     for spec in project.wells:
         if spec.name is not None and spec.name not in wells:
@@ -236,3 +251,146 @@ def _level(lv, lf):
 def _cmp(c, lf):
     return {"difference": c["difference_m"] / lf, "gap": c["gap_m"] / lf,
             "consistent": c["consistent"]}
+
+
+# --------------------------------------------------------------------------------------
+# the FWL search over a project's wells
+
+def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequence[str] | None = None,
+                     *, shale_curve: str | None = None, max_shale: float | None = None,
+                     exclude: Sequence[tuple[str | None, float, float]] = (),
+                     fit_parameters: dict[str, tuple[float, float]] | None = None,
+                     **search_options) -> tuple[dict[str, FwlSearch], list[str]]:
+    """FWL search of each zone of a project from its wells' log Sw.
+
+    Parameters
+    ----------
+    project : satheight.project.types.Project or path
+    zones : list of str, optional
+        Zone names (default: every zone).
+    wells : list of str, optional
+        Well names to use (default: every well).
+    shale_curve : str, optional
+        Mnemonic of a shale indicator curve (file units) and ``max_shale`` its cutoff.
+    exclude : sequence of (well or None, top, base)
+        TVDSS intervals [m] left out (the user mask); ``None`` for every well.
+    fit_parameters : dict, optional
+        J-Sw parameter bounds for :func:`satheight.contacts.fit_fwl_with_parameters`.
+    **search_options
+        Passed to :func:`satheight.contacts.search_fwl` (window, step, misfit, delta,
+        n_boot, seed...).
+
+    Returns
+    -------
+    (dict[str, FwlSearch], list[str])
+        Results by zone and notes (wells skipped and why).
+    """
+    if not isinstance(project, Project):
+        project = load_project(project)
+    names = [z.name for z in project.zones]
+    zones = list(zones) if zones else names
+    for z in zones:
+        if z not in names:
+            raise SatHeightError(f"zone {z!r} is not in the project",
+                                 where=str(project.path), hint="zones: " + ", ".join(names))
+    notes: list[str] = []
+    computed = _wells_with_log_sw(project, wells, notes)
+    out = {}
+    for zname in zones:
+        samples = [_well_zone_samples(project, res, zname, exclude, shale_curve, max_shale)
+                   for res in computed]
+        samples = [s for s in samples if s is not None]
+        if not samples:
+            notes.append(f"zone {zname}: no well crosses it")
+            continue
+        result = search_fwl(samples, **search_options)
+        if fit_parameters:
+            lo, hi = result.candidates[0], result.candidates[-1]
+            result.parameters = fit_fwl_with_parameters(
+                samples, fit_parameters, fwl_bounds=(lo, hi), fwl_start=result.best,
+                misfit=result.misfit, delta=result.delta)
+        out[zname] = result
+    return out, notes
+
+
+def _wells_with_log_sw(project: Project, wells: Sequence[str] | None,
+                       notes: list[str]) -> list[WellResult]:
+    """The computed wells (of ``wells``, if given) that have log Sw; the others noted."""
+    computed = []
+    for spec in project.wells:
+        if wells and spec.name is not None and spec.name not in wells:
+            continue
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            res, _ = compute_well(project, spec)
+        if wells and res.well.name not in wells:
+            continue
+        if res.sw_log is None:
+            notes.append(f"{res.well.name}: no log Sw (no Sw curve and no Archie inputs): skipped")
+            continue
+        computed.append(res)
+    if wells:
+        missing = set(wells) - {r.well.name for r in computed}
+        for w in sorted(missing):
+            notes.append(f"{w}: not found among the project's wells with log Sw")
+    return computed
+
+
+def _well_zone_samples(project: Project, res: WellResult, zname: str, exclude, shale_curve,
+                       max_shale):
+    """One well's samples of zone ``zname`` for the search, or None if the well misses it."""
+    idx = [i for i, zn in enumerate(res.zones) if zn.name == zname]
+    if not idx:
+        return None
+    zn = res.zones[idx[0]]
+    mask = np.ones(res.tvdss.size, bool)
+    for w, top, base in exclude:
+        if w is None or w == res.well.name:
+            mask &= ~((res.tvdss >= top) & (res.tvdss <= base))
+    shale = None
+    if shale_curve:
+        key = find_curve(res.well, shale_curve)
+        if key is None:
+            raise SatHeightError(f"shale curve {shale_curve!r} is not in well "
+                                 f"{res.well.name}", where=str(res.well.source),
+                                 hint="name a curve every well has, e.g. GR")
+        shale = res.well.curves[key].data
+    return zone_samples(res.well.name, res.tvdss, res.phi, res.k, res.sw_log, zn,
+                        min_porosity=project.comparison.min_porosity,
+                        min_permeability=project.comparison.min_permeability,
+                        shale=shale, max_shale=max_shale, mask=mask)
+
+
+# --------------------------------------------------------------------------------------
+# option texts of the command line
+
+def parse_exclude(items: Sequence[str]) -> list[tuple[str | None, float, float]]:
+    """``--exclude [WELL:]TOP:BASE`` texts -> (well or None, top, base) in the project's length unit."""
+    out = []
+    for it in items:
+        parts = it.split(":")
+        try:
+            if len(parts) == 2:
+                out.append((None, float(parts[0]), float(parts[1])))
+            elif len(parts) == 3:
+                out.append((parts[0], float(parts[1]), float(parts[2])))
+            else:
+                raise ValueError
+        except ValueError:
+            raise SatHeightError(f"--exclude {it!r} is not [WELL:]TOP:BASE",
+                                 hint="e.g. --exclude VANTREL-2:2060:2062") from None
+    return out
+
+
+def parse_fit_bounds(items: Sequence[str]) -> dict[str, tuple[float, float]]:
+    """``--fit PARAM:LOW:HIGH`` texts -> {parameter: (low, high)}."""
+    out = {}
+    for it in items:
+        parts = it.split(":")
+        try:
+            name, lo, hi = parts[0], float(parts[1]), float(parts[2])
+        except (ValueError, IndexError):
+            raise SatHeightError(f"--fit {it!r} is not PARAM:LOW:HIGH",
+                                 hint="e.g. --fit swirr:0:0.3") from None
+        out[name] = (lo, hi)
+    return out

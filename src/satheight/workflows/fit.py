@@ -1,14 +1,15 @@
 """Fit a core dataset end to end: read, convert, group, fit, save the model file and plots.
 
 This is what ``satheight fit`` calls. The steps are the public functions of
-:mod:`satheight.core`, :mod:`satheight.io.core_data`, :mod:`satheight.rocktypes`
-and :mod:`satheight.models.store`; this module only wires them and writes files:
+:mod:`satheight.coreplugs`, :mod:`satheight.io.core_data`, :mod:`satheight.rocktypes`
+and :mod:`satheight.io.model_file`; this module only wires them, reads the command
+line's option texts (:func:`settings_from_options`) and writes files:
 
 - ``<model file>`` (default ``models.json``): fitted functions per rock type with
-  provenance (:mod:`satheight.models.store`);
+  provenance (:mod:`satheight.io.model_file`);
 - ``core_points.csv``: every pressure step after conversion (lab Pc, corrected
   Sw, J, reservoir Pc, equivalent height, pore-throat radius, rock type);
-- ``core_j_sw.png`` and ``core_pc.png`` (:mod:`satheight.core_plots`).
+- ``core_j_sw.png`` and ``core_pc.png`` (:mod:`satheight.plots.core`).
 """
 
 from __future__ import annotations
@@ -18,15 +19,17 @@ from pathlib import Path
 
 import numpy as np
 
-from . import constants as C
-from .core import (DEFAULT_FAMILIES, CorePoints, FluidSystem, core_points, fit_rock_types,
-                   height_from_pc, lab_to_reservoir_pc)
-from .errors import SatHeightError
-from .io.atomic import atomic_write_text
-from .io.core_data import read_core_files
-from .models import get_family
-from .models.store import models_to_dict, save_models
-from .rocktypes import RockTypeRule, plug_rock_types
+from .. import constants as C
+from ..coreplugs import (DEFAULT_FAMILIES, LAB_SYSTEMS, CorePoints, FluidSystem, core_points,
+                         fit_rock_types, fluid_system, height_from_pc, lab_to_reservoir_pc)
+from ..errors import SatHeightError
+from ..io.atomic import atomic_write_text
+from ..io.core_data import read_core_files
+from ..io.model_file import models_to_dict, save_models
+from ..models import get_family
+from ..plots.core import j_sw_plot, pc_plot
+from ..rocktypes import RockTypeRule, plug_rock_types
+from ..units import parse_quantity
 
 
 @dataclass(frozen=True)
@@ -179,8 +182,6 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     atomic_write_text(pts, points_csv(points))
     files.append(pts)
     if s.plots:
-        from .core_plots import pc_plot, j_sw_plot
-
         files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
         files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
     for rt, e in fits.items():
@@ -226,9 +227,6 @@ def parse_lab_override(text: str, base: dict) -> tuple[str, FluidSystem]:
 
     Bare numbers are mN/m and degrees.
     """
-    from .core import fluid_system
-    from .units import parse_quantity
-
     name, value = _split_pair(text, "--lab")
     if name is None:
         raise SatHeightError(f"--lab {text!r} needs SYSTEM=VALUE",
@@ -254,8 +252,6 @@ def parse_reservoir(text: str) -> tuple[str, ReservoirFluids]:
     otherwise (key ``"*"``). Bare numbers are mN/m and kg/m^3; the density
     difference may be a gradient (``"0.13 psi/ft"``).
     """
-    from .units import parse_quantity
-
     name, value = _split_pair(text, "--reservoir")
     parts = [p.strip() for p in value.split(",") if p.strip()]
     where = f"--reservoir {text}"
@@ -274,8 +270,6 @@ def parse_reservoir(text: str) -> tuple[str, ReservoirFluids]:
 
 def parse_closure(text: str):
     """``"auto"``, ``"none"`` or a pressure (bare number psi) -> setting for FitSettings."""
-    from .units import parse_quantity
-
     t = text.strip().lower()
     if t == "auto":
         return "auto"
@@ -293,8 +287,6 @@ def parse_closure(text: str):
 
 def parse_classes(text: str, kind: str, names: str | None) -> RockTypeRule:
     """Class edges ``"1,10,100"`` (mD for permeability, um for FZI) -> RockTypeRule."""
-    from .units import parse_quantity
-
     opt = "--k-classes" if kind == "permeability" else "--fzi-classes"
     try:
         if kind == "permeability":
@@ -307,3 +299,34 @@ def parse_classes(text: str, kind: str, names: str | None) -> RockTypeRule:
         what = exc.what if isinstance(exc, SatHeightError) else str(exc)
         raise SatHeightError(what, where=f"{opt} {text}",
                              hint="give increasing edges such as 1,10,100") from None
+
+
+def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0, k_factor=1.0,
+                          group_by=None, k_classes=None, fzi_classes=None, class_names=None,
+                          families=None, reservoir=(), model_file="models.json",
+                          plots=True) -> FitSettings:
+    """FitSettings from the option texts of ``satheight fit`` (units at the edge).
+
+    ``lab``, ``reservoir``: texts of the repeatable ``--lab`` and ``--reservoir``;
+    ``group_by``, ``k_classes``, ``fzi_classes``: at most one (the rock-type rule);
+    ``families``: names, or None for the default set.
+    """
+    systems = dict(LAB_SYSTEMS)
+    for text in lab:
+        name, fluid = parse_lab_override(text, systems)
+        systems[name] = fluid
+    rule = None
+    if group_by:
+        rule = RockTypeRule("column", group_by)
+    elif k_classes:
+        rule = parse_classes(k_classes, "permeability", class_names)
+    elif fzi_classes:
+        rule = parse_classes(fzi_classes, "fzi", class_names)
+    settings = FitSettings(default_system=system, systems=systems,
+                           closure=parse_closure(closure), phi_factor=phi_factor,
+                           k_factor=k_factor, rule=rule,
+                           reservoir=dict(parse_reservoir(t) for t in reservoir),
+                           model_file=model_file, plots=plots)
+    if families:
+        settings.families = tuple(families)
+    return settings
