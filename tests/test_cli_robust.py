@@ -80,7 +80,7 @@ def test_error_text_with_line_breaks_is_printed_on_one_line(project, tmp_path, m
     def bad(path):
         raise InputFileError("first part\nsecond part", where=str(path), hint="do this")
 
-    monkeypatch.setattr("satheight.workflows.run.load_project", bad)
+    monkeypatch.setattr("satheight.workflows.outputs.load_project", bad)
     code = main(["run", str(project), "--out", str(tmp_path / "o")])
     err = capsys.readouterr().err
     assert code == EXIT_BAD_INPUT

@@ -81,7 +81,17 @@ def check_complete(out: Path, old: dict[str, bytes], new_fwl: float) -> int:
     n_new = 0
     for f in sorted(out.iterdir()):
         if f.name.startswith("."):
-            assert f.name.endswith(".tmp"), f"unexpected hidden file {f.name}"
+            # a killed run leaves its lock, its work folder or a temporary file (cleaned by
+            # the next run), never a visible half file
+            assert (f.name.endswith(".tmp") or f.name == ".satheight.lock"
+                    or (f.name.startswith(".satheight-work-") and f.is_dir())), \
+                f"unexpected hidden file {f.name}"
+            continue
+        if f.name == "satheight-manifest-run.sha256":
+            # sha256sum format: 64 hex digits, two spaces, a file name of the folder
+            for line in f.read_text().splitlines():
+                digest, _, name = line.partition("  ")
+                assert len(digest) == 64 and int(digest, 16) >= 0 and "/" not in name, line
             continue
         data = f.read_bytes()
         if old.get(f.name) == data:
@@ -112,7 +122,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
-    assert len(old) == 3 * N_WELLS + 2  # per well LAS, CSV, JSON; run summary; report
+    assert len(old) == 3 * N_WELLS + 3  # per well LAS, CSV, JSON; run summary; report; manifest
     inputs = {f.name: _digest(f) for f in src.iterdir()}
 
     second = make_project(src, 1500.0, "p2.toml")

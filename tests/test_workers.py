@@ -1,7 +1,8 @@
 """run_project with worker processes gives the run of one worker: files, failures, summary.
 
 The project is the demo field plus a well whose file is not LAS and a second copy
-of a well under the same name (the copy must fail: its outputs would collide).
+of a well's file under another file name, with the same WELL name (the copy must fail: its
+outputs would collide).
 Everything is compared between workers=1 and workers=2; nothing is hard-coded.
 """
 
@@ -25,9 +26,10 @@ def project(tmp_path_factory):
         if f.suffix in (".las", ".csv", ".json"):
             shutil.copy(f, d / f.name)
     (d / "BROKEN.las").write_text("not a log file\n")
+    shutil.copy(DEMO / "VANTREL-1.las", d / "VANTREL-1-copy.las")
     text = (DEMO / "demo_project.toml").read_text()
     extra = ('\n[[wells]]\nlas = "BROKEN.las"\n'
-             '\n[[wells]]\nlas = "VANTREL-1.las"\n')     # same WELL name as the first well
+             '\n[[wells]]\nlas = "VANTREL-1-copy.las"\n')     # same WELL name as the first well
     head, zones = text.split("[[zones]]", 1)
     (d / "p.toml").write_text(head + extra + "\n[[zones]]" + zones)
     return d / "p.toml"

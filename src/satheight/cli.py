@@ -1,14 +1,19 @@
 """Command line: argument parsing and printing only; each command calls one workflow function.
 
 Exit codes: 0 everything ran; 2 bad input (file, project value, unit, missing
-curve); 3 the project ran but one or more wells failed; 1 an unexpected
-internal error (please report it with ``--verbose`` output).
+curve, option value) or an output that cannot or may not be written (folder of an
+earlier run without ``--overwrite``, a file satheight did not write, an input as
+output, another run holding the folder's lock, a full disk); 3 the project ran but
+one or more wells failed; 1 an unexpected internal error (please report it with
+``--verbose`` output); 130 interrupted. Text read from input files is printed with
+its control characters escaped (:func:`terminal_text`).
 """
 
 from __future__ import annotations
 
 import argparse
 import os
+import re
 import sys
 import traceback
 from pathlib import Path
@@ -18,7 +23,6 @@ from .errors import InputFileError, SatHeightError
 from .workflows.contacts import parse_exclude, parse_fit_bounds, run_fwl, run_pressures
 from .workflows.fit import fit_table, run_fit, settings_from_options
 from .workflows.inspect import inspect_las
-from .workflows.outputs import check_output_folder
 from .workflows.run import run_project
 
 EXIT_OK = 0
@@ -126,6 +130,7 @@ def _add_fit_parser(sub):
                         'e.g. "Upper Sand=26 mN/m,300 kg/m3"; without ROCK= for every rock type; '
                         "needed for reservoir Pc, the height axis and height functions")
     f.add_argument("--no-plots", action="store_true", help="skip the plots")
+    _overwrite_option(f)
 
 
 def _fit(args, out) -> int:
@@ -134,15 +139,14 @@ def _fit(args, out) -> int:
         k_factor=args.k_factor, group_by=args.group_by, k_classes=args.k_classes,
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
         reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots)
-    run = run_fit(args.files, args.out, settings)
-    print(fit_table(run.fits), file=out)
+    run = run_fit(args.files, args.out, settings, overwrite=args.overwrite)
+    _say(out, fit_table(run.fits))
     for w in run.warnings:
-        print(f"note: {w}", file=out)
-    print("wrote:", file=out)
+        _say(out, f"note: {w}")
+    _say(out, "wrote:")
     for f in run.files:
-        print(f"  {f}", file=out)
-    print("Caution: fitted functions are estimates for review by a qualified professional.",
-          file=out)
+        _say(out, f"  {f}")
+    _say(out, "Caution: fitted functions are estimates for review by a qualified professional.")
     return EXIT_OK
 
 
@@ -154,7 +158,8 @@ def _add_contact_commands(sub):
                                    "and per well, with a block-bootstrap interval. Depths in the "
                                    "project's length unit. Prints a table, writes "
                                    "fwl_<zone>.json and a misfit plot.")
-    f.add_argument("project", metavar="PROJECT_FILE", help="path of the project file (.toml)")
+    f.add_argument("project", metavar="PROJECT_FILE", nargs="?", default=None,
+                   help="path of the project file (.toml)")
     f.add_argument("--zone", action="append", metavar="ZONE",
                    help="zone to search (repeat for several; default: every zone)")
     f.add_argument("--wells", nargs="+", metavar="WELL",
@@ -183,6 +188,7 @@ def _add_contact_commands(sub):
     f.add_argument("--fit", action="append", default=[], metavar="PARAM:LOW:HIGH",
                    help="also fit this J-Sw parameter within bounds with the FWL; repeatable")
     f.add_argument("--no-plots", action="store_true", help="skip the misfit plots")
+    _overwrite_option(f)
 
     pr = sub.add_parser("pressures", help="fluid gradients, FWL and free-oil level from pressures",
                         description="Fit a pressure-depth line per fluid (least squares with "
@@ -200,49 +206,48 @@ def _add_contact_commands(sub):
     pr.add_argument("--use-poor", action="store_true", help="also fit points of quality poor")
     pr.add_argument("--no-logs", action="store_true", help="skip the FWL search from log Sw")
     pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
+    _overwrite_option(pr)
 
 
 def _fwl(args, out) -> int:
     project = Path(args.project)
     rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
-                  plot=not args.no_plots, window=args.window, step=args.step,
+                  plot=not args.no_plots, overwrite=args.overwrite, window=args.window, step=args.step,
                   misfit=args.misfit, delta=args.delta, n_boot=args.resamples,
                   block_length=args.block, seed=args.seed, tolerance=args.tolerance,
                   shale_curve=args.shale_curve, max_shale=args.max_shale,
                   exclude=parse_exclude(args.exclude),
                   fit_parameters=parse_fit_bounds(args.fit) or None)
     u = rep["units"]
-    print(f"project: {rep['project']}", file=out)
+    _say(out, f"project: {rep['project']}")
     for name, d in rep["zones"].items():
         lo, hi = d["interval"]
-        print(f"zone {name}: best FWL {d['best_fwl']:.2f} {u}, "
+        _say(out, f"zone {name}: best FWL {d['best_fwl']:.2f} {u}, "
               f"{int(round(d['confidence_level'] * 100))} % interval {lo:.2f} - {hi:.2f} {u}; "
               f"project FWL {d['project_fwl']:.2f} {u}; misfit best {d['misfit_at_best']:.5f}, "
-              f"at project FWL {d['misfit_at_project_fwl']:.5f} ({d['samples']} samples)", file=out)
-        print(f"  {'well':<16} {'samples':>7} {'best FWL':>10} {'low':>10} {'high':>10}  flag",
-              file=out)
+              f"at project FWL {d['misfit_at_project_fwl']:.5f} ({d['samples']} samples)")
+        _say(out, f"  {'well':<16} {'samples':>7} {'best FWL':>10} {'low':>10} {'high':>10}  flag")
         for w in d["wells"]:
             if w["best_fwl"] is None:
-                print(f"  {w['well']:<16} {w['samples']:>7} {'-':>10}", file=out)
+                _say(out, f"  {w['well']:<16} {w['samples']:>7} {'-':>10}")
                 continue
-            print(f"  {w['well']:<16} {w['samples']:>7} {w['best_fwl']:>10.2f} "
+            _say(out, f"  {w['well']:<16} {w['samples']:>7} {w['best_fwl']:>10.2f} "
                   f"{w['interval'][0]:>10.2f} {w['interval'][1]:>10.2f}  "
-                  f"{'OUTSIDE' if w['flagged'] else ''}", file=out)
+                  f"{'OUTSIDE' if w['flagged'] else ''}")
         p = d.get("parameters")
         if p:
             vals = ", ".join(f"{k} {v:.4g}" for k, v in p["values"].items())
-            print(f"  joint fit: FWL {p['fwl']:.2f} {u}, {vals}", file=out)
+            _say(out, f"  joint fit: FWL {p['fwl']:.2f} {u}, {vals}")
             if p.get("correlation"):
                 names = p["names"]
                 for i, row in enumerate(p["correlation"]):
-                    print("    corr " + f"{names[i]:<8}" + " ".join(f"{v:+.2f}" for v in row),
-                          file=out)
+                    _say(out, "    corr " + f"{names[i]:<8}" + " ".join(f"{v:+.2f}" for v in row))
         for m in d["warnings"]:
-            print(f"  note: {m}", file=out)
+            _say(out, f"  note: {m}")
     for m in rep["notes"]:
-        print(f"note: {m}", file=out)
+        _say(out, f"note: {m}")
     for fpath in rep["files"]:
-        print(f"wrote {fpath}", file=out)
+        _say(out, f"wrote {fpath}")
     return EXIT_OK
 
 
@@ -251,39 +256,40 @@ def _pressures(args, out) -> int:
     quals = ("good", "fair", "poor") if args.use_poor else ("good", "fair")
     rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
                         zone=args.zone, units=args.units, qualities=quals,
-                        with_logs=not args.no_logs, plot=not args.no_plots)
+                        with_logs=not args.no_logs, plot=not args.no_plots,
+                        overwrite=args.overwrite)
     u = rep["units"]
-    print(f"pressure file: {rep['file']}", file=out)
+    _say(out, f"pressure file: {rep['file']}")
     for name, d in rep["zones"].items():
-        print(f"zone {name or '(all points)'}: {d['points']} points", file=out)
+        _say(out, f"zone {name or '(all points)'}: {d['points']} points")
         for fluid, ln in d["lines"].items():
             se = "" if ln["gradient_se"] is None else f" +- {ln['gradient_se']:.4f}"
             dse = "" if ln["density_se_g_cm3"] is None else f" +- {ln['density_se_g_cm3']:.4f}"
-            print(f"  {fluid:<6} gradient {ln['gradient']:.4f}{se} {u['gradient']}, density "
+            _say(out, f"  {fluid:<6} gradient {ln['gradient']:.4f}{se} {u['gradient']}, density "
                   f"{ln['density_g_cm3']:.4f}{dse} g/cm3, {ln['points_used']} used, "
-                  f"{ln['points_rejected']} rejected", file=out)
+                  f"{ln['points_rejected']} rejected")
         for key, label in (("fwl", "FWL"), ("free_oil_level", "free-oil level")):
             lv = d.get(key)
             if lv:
                 iv = lv["interval"]
                 rng = "" if iv[0] is None else f" ({iv[0]:.2f} - {iv[1]:.2f})"
-                print(f"  {label} {lv['depth']:.2f} {u['depth']}{rng}", file=out)
+                _say(out, f"  {label} {lv['depth']:.2f} {u['depth']}{rng}")
         if "versus_project_fwl" in d:
             c = d["versus_project_fwl"]
-            print(f"  project FWL {d['project_fwl']:.2f} {u['depth']}: "
-                  f"{'within' if c['consistent'] else 'outside'} the pressure interval", file=out)
+            _say(out, f"  project FWL {d['project_fwl']:.2f} {u['depth']}: "
+                  f"{'within' if c['consistent'] else 'outside'} the pressure interval")
         if "versus_log_fwl" in d:
             c = d["versus_log_fwl"]
             lg = d["log_fwl"]
-            print(f"  FWL from log Sw {lg['best']:.2f} ({lg['interval'][0]:.2f} - "
+            _say(out, f"  FWL from log Sw {lg['best']:.2f} ({lg['interval'][0]:.2f} - "
                   f"{lg['interval'][1]:.2f}) {u['depth']}: "
-                  f"{'consistent' if c['consistent'] else 'INCONSISTENT'}", file=out)
+                  f"{'consistent' if c['consistent'] else 'INCONSISTENT'}")
         for m in d["notes"]:
-            print(f"  note: {m}", file=out)
+            _say(out, f"  note: {m}")
     for m in rep["notes"]:
-        print(f"note: {m}", file=out)
+        _say(out, f"note: {m}")
     for fpath in rep["files"]:
-        print(f"wrote {fpath}", file=out)
+        _say(out, f"wrote {fpath}")
     return EXIT_OK
 
 
@@ -293,56 +299,91 @@ def _common_run_options(sp):
     sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="md",
                     help="main depth scale of the track plots: measured depth (default) or "
                          "TVDSS (true vertical depth below datum); the other is the second scale")
-    sp.add_argument("--workers", metavar="N", type=_positive_int, default=1,
-                    help="run N wells at a time in separate processes (default 1)")
-    sp.add_argument("--overwrite", action="store_true",
-                    help="replace the results of an earlier run in the output folder (without "
-                         "it, a folder holding a run_summary.json is refused)")
+    sp.add_argument("--workers", metavar="N|auto", type=_workers, default=1,
+                    help="run N wells at a time in separate processes (default 1; auto: one per "
+                         "available core)")
+    _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
 
 
-def _positive_int(text: str) -> int:
+def _overwrite_option(sp) -> None:
+    sp.add_argument("--overwrite", action="store_true",
+                    help="replace the files an earlier run of this command wrote into the output "
+                         "folder (listed in its satheight-manifest-*.sha256); files satheight "
+                         "did not write are never replaced")
+
+
+def available_cores() -> int:
+    """Cores this process may run on (its CPU affinity where the system tells it)."""
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):
+        return max(1, os.cpu_count() or 1)
+
+
+def _workers(text: str) -> int:
+    """``--workers``: a whole number >= 1, or ``auto`` (the cores available)."""
+    if text.strip().lower() == "auto":
+        return available_cores()
     try:
         value = int(text)
     except ValueError:
-        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+        raise argparse.ArgumentTypeError(f"expected a whole number or auto, got {text!r}") from None
     if value < 1:
-        raise argparse.ArgumentTypeError(f"must be 1 or more, got {value}")
+        raise argparse.ArgumentTypeError(f"must be 1 or more (or auto), got {value}")
     return value
 
 
+def _parse(parser: argparse.ArgumentParser, argv) -> argparse.Namespace:
+    """Parse ``argv``; ``fwl --wells A B PROJECT_FILE`` keeps its project file.
+
+    ``--wells`` takes several names, so argparse would take a project file written after
+    them as one more well: when no PROJECT_FILE is left, the last ``--wells`` value is
+    the project file if it names an existing file.
+    """
+    args = parser.parse_args(argv)
+    if args.command == "fwl" and args.project is None:
+        if args.wells and Path(args.wells[-1]).is_file():
+            args.project = args.wells.pop()
+        if args.project is None:
+            parser.error("fwl: the following arguments are required: PROJECT_FILE")
+        if args.wells == []:
+            parser.error("fwl: argument --wells: expected at least one well name")
+    return args
+
+
 def _print_run(report, out) -> int:
-    print(f"project: {report.project.path}", file=out)
-    print(f"output folder: {report.out_dir.resolve()}", file=out)
+    _say(out, f"project: {report.project.path}")
+    _say(out, f"output folder: {report.out_dir.resolve()}")
     for w in report.wells:
         if w.ok:
-            print(f"  {w.name}: ok", file=out)
+            _say(out, f"  {w.name}: ok")
             full = w.summary or (w.result.summary if w.result else None) or {}
             s = full.get("whole_well", {})
             if s.get("samples_compared"):
-                print(f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
+                _say(out, f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
                       f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}", file=out)
+                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}")
             for f in w.files:
-                print(f"    {f}", file=out)
+                _say(out, f"    {f}")
             for m in w.warnings:
-                print(f"    note: {m}", file=out)
+                _say(out, f"    note: {m}")
         else:
-            print(f"  {w.name}: FAILED: {w.error}", file=out)
+            _say(out, f"  {w.name}: FAILED: {w.error}")
     if report.section_file is not None:
-        print(f"field section: {report.section_file}", file=out)
+        _say(out, f"field section: {report.section_file}")
     for note in report.notes:
-        print(f"note: {note}", file=out)
-    print(f"run summary: {report.summary_file}", file=out)
-    print(f"report: {report.out_dir / 'report.html'}", file=out)
-    print("Caution: results are estimates for review by a qualified professional; local "
-          "regulations and reserves-reporting rules govern their use.", file=out)
+        _say(out, f"note: {note}")
+    _say(out, f"run summary: {report.summary_file}")
+    _say(out, f"report: {report.out_dir / 'report.html'}")
+    _say(out, "Caution: results are estimates for review by a qualified professional; local "
+          "regulations and reserves-reporting rules govern their use.")
     return EXIT_WELLS_FAILED if report.failed else EXIT_OK
 
 
 def _inspect(path: str, as_json: bool, out) -> int:
-    print(inspect_las(path, as_json), file=out)
+    _say(out, inspect_las(path, as_json))
     return EXIT_OK
 
 
@@ -351,39 +392,66 @@ def _one_line(exc: BaseException) -> str:
     return " ".join(ln.strip() for ln in str(exc).splitlines() if ln.strip())
 
 
+#: Control characters (C0 but tab and newline, DEL, C1) and bidirectional-text controls:
+#: shown escaped, so text read from input files cannot move the cursor, recolour or
+#: rewrite the terminal (an ANSI escape sequence loses its ESC and is printed as text).
+_CONTROL = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]")
+
+
+def terminal_text(text: str) -> str:
+    """``text`` with every control character shown as an escape (``\\x1b``, ``\\u202e``)."""
+    return _CONTROL.sub(lambda m: (f"\\x{ord(m.group()):02x}" if ord(m.group()) < 0x100
+                                   else f"\\u{ord(m.group()):04x}"), text)
+
+
+def _say(out, text="") -> None:
+    """Print one or more lines of our own text, sanitised (see :func:`terminal_text`)."""
+    for line in str(text).split("\n"):
+        print(terminal_text(line), file=out)
+
+
+def _error(text: str) -> None:
+    print(terminal_text(f"satheight: {text}"), file=sys.stderr)
+
+
+def _dispatch(args) -> int:
+    """Run the command of ``args`` (parsed) and print what it did."""
+    if args.command == "inspect":
+        return _inspect(args.las, args.json, sys.stdout)
+    if args.command == "fit":
+        return _fit(args, sys.stdout)
+    if args.command == "fwl":
+        return _fwl(args, sys.stdout)
+    if args.command == "pressures":
+        return _pressures(args, sys.stdout)
+    if args.command == "demo":
+        project = find_demo_project()
+        out = args.out
+    else:
+        project = Path(args.project)
+        out = args.out or f"{project.stem}_results"
+    report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
+                         depth_axis=args.depth_axis, workers=args.workers,
+                         keep_results=False, overwrite=args.overwrite)
+    return _print_run(report, sys.stdout)
+
+
 def main(argv=None) -> int:
+    """The command line; returns the exit status (see the module docstring)."""
     parser = build_parser()
-    args = parser.parse_args(argv)
+    args = _parse(parser, argv)
     if args.command is None:
         parser.print_help()
         return EXIT_BAD_INPUT
     try:
-        if args.command == "inspect":
-            return _inspect(args.las, args.json, sys.stdout)
-        if args.command == "fit":
-            return _fit(args, sys.stdout)
-        if args.command == "fwl":
-            return _fwl(args, sys.stdout)
-        if args.command == "pressures":
-            return _pressures(args, sys.stdout)
-        if args.command == "demo":
-            project = find_demo_project()
-            out = args.out
-        else:
-            project = Path(args.project)
-            out = args.out or f"{project.stem}_results"
-        check_output_folder(out, args.overwrite)
-        report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
-                             depth_axis=args.depth_axis, workers=args.workers,
-                             keep_results=False)
-        return _print_run(report, sys.stdout)
+        return _dispatch(args)
     except SatHeightError as exc:
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: error: {_one_line(exc)}", file=sys.stderr)
+        _error(f"error: {_one_line(exc)}")
         return exc.exit_code
     except KeyboardInterrupt:
-        print("satheight: interrupted", file=sys.stderr)
+        _error("interrupted")
         return 130
     except BrokenPipeError:  # output piped into e.g. `head`: not an error of ours
         try:
@@ -391,11 +459,18 @@ def main(argv=None) -> int:
         except OSError:
             pass
         return EXIT_OK
+    except OSError as exc:   # the file system refused (permissions, full disk, a path loop)
+        if args.verbose:
+            traceback.print_exc()
+        where = f"{exc.filename}: " if exc.filename else ""
+        _error(f"error: {where}{exc.strerror or _one_line(exc)} (check the path, its "
+               "permissions and free disk space)")
+        return EXIT_BAD_INPUT
     except Exception as exc:  # noqa: BLE001 - last line of defence for the command line
         if args.verbose:
             traceback.print_exc()
-        print(f"satheight: internal error: {type(exc).__name__}: {_one_line(exc)} "
-              "(rerun with --verbose and report it)", file=sys.stderr)
+        _error(f"internal error: {type(exc).__name__}: {_one_line(exc)} "
+               "(rerun with --verbose and report it)")
         return EXIT_INTERNAL
 
 

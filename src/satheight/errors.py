@@ -72,3 +72,7 @@ class WellFailedError(SatHeightError):
 
 class OutputExistsError(SatHeightError):
     """The output folder already holds the results of an earlier run."""
+
+
+class OutputWriteError(SatHeightError):
+    """An output folder or file cannot be written (permissions, full disk, file-size limit)."""

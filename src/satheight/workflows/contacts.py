@@ -9,6 +9,7 @@ runs the search of :mod:`satheight.contacts`.
 from __future__ import annotations
 
 import json
+import math
 import warnings
 from pathlib import Path
 from typing import Sequence
@@ -23,10 +24,11 @@ from ..io.las import read_las
 from ..io.pressures import read_pressure_points, resolve_tvdss
 from ..plots.contacts import misfit_plot, pressure_plot
 from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
-from ..project.reader import load_project
 from ..project.types import Project
 from ..results import WellResult
 from ..roles import find_curve
+from .output_folder import InputFiles, OutputSession
+from .outputs import check_wells, open_project, project_inputs
 from .well import compute_well, datum_elevation, well_path
 
 __all__ = ["run_fwl", "run_pressures", "fwl_from_project", "parse_exclude", "parse_fit_bounds"]
@@ -37,38 +39,95 @@ def _safe(name: str) -> str:
     return keep.strip(".") or "zone"
 
 
-def _out_dir(out) -> Path:
-    p = Path(out)
-    if p.exists() and not p.is_dir():
-        raise SatHeightError("output path exists and is not a folder", where=str(p),
-                             hint="choose another --out")
-    p.mkdir(parents=True, exist_ok=True)
-    return p
+#: Command-line option of each search setting (for the messages of :func:`check_fwl_options`).
+FWL_OPTIONS = {"window": "--window", "step": "--step", "delta": "--delta", "n_boot": "--resamples",
+               "block_length": "--block", "seed": "--seed", "tolerance": "--tolerance",
+               "max_shale": "--max-shale", "shale_curve": "--shale-curve", "exclude": "--exclude",
+               "fit_parameters": "--fit"}
 
 
-def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **options) -> dict:
+def _refuse(key: str, what: str, hint: str) -> SatHeightError:
+    opt = FWL_OPTIONS.get(key, key)
+    return SatHeightError(f"{opt} {what}", hint=hint)
+
+
+def _finite(v) -> bool:
+    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+
+
+def check_fwl_options(options: dict) -> None:
+    """Refuse zero, negative, reversed or lone values of the FWL search settings.
+
+    Each error names the command-line option (:data:`FWL_OPTIONS`). A step of zero or
+    a reversed window would otherwise be replaced or searched silently.
+    """
+    o = {k: v for k, v in options.items() if v is not None}
+    if "window" in o and not (len(o["window"]) == 2 and all(map(_finite, o["window"]))
+                              and o["window"][0] < o["window"][1]):
+        raise _refuse("window", f"{list(o['window'])} must be SHALLOW DEEP with SHALLOW < DEEP",
+                      "e.g. --window 2000 2100 (TVDSS, positive down)")
+    for key, example in (("step", "--step 0.25"), ("delta", "--delta 0.05")):
+        if key in o and not (_finite(o[key]) and o[key] > 0):
+            raise _refuse(key, f"must be a number > 0, got {o[key]}", f"e.g. {example}")
+    if "tolerance" in o and not (_finite(o["tolerance"]) and o["tolerance"] >= 0):
+        raise _refuse("tolerance", f"must be a number >= 0, got {o['tolerance']}",
+                      "e.g. --tolerance 0.5")
+    if "n_boot" in o and not (isinstance(o["n_boot"], int) and 10 <= o["n_boot"] <= 5000):
+        raise _refuse("n_boot", f"must be a whole number from 10 to 5000, got {o['n_boot']}",
+                      "e.g. --resamples 200")
+    if "block_length" in o and not (isinstance(o["block_length"], int) and o["block_length"] >= 1):
+        raise _refuse("block_length", f"must be a whole number >= 1, got {o['block_length']}",
+                      "or leave it out to take it from the residual correlation")
+    if "seed" in o and not (isinstance(o["seed"], int) and o["seed"] >= 0):
+        raise _refuse("seed", f"must be a whole number >= 0, got {o['seed']}", "e.g. --seed 1")
+    if ("shale_curve" in o) != ("max_shale" in o):
+        raise _refuse("shale_curve" if "shale_curve" in o else "max_shale",
+                      "needs --max-shale" if "shale_curve" in o else "needs --shale-curve",
+                      "give both --shale-curve CURVE and --max-shale VALUE, or neither")
+    if "max_shale" in o and not _finite(o["max_shale"]):
+        raise _refuse("max_shale", f"must be a finite number, got {o['max_shale']}",
+                      "e.g. --max-shale 90")
+    for w, top, base in o.get("exclude", ()):
+        if not (_finite(top) and _finite(base) and top < base):
+            raise _refuse("exclude", f"interval {top}:{base} must be TOP:BASE with TOP < BASE",
+                          "e.g. --exclude 2060:2062 (TVDSS, positive down)")
+    for name, (lo, hi) in (o.get("fit_parameters") or {}).items():
+        if not (_finite(lo) and _finite(hi) and lo < hi):
+            raise _refuse("fit_parameters", f"bounds of {name!r} must be LOW < HIGH, got "
+                          f"{lo}:{hi}", "e.g. --fit swirr:0:0.3")
+
+
+def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
+            overwrite: bool = False, **options) -> dict:
     """FWL search per zone from log Sw; writes ``fwl_<zone>.json`` and ``fwl_<zone>_misfit.png``.
 
     Parameters
     ----------
     project_path : str or pathlib.Path
     out_dir : str or pathlib.Path
-        Created if missing.
+        Created if missing; written through
+        :class:`satheight.workflows.output_folder.OutputSession` (command ``fwl``).
     zones, wells : list of str, optional
-        Restrict the zones searched and the wells used.
+        Restrict the zones searched and the wells used (a name that matches no zone
+        or well of the project is an error).
     plot : bool
         Write the misfit plots.
+    overwrite : bool
+        Replace the files of an earlier ``fwl`` into the same folder.
     **options
-        Passed to :func:`fwl_from_project` (window, step,
-        misfit, delta, n_boot, seed, shale_curve, max_shale, exclude, fit_parameters...).
+        Checked (:func:`check_fwl_options`), then passed to :func:`fwl_from_project`
+        (window, step, misfit, delta, n_boot, seed, shale_curve, max_shale, exclude,
+        fit_parameters...).
 
     Returns
     -------
     dict
         ``{"project", "units", "zones": {name: summary}, "notes", "files"}``.
     """
-    project = load_project(project_path)
-    out = _out_dir(out_dir)
+    check_fwl_options(options)
+    project = open_project(project_path)
+    check_wells(project)
+    inputs = project_inputs(project)
     lu = U.UNIT_SYSTEMS[project.unit_system]["length"]
     lf = U.factor(lu, "length")
     if "window" in options and options["window"] is not None:
@@ -82,24 +141,27 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **
         warnings.simplefilter("always")
         results, notes = fwl_from_project(project, zones=zones, wells=wells, **options)
     notes += [str(w.message) for w in caught]
-    files = []
     summary = {}
-    for name, res in results.items():
-        d = res.to_dict(lf, lu)
-        summary[name] = d
-        path = out / f"fwl_{_safe(name)}.json"
-        atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
-        files.append(path)
-        if plot:
-            files.append(misfit_plot(res, out / f"fwl_{_safe(name)}_misfit.png",
-                                     units=project.unit_system))
+    with OutputSession(Path(out_dir), "fwl", overwrite, inputs) as session:
+        files = []
+        for name, res in results.items():
+            d = res.to_dict(lf, lu)
+            summary[name] = d
+            path = session.work / f"fwl_{_safe(name)}.json"
+            atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
+            files.append(path)
+            if plot:
+                files.append(misfit_plot(res, session.work / f"fwl_{_safe(name)}_misfit.png",
+                                         units=project.unit_system))
+        files = session.commit(files)
     return {"project": str(project.path), "units": lu, "zones": summary, "notes": notes,
             "files": files, "results": results}
 
 
 def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = None,
                   units: str | None = None, qualities=DEFAULT_QUALITIES,
-                  with_logs: bool = True, plot: bool = True, n_boot: int = 200) -> dict:
+                  with_logs: bool = True, plot: bool = True, n_boot: int = 200,
+                  overwrite: bool = False) -> dict:
     """Gradients, FWL and free-oil level from a pressure file; compare with the project.
 
     Parameters
@@ -124,14 +186,21 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         Write the pressure-depth plot(s).
     n_boot : int
         Bootstrap resamples of the log search.
+    overwrite : bool
+        Replace the files of an earlier ``pressures`` into the same folder (written
+        through :class:`satheight.workflows.output_folder.OutputSession`).
 
     Returns
     -------
     dict
         ``{"file", "units", "zones": {name: summary}, "files", "notes"}``.
     """
+    inputs = InputFiles()
+    inputs.add(pressure_file, "pressure file")
+    project = open_project(project_path) if project_path is not None else None
+    if project is not None:
+        project_inputs(project, inputs)
     points = read_pressure_points(pressure_file)
-    project = load_project(project_path) if project_path is not None else None
     system = units or (project.unit_system if project else "metric")
     if system not in U.UNIT_SYSTEMS:
         raise SatHeightError(f"unknown unit system {system!r}", hint="use metric or field")
@@ -139,6 +208,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     lf, pf = U.factor(lu, "length"), U.factor(pu, "pressure")
     notes: list[str] = []
     if zone is not None:
+        _check_zone_option(zone, points, project)
         blank = points.zone == ""
         points.zone[blank] = zone            # our own copy, read from the file
     if project is not None and (points.tvdss != points.tvdss).any():
@@ -146,22 +216,22 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
     analysis = analyse_pressures(points, qualities=qualities)
-    out = _out_dir(out_dir)
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
-    files = []
-    summary = {}
-    for name, zp in analysis.items():
-        summary[name] = _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
-        if plot:
-            lg = (log[name].best, log[name].low, log[name].high) if name in log else None
-            files.append(pressure_plot(zp, out / f"pressures_{_safe(name or 'all')}.png",
-                                       units=system, log_fwl=lg))
+    summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
+               for name, zp in analysis.items()}
     doc = {"file": str(points.source), "units": {"depth": lu, "pressure": pu,
                                                   "density": "g/cm3", "gradient": f"{pu}/{lu}"},
            "qualities_fitted": list(qualities), "zones": summary, "notes": notes}
-    path = out / "pressures_summary.json"
-    atomic_write_text(path, json.dumps(doc, indent=2, allow_nan=False) + "\n")
-    files.insert(0, path)
+    with OutputSession(Path(out_dir), "pressures", overwrite, inputs) as session:
+        path = session.work / "pressures_summary.json"
+        atomic_write_text(path, json.dumps(doc, indent=2, allow_nan=False) + "\n")
+        files = [path]
+        for name, zp in analysis.items() if plot else ():
+            lg = (log[name].best, log[name].low, log[name].high) if name in log else None
+            files.append(pressure_plot(zp, session.work / f"pressures_{_safe(name or 'all')}.png",
+                                       units=system, log_fwl=lg))
+        files = session.commit(files[1:] + files[:1])
+    files = files[-1:] + files[:-1]
     return {"file": str(points.source), "units": doc["units"], "zones": summary,
             "files": files, "notes": notes, "analysis": analysis}
 
@@ -211,6 +281,16 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
                          f"from log Sw {r.best / lf:.2f} {lu} disagree beyond both intervals "
                          f"(gap {c['gap_m'] / lf:.2f} {lu})")
     return d
+
+
+def _check_zone_option(zone: str, points, project: Project | None) -> None:
+    """``--zone`` must name a project zone (with a project) and fill at least one point."""
+    if project is not None and zone not in [z.name for z in project.zones]:
+        raise SatHeightError(f"--zone {zone!r} is not a zone of the project", where="--zone",
+                             hint="zones: " + ", ".join(z.name for z in project.zones))
+    if not (points.zone == "").any():
+        raise SatHeightError(f"--zone {zone!r} matches no point: every point of the file names "
+                             "its zone", hint="leave --zone out")
 
 
 def _datums(project, wells: set) -> dict:
@@ -286,7 +366,7 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
         Results by zone and notes (wells skipped and why).
     """
     if not isinstance(project, Project):
-        project = load_project(project)
+        project = open_project(project)
     names = [z.name for z in project.zones]
     zones = list(zones) if zones else names
     for z in zones:
@@ -294,7 +374,11 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
             raise SatHeightError(f"zone {z!r} is not in the project",
                                  where=str(project.path), hint="zones: " + ", ".join(names))
     notes: list[str] = []
-    computed = _wells_with_log_sw(project, wells, notes)
+    computed, all_names = _wells_with_log_sw(project, wells, notes)
+    for w, _, _ in exclude:
+        if w is not None and w not in all_names:
+            raise SatHeightError(f"--exclude names well {w!r}, which is not a well of the project",
+                                 hint="wells: " + ", ".join(all_names))
     out = {}
     for zname in zones:
         samples = [_well_zone_samples(project, res, zname, exclude, shale_curve, max_shale)
@@ -314,26 +398,36 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
 
 
 def _wells_with_log_sw(project: Project, wells: Sequence[str] | None,
-                       notes: list[str]) -> list[WellResult]:
-    """The computed wells (of ``wells``, if given) that have log Sw; the others noted."""
-    computed = []
+                       notes: list[str]) -> tuple[list[WellResult], list[str]]:
+    """The computed wells (of ``wells``, if given) that have log Sw, the others noted; and
+    the names of every well of the project.
+
+    Raises
+    ------
+    SatHeightError
+        A name of ``wells`` (``--wells``) matches no well of the project.
+    """
+    computed, all_names = [], []
     for spec in project.wells:
         if wells and spec.name is not None and spec.name not in wells:
+            all_names.append(spec.name)
             continue
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
             res, _ = compute_well(project, spec)
+        all_names.append(res.well.name)
         if wells and res.well.name not in wells:
             continue
         if res.sw_log is None:
             notes.append(f"{res.well.name}: no log Sw (no Sw curve and no Archie inputs): skipped")
             continue
         computed.append(res)
-    if wells:
-        missing = set(wells) - {r.well.name for r in computed}
-        for w in sorted(missing):
-            notes.append(f"{w}: not found among the project's wells with log Sw")
-    return computed
+    unknown = sorted(set(wells or ()) - set(all_names))
+    if unknown:
+        raise SatHeightError(f"--wells {' '.join(map(repr, unknown))} match(es) no well of the "
+                             "project", where=str(project.path),
+                             hint="wells: " + ", ".join(all_names))
+    return computed, all_names
 
 
 def _well_zone_samples(project: Project, res: WellResult, zname: str, exclude, shale_curve,

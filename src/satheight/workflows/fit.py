@@ -14,6 +14,7 @@ line's option texts (:func:`settings_from_options`) and writes files:
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -30,6 +31,7 @@ from ..models import get_family
 from ..plots.core import j_sw_plot, pc_plot
 from ..rocktypes import RockTypeRule, plug_rock_types
 from ..units import parse_quantity
+from .output_folder import InputFiles, OutputSession
 
 
 @dataclass(frozen=True)
@@ -116,7 +118,8 @@ def points_csv(points: CorePoints) -> str:
     return frame.to_csv(index=False, float_format="%.6g", lineterminator="\n")
 
 
-def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
+def run_fit(paths, out_dir, settings: FitSettings | None = None,
+            overwrite: bool = False) -> FitRun:
     """Read core files, convert, group by rock type, fit, and write the outputs.
 
     Parameters
@@ -124,8 +127,12 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     paths : sequence of path
         Core-data files (any of the layouts of :mod:`satheight.io.core_data`).
     out_dir : path
-        Output folder, created if missing.
+        Output folder, created if missing. The files are written through
+        :class:`satheight.workflows.output_folder.OutputSession` (command ``fit``):
+        none replaces an input or a file satheight did not write.
     settings : FitSettings, optional
+    overwrite : bool
+        Replace the files of an earlier ``fit`` into the same folder.
 
     Returns
     -------
@@ -141,6 +148,10 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
         get_family(fam, where="families")
     if not paths:
         raise SatHeightError("no core-data files given", hint="name the pressure-steps and plug tables")
+    _check_model_file_name(s.model_file)
+    inputs = InputFiles()
+    for p in paths:
+        inputs.add(p, "core-data file")
     ds = read_core_files(paths, default_system=s.default_system, systems=s.systems)
     warnings = ds.validate()
     used = {c.plug_id for c in ds.curves}
@@ -155,16 +166,26 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     else:
         rock_types = plug_rock_types(plugs, rule)
         rule_out = rule
+    _check_reservoir_names(s.reservoir, set(rock_types.values()))
     points = core_points(ds, closure=s.closure, phi_factor=s.phi_factor, k_factor=s.k_factor,
                          rock_types=rock_types)
     lab_sct = np.array([ds.systems[x].sigma_cos_theta for x in points.system])
     _apply_reservoir(points, lab_sct, s.reservoir)
     fits = fit_rock_types(points, s.families)
     out = Path(out_dir)
-    if out.exists() and not out.is_dir():
-        raise SatHeightError("output path exists and is not a folder", where=str(out),
-                             hint="choose another --out")
-    out.mkdir(parents=True, exist_ok=True)
+    with OutputSession(out, "fit", overwrite, inputs) as session:
+        files = _write_fit_files(session.work, s, ds, points, fits, rule_out)
+        files = session.commit(files)
+    for rt, e in fits.items():
+        for fam, msg in e["errors"].items():
+            warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
+    return FitRun(points=points, fits=fits, rule=rule_out, model_path=files[0], files=files,
+                  warnings=warnings)
+
+
+def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: dict,
+                     rule_out: RockTypeRule) -> list[Path]:
+    """Write the model file, ``core_points.csv`` and the plots into ``out``; model file first."""
     provenance = {
         "files": ds.files,
         "lab_systems": {name: ds.systems[name].to_dict()
@@ -176,19 +197,31 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
                            "delta_rho_kg_per_m3": f.delta_rho} for rt, f in s.reservoir.items()},
         "selection": "selected = J family with the lowest AIC",
     }
-    model_path = save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))
-    files = [model_path]
+    files = [save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))]
     pts = out / "core_points.csv"
     atomic_write_text(pts, points_csv(points))
     files.append(pts)
     if s.plots:
         files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
         files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
-    for rt, e in fits.items():
-        for fam, msg in e["errors"].items():
-            warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
-    return FitRun(points=points, fits=fits, rule=rule_out, model_path=model_path, files=files,
-                  warnings=warnings)
+    return files
+
+
+def _check_model_file_name(name: str) -> None:
+    """``--model-file`` is a plain file name in the output folder."""
+    if not name or Path(name).name != name or name.startswith(".") or name in (".", ".."):
+        raise SatHeightError(f"--model-file {name!r} must be a plain file name (no folder)",
+                             hint="e.g. --model-file models.json; choose the folder with --out")
+
+
+def _check_reservoir_names(reservoir: dict, rock_types: set) -> None:
+    """Refuse ``--reservoir`` rock-type names that match no rock type of the plugs."""
+    known = set(rock_types) | ({"all"} if "" in rock_types else set())
+    unknown = sorted(n for n in reservoir if n != "*" and n not in known)
+    if unknown:
+        raise SatHeightError(f"--reservoir names rock type(s) {', '.join(map(repr, unknown))} "
+                             "that no plug has",
+                             hint="rock types: " + ", ".join(sorted(map(str, known))))
 
 
 def fit_table(fits: dict) -> str:
@@ -311,6 +344,14 @@ def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0
     ``group_by``, ``k_classes``, ``fzi_classes``: at most one (the rock-type rule);
     ``families``: names, or None for the default set.
     """
+    for opt, v in (("--phi-factor", phi_factor), ("--k-factor", k_factor)):
+        if not (math.isfinite(v) and v > 0):
+            raise SatHeightError(f"{opt} must be a number > 0, got {v}",
+                                 hint="a stress-correction factor (stressed/ambient), e.g. 0.95")
+    if class_names and not (k_classes or fzi_classes):
+        raise SatHeightError("--class-names names the classes of --k-classes or --fzi-classes, "
+                             "and neither is given",
+                             hint="add --k-classes EDGES or --fzi-classes EDGES")
     systems = dict(LAB_SYSTEMS)
     for text in lab:
         name, fluid = parse_lab_override(text, systems)

@@ -1,4 +1,4 @@
-"""A well's output files, and the records of what a run read.
+"""A well's output files, their names, and what a run reads.
 
 Every file goes through :mod:`satheight.io.atomic` (a temporary file, then a rename).
 """
@@ -6,6 +6,7 @@ Every file goes through :mod:`satheight.io.atomic` (a temporary file, then a ren
 from __future__ import annotations
 
 import json
+import os
 from pathlib import Path
 
 import numpy as np
@@ -14,15 +15,17 @@ from .. import __version__
 from .. import units as U
 from ..compare import summarise
 from ..contacts import contacts_summary
-from ..coreplugs import sha256_of
-from ..errors import OutputExistsError
+from ..errors import ProjectFileError
 from ..io.atomic import atomic_open, atomic_write_text
 from ..io.las import write_las
 from ..io.las_fast import csv_rows
 from ..plots.track import track_plot
+from ..project.reader import load_project
 from ..project.types import Project
 from ..results import WellResult
 from ..well import Curve, Well
+from .output_folder import InputFiles, check_input_file
+from .report import REPORT_NAME
 from .well import OUTPUT_DECIMALS, output_curves, run_parameters
 
 
@@ -97,48 +100,112 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 
 # --------------------------------------------------------------------------------------
-# what was read, and not overwriting earlier results by accident
+# names: a well's files never collide with another's or with the run's own files
 
-#: Files whose presence marks a folder as holding the results of an earlier run.
-OUTPUT_MARKERS = ("run_summary.json",)
+#: Files a project run writes once (beside its manifest).
+RUN_FILES = ("run_summary.json", REPORT_NAME, "field_section.png")
 
 
-def _sha256(path: Path) -> str | None:
-    """SHA-256 of a file's bytes (:func:`satheight.coreplugs.sha256_of`), or None if it cannot be read."""
+def well_file_names(stem: str) -> list[str]:
+    """Every file name a well with output stem ``stem`` may write."""
+    return [f"{stem}.las", f"{stem}.csv", f"{stem}_summary.json", f"{stem}_tracks.png",
+            f"{stem}_tracks.pdf"]
+
+
+def reserved_stem(stem: str) -> bool:
+    """True if a well's files named ``stem`` would collide with the run's own files.
+
+    A well named like a run file's stem (``report``, ``run_summary``, ``field_section``)
+    or whose files take a run file's name (``run`` -> ``run_summary.json``) is refused.
+    """
+    run = {n.casefold() for n in RUN_FILES}
+    return (stem.casefold() in {Path(n).stem.casefold() for n in RUN_FILES}
+            or any(n.casefold() in run for n in well_file_names(stem)))
+
+
+def check_wells(project: Project) -> None:
+    """Refuse, before any well runs, a LAS file listed twice and clashing well names.
+
+    Raises
+    ------
+    ProjectFileError
+        Two ``[[wells]]`` name one LAS file (under two names it would be counted twice);
+        two wells have one output name (ignoring case, as some file systems do); a
+        well's name collides with a file of the run (see :func:`reserved_stem`).
+    """
+    seen_las: dict[tuple[int, int], str] = {}
+    seen_names: dict[str, str] = {}
+    for spec in project.wells:
+        label = spec.name or spec.las.name
+        try:
+            st = os.stat(spec.las)
+        except OSError:
+            st = None                      # reported by the input check
+        if st is not None:
+            key = (st.st_dev, st.st_ino)
+            if key in seen_las:
+                raise ProjectFileError(f"wells {seen_las[key]!r} and {label!r} name the same LAS "
+                                       f"file ({spec.las}); it would be counted twice",
+                                       where=str(project.path), hint="list each LAS file once")
+            seen_las[key] = label
+        if spec.name is None:
+            continue
+        stem = safe_name(spec.name)
+        if reserved_stem(stem):
+            raise ProjectFileError(f"well name {spec.name!r} collides with the run's own files "
+                                   f"({', '.join(RUN_FILES)})", where=str(project.path),
+                                   hint="rename the well in the project file")
+        if stem.casefold() in seen_names:
+            raise ProjectFileError(f"wells {seen_names[stem.casefold()]!r} and {spec.name!r} would "
+                                   "write files of the same name", where=str(project.path),
+                                   hint="give each well a distinct name in the project file")
+        seen_names[stem.casefold()] = spec.name
+
+
+# --------------------------------------------------------------------------------------
+# what is read: checked and its checksums taken before the run starts
+
+def open_project(path) -> Project:
+    """Read a project file after checking it is a regular file (one clear error otherwise)."""
+    check_input_file(path, "project file")
     try:
-        return sha256_of(path)
-    except OSError:
-        return None
+        return load_project(path)
+    except RecursionError:
+        raise ProjectFileError("the file nests tables or arrays too deeply to be read",
+                               where=str(path), hint="write the project file with flat tables "
+                                                     "as in the README") from None
 
 
-def input_record(project: Project) -> dict:
-    """Resolved paths and SHA-256 checksums of the project file and every LAS file it names.
+def project_inputs(project: Project, inputs: InputFiles | None = None) -> InputFiles:
+    """Every file a project reads (project file, tops, model files, LAS, surveys), checked
+    and checksummed into ``inputs`` (a new :class:`InputFiles` if None)."""
+    inputs = inputs if inputs is not None else InputFiles()
+    inputs.add(project.path, "project file")
+    if project.tops_file is not None:
+        inputs.add(project.tops_file, "tops file")
+    for zs in project.zones:
+        if zs.function.file is not None:
+            inputs.add(zs.function.file, f"model file of zone {zs.name!r}")
+    for spec in project.wells:
+        label = spec.name or spec.las.name
+        inputs.add(spec.las, f"LAS file of well {label!r}")
+        if spec.survey is not None:
+            inputs.add(spec.survey, f"survey of well {label!r}")
+    return inputs
+
+
+def input_record(project: Project, inputs: InputFiles) -> dict:
+    """Resolved paths and SHA-256 checksums (taken before the run) of the files a run read.
 
     Written to ``run_summary.json`` under ``"inputs"`` so a run records exactly what
     it read (paths in the project file are relative to its folder).
     """
     proj = Path(project.path).resolve()
-    return {"project_file": {"path": str(proj), "sha256": _sha256(proj)},
+    others = [p for p in [project.tops_file] + [z.function.file for z in project.zones]
+              + [w.survey for w in project.wells] if p is not None]
+    return {"project_file": {"path": str(proj), "sha256": inputs.checksum(proj)},
             "base_folder": str(proj.parent),
             "wells": [{"name": spec.name, "las": str(Path(spec.las).resolve()),
-                       "sha256": _sha256(Path(spec.las))} for spec in project.wells]}
-
-
-def check_output_folder(out_dir, overwrite: bool) -> None:
-    """Refuse to write into a folder that holds an earlier run's results unless ``overwrite``.
-
-    Raises
-    ------
-    OutputExistsError
-        If ``out_dir`` contains any of :data:`OUTPUT_MARKERS` and ``overwrite`` is false
-        (exit code 2 on the command line).
-    """
-    out_dir = Path(out_dir)
-    if overwrite or not out_dir.is_dir():
-        return
-    found = [m for m in OUTPUT_MARKERS if (out_dir / m).exists()]
-    if found:
-        raise OutputExistsError("the output folder already holds the results of an earlier run "
-                                f"({found[0]})", where=str(out_dir),
-                                hint="add --overwrite to replace them, or choose another --out")
-
+                       "sha256": inputs.checksum(spec.las)} for spec in project.wells],
+            "other_files": [{"path": str(Path(p).resolve()), "sha256": inputs.checksum(p)}
+                            for p in dict.fromkeys(others)]}

@@ -20,13 +20,14 @@ from types import SimpleNamespace
 import numpy as np
 
 from .. import __version__
-from ..errors import ProjectFileError, SatHeightError
+from ..errors import OutputWriteError, ProjectFileError, SatHeightError
 from ..io.atomic import atomic_write_text
 from ..plots.track import section_plot
-from ..project.reader import load_project
 from ..project.types import Project, WellSpec
 from ..results import WellResult
-from .outputs import CAUTION, input_record, safe_name, write_outputs
+from .output_folder import InputFiles, OutputSession
+from .outputs import (CAUTION, check_wells, input_record, open_project, project_inputs,
+                      reserved_stem, safe_name, write_outputs)
 from .report import write_report
 from .well import compute_well
 
@@ -67,7 +68,7 @@ class RunReport:
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "md", workers: int = 1,
-                keep_results: bool = True) -> RunReport:
+                keep_results: bool = True, overwrite: bool = False) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -79,6 +80,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     once its files are written (``WellOutcome.result`` is None, ``summary`` stays), so
     memory does not grow with the number of wells. The run summary
     ``run_summary.json`` lists every well, its files and errors.
+
+    The outputs are written into a work folder inside ``out_dir`` and moved into place
+    together at the end (:class:`satheight.workflows.output_folder.OutputSession`: the
+    folder's lock, the inputs' checksums verified, no file replaced that satheight did
+    not write, ``overwrite`` to replace an earlier run's files).
 
     Parameters
     ----------
@@ -95,24 +101,29 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         raise SatHeightError(f"workers must be a whole number >= 1, got {workers!r}",
                              hint="give --workers 1 or more")
     if not isinstance(project, Project):
-        project = load_project(project)
+        project = open_project(project)
+    check_wells(project)
+    inputs = project_inputs(project)
     out_dir = Path(out_dir)
-    if out_dir.exists() and not out_dir.is_dir():
-        raise SatHeightError("output path exists and is not a folder", where=str(out_dir),
-                             hint="choose another --out")
-    out_dir.mkdir(parents=True, exist_ok=True)
-    outcomes, locations = _run_wells(project, out_dir, pdf, plot, workers, depth_axis,
-                                     keep_results)
-    notes: list[str] = []
-    section_file = _field_section(project, outcomes, locations, out_dir, notes) if plot else None
-    unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
-    if unused:
-        notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
-                     + " match no well of the project (by name, LAS file name or LAS WELL item) "
-                       "and were not used")
-    summary_path = _write_summary(project, outcomes, section_file, notes, out_dir)
-    return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
-                     notes=notes, section_file=section_file)
+    with OutputSession(out_dir, "run", overwrite, inputs) as session:
+        work = session.work
+        outcomes, locations = _run_wells(project, work, pdf, plot, workers, depth_axis,
+                                         keep_results)
+        notes: list[str] = []
+        section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
+        unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
+        if unused:
+            notes.append(f"tops file {project.tops_file}: rows of well(s) "
+                         + ", ".join(map(repr, unused)) + " match no well of the project (by "
+                         "name, LAS file name or LAS WELL item) and were not used")
+        report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs)
+        files = [f for o in outcomes for f in o.files] + [section_file, report, summary]
+        session.commit([f for f in files if f is not None])
+    for o in outcomes:
+        o.files = [out_dir / f.name for f in o.files]
+    return RunReport(project=project, out_dir=out_dir, wells=outcomes,
+                     summary_file=out_dir / summary.name, notes=notes,
+                     section_file=None if section_file is None else out_dir / section_file.name)
 
 
 def _run_wells(project: Project, out_dir: Path, pdf: bool, plot: bool, workers: int,
@@ -154,8 +165,8 @@ def _field_section(project: Project, outcomes: list[WellOutcome], locations: dic
 
 
 def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: Path | None,
-                   notes: list[str], out_dir: Path) -> Path:
-    """Write the HTML report and ``run_summary.json``; return the summary's path."""
+                   notes: list[str], out_dir: Path, inputs: InputFiles) -> tuple[Path, Path]:
+    """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
         "program": f"satheight {__version__}",
         "project": str(project.path),
@@ -169,11 +180,12 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
         summary["field_section"] = section_file.name
     if notes:
         summary["notes"] = notes
-    summary["inputs"] = input_record(project)
-    summary["report"] = write_report(summary, out_dir, project.name).name
+    summary["inputs"] = input_record(project, inputs)
+    report = write_report(summary, out_dir, project.name)
+    summary["report"] = report.name
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
-    return summary_path
+    return report, summary_path
 
 
 # --------------------------------------------------------------------------------------
@@ -214,16 +226,13 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: 
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always")
             result, msgs = compute_well(project, spec)
-            safe = safe_name(result.well.name)
-            if names_seen is not None:
-                if safe in names_seen:
-                    raise _name_clash(project, result.well.name)
-                names_seen.add(safe)
-            out_dir.mkdir(parents=True, exist_ok=True)
-            files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
-                                  depth_axis=depth_axis)
+            label, safe = result.well.name, safe_name(result.well.name)
+            _check_name(project, result.well.name, names_seen)
+            files = _write_well(result, project, out_dir, pdf, plot, depth_axis)
         msgs += [str(c.message) for c in caught]
         return WellOutcome(result.well.name, True, files, None, msgs, result, result.summary), safe
+    except OutputWriteError:
+        raise                   # a full disk or a file-size limit stops the run, not one well
     except SatHeightError as exc:
         return WellOutcome(label, False, [], str(exc)), safe
     except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
@@ -231,6 +240,32 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: 
         # a program error on one well's data must not cost the other wells their results
         return WellOutcome(label, False, [], f"{spec.las}: internal error "
                            f"{type(exc).__name__}: {exc} (please report it)"), safe
+
+
+def _check_name(project: Project, name: str, names_seen: set | None) -> None:
+    """Refuse a well whose files would collide with the run's or (``names_seen``) another well's."""
+    stem = safe_name(name)
+    if reserved_stem(stem):
+        raise ProjectFileError(f"well name {name!r} (from its LAS file) collides with the run's "
+                               "own files", where=str(project.path),
+                               hint="give the well another name in the project file")
+    if names_seen is not None:
+        if stem.casefold() in names_seen:
+            raise _name_clash(project, name)
+        names_seen.add(stem.casefold())
+
+
+def _write_well(result: WellResult, project: Project, out_dir: Path, pdf: bool, plot: bool,
+                depth_axis: str) -> list[Path]:
+    """:func:`write_outputs`; an OSError while writing (full disk...) is an OutputWriteError."""
+    try:
+        out_dir.mkdir(parents=True, exist_ok=True)
+        return write_outputs(result, project, out_dir, pdf=pdf, plot=plot, depth_axis=depth_axis)
+    except OSError as exc:
+        raise OutputWriteError(f"cannot write the outputs: {exc.strerror or exc}",
+                               where=str(exc.filename or out_dir),
+                               hint="check free disk space, the file-size limit and permissions; "
+                                    "nothing was placed in the output folder") from exc
 
 
 def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
@@ -259,6 +294,7 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
                 outcome, safe = fut.result()
+                safe = None if safe is None else safe.casefold()
                 if safe is not None and safe in names_seen:
                     if outcome.ok:
                         outcome = WellOutcome(outcome.name, False, [],
