@@ -15,7 +15,7 @@ from .. import __version__
 from .. import units as U
 from ..compare import summarise
 from ..contacts import contacts_summary
-from ..errors import ProjectFileError
+from ..errors import InputFileError, ProjectFileError
 from ..io.atomic import atomic_open, atomic_write_text
 from ..io.las import write_las
 from ..io.las_fast import csv_rows
@@ -174,6 +174,12 @@ def open_project(path) -> Project:
         raise ProjectFileError("the file nests tables or arrays too deeply to be read",
                                where=str(path), hint="write the project file with flat tables "
                                                      "as in the README") from None
+    except RuntimeError as exc:
+        # pathlib (Python < 3.13) raises RuntimeError("Symlink loop from ...") in resolve()
+        if not str(exc).startswith("Symlink loop"):
+            raise
+        raise InputFileError(f"a path of the project file is a symbolic-link loop ({exc})",
+                             where=str(path), hint="point each path at a real file") from None
 
 
 def project_inputs(project: Project, inputs: InputFiles | None = None) -> InputFiles:

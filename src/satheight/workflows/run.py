@@ -25,7 +25,7 @@ from ..io.atomic import atomic_write_text
 from ..plots.track import section_plot
 from ..project.types import Project, WellSpec
 from ..results import WellResult
-from .output_folder import InputFiles, OutputSession
+from .output_folder import WORK_PREFIX, InputFiles, OutputSession
 from .outputs import (CAUTION, check_wells, input_record, open_project, project_inputs,
                       reserved_stem, safe_name, write_outputs)
 from .report import write_report
@@ -262,8 +262,11 @@ def _write_well(result: WellResult, project: Project, out_dir: Path, pdf: bool, 
         out_dir.mkdir(parents=True, exist_ok=True)
         return write_outputs(result, project, out_dir, pdf=pdf, plot=plot, depth_axis=depth_axis)
     except OSError as exc:
-        raise OutputWriteError(f"cannot write the outputs: {exc.strerror or exc}",
-                               where=str(exc.filename or out_dir),
+        # name the user's output folder, not the work folder inside it
+        folder = next((p.parent for p in (out_dir, *out_dir.parents)
+                       if p.name.startswith(WORK_PREFIX)), out_dir)
+        raise OutputWriteError(f"cannot write the outputs of well {result.well.name!r}: "
+                               f"{exc.strerror or exc}", where=str(exc.filename or folder),
                                hint="check free disk space, the file-size limit and permissions; "
                                     "nothing was placed in the output folder") from exc
 
