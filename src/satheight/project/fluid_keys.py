@@ -32,10 +32,10 @@ import math
 from dataclasses import dataclass, field
 from typing import Any
 
-from . import fluids
-from .constants import FOOT, STANDARD_GRAVITY
-from .errors import SatHeightError, UnitError
-from .units import parse_quantity, split_quantity, normalise_unit
+from .. import fluids
+from ..constants import FOOT, STANDARD_GRAVITY
+from ..errors import SatHeightError, UnitError
+from ..units import parse_quantity, split_quantity, normalise_unit
 
 #: Zone keys this module reads (added to the project reader's allowed keys).
 FLUID_ZONE_KEYS = ("water", "oil", "gas", "conditions", "gas_oil_level", "gas_density",

@@ -108,12 +108,14 @@ import tomllib
 from pathlib import Path
 from typing import Any, Iterable
 
-from .errors import InputFileError, ModelError, ProjectFileError, UnitError
-from .models import FAMILIES, build_function, get_family
-from .project_types import (ComparisonSpec, FunctionSpec, LogSwSpec, Project, WellSpec,
+from ..errors import InputFileError, ModelError, ProjectFileError, UnitError
+from ..io.model_file import load_models
+from ..io.tops import read_tops
+from ..models import FAMILIES, build_function, get_family
+from .types import (ComparisonSpec, FunctionSpec, LogSwSpec, Project, WellSpec,
                             ZoneSpec)
-from .project_fluids import FLUID_ZONE_KEYS, read_zone_fluids
-from .units import UNIT_SYSTEMS, from_si, parse_quantity
+from .fluid_keys import FLUID_ZONE_KEYS, read_zone_fluids
+from ..units import UNIT_SYSTEMS, from_si, parse_quantity
 
 __all__ = ["load_project", "parse_project"]
 
@@ -537,8 +539,6 @@ class _Reader:
 
     def read_function_file(self, raw: dict, key: str) -> FunctionSpec:
         """``[zones.function] file = "models.json"`` (+ optional rock_type, family, j range)."""
-        from .models.store import load_models
-
         self.table(raw, key, _FUNCTION_FILE_KEYS)
         text = self.text(raw["file"], f"{key}.file")
         path = (self.path.parent.resolve() / text).resolve()
@@ -665,8 +665,6 @@ class _Reader:
         well names are returned as pending (well name -> rows): they may match a well
         whose name comes from its LAS file's WELL item, known only when it is read.
         """
-        from .io.tops import read_tops
-
         try:
             rows = read_tops(tops_file, self.units["length"])
         except InputFileError as exc:
