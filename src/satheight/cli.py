@@ -125,8 +125,8 @@ def _add_fit_parser(sub):
 
 
 def _fit(args, out) -> int:
-    from .core import LAB_SYSTEMS
-    from .core_workflow import (FitSettings, fit_table, parse_classes, parse_closure,
+    from .coreplugs import LAB_SYSTEMS
+    from .workflows.fit import (FitSettings, fit_table, parse_classes, parse_closure,
                                 parse_lab_override, parse_reservoir, run_fit)
     from .rocktypes import RockTypeRule
 
@@ -251,7 +251,7 @@ def _parse_fit(items):
 
 
 def _fwl(args, out) -> int:
-    from .contacts_run import run_fwl
+    from .workflows.contacts import run_fwl
 
     project = Path(args.project)
     rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
@@ -296,7 +296,7 @@ def _fwl(args, out) -> int:
 
 
 def _pressures(args, out) -> int:
-    from .contacts_run import run_pressures
+    from .workflows.contacts import run_pressures
 
     src = Path(args.pressure_file)
     quals = ("good", "fair", "poor") if args.use_poor else ("good", "fair")
@@ -453,7 +453,7 @@ def main(argv=None) -> int:
             return _fwl(args, sys.stdout)
         if args.command == "pressures":
             return _pressures(args, sys.stdout)
-        from .pipeline import run_project
+        from .workflows.run import run_project
 
         if args.command == "demo":
             project = find_demo_project()
@@ -461,7 +461,7 @@ def main(argv=None) -> int:
         else:
             project = Path(args.project)
             out = args.out or f"{project.stem}_results"
-        from .pipeline import check_output_folder
+        from .workflows.run import check_output_folder
 
         check_output_folder(out, args.overwrite)
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,

@@ -817,9 +817,9 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
     (dict[str, FwlSearch], list[str])
         Results by zone and notes (wells skipped and why).
     """
-    from .pipeline import compute_well
+    from .workflows.run import compute_well
     from .project import load_project
-    from .project_types import Project
+    from .project.types import Project
     from .roles import find_curve
 
     if not isinstance(project, Project):

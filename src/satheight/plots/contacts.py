@@ -19,11 +19,11 @@ import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
-from .contacts import FwlSearch
-from .io.atomic import atomic_save_figure
-from .plots import safe_text
-from .pressures import ZonePressures
-from .units import UNIT_SYSTEMS, factor
+from ..contacts import FwlSearch
+from ..io.atomic import atomic_save_figure
+from ..plots.track import safe_text
+from ..pressures import ZonePressures
+from ..units import UNIT_SYSTEMS, factor
 
 __all__ = ["misfit_plot", "pressure_plot"]
 

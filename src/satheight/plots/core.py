@@ -20,11 +20,11 @@ import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
-from . import constants as C
-from .core import CorePoints
-from .io.atomic import atomic_save_figure
-from .models import get_family
-from .plots import safe_text
+from .. import constants as C
+from ..coreplugs import CorePoints
+from ..io.atomic import atomic_save_figure
+from ..models import get_family
+from ..plots.track import safe_text
 
 __all__ = ["j_sw_plot", "pc_plot"]
 

@@ -25,11 +25,11 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
 from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter
 
-from . import constants as C
-from .errors import DepthError, InputFileError, SatHeightError, UnitError
-from .io.atomic import atomic_save_figure
-from .results import FLAG_NO_ZONE, WellResult
-from .units import UNIT_SYSTEMS, factor
+from .. import constants as C
+from ..errors import DepthError, InputFileError, SatHeightError, UnitError
+from ..io.atomic import atomic_save_figure
+from ..results import FLAG_NO_ZONE, WellResult
+from ..units import UNIT_SYSTEMS, factor
 
 __all__ = ["track_plot", "section_plot", "section_positions"]
 

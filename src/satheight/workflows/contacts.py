@@ -10,13 +10,13 @@ import json
 import warnings
 from pathlib import Path
 
-from . import units as U
-from .contacts import fwl_from_project
-from .errors import SatHeightError
-from .io.atomic import atomic_write_text
-from .io.pressures import read_pressure_points, resolve_tvdss
-from .pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
-from .project import load_project
+from .. import units as U
+from ..contacts import fwl_from_project
+from ..errors import SatHeightError
+from ..io.atomic import atomic_write_text
+from ..io.pressures import read_pressure_points, resolve_tvdss
+from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
+from ..project import load_project
 
 __all__ = ["run_fwl", "run_pressures"]
 
@@ -80,7 +80,7 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **
         atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
         files.append(path)
         if plot:
-            from .contact_plots import misfit_plot
+            from ..plots.contacts import misfit_plot
 
             files.append(misfit_plot(res, out / f"fwl_{_safe(name)}_misfit.png",
                                      units=project.unit_system))
@@ -180,7 +180,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
                              f"(gap {c['gap_m'] / lf:.2f} {lu})")
         summary[name] = d
         if plot:
-            from .contact_plots import pressure_plot
+            from ..plots.contacts import pressure_plot
 
             lg = (log[name].best, log[name].low, log[name].high) if name in log else None
             files.append(pressure_plot(zp, out / f"pressures_{_safe(name or 'all')}.png",
@@ -197,8 +197,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
 
 def _datums(project, wells: set) -> dict:
     """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well."""
-    from .io.las import read_las
-    from .pipeline import datum_elevation, well_path
+    from ..io.las import read_las
+    from .run import datum_elevation, well_path
 
     out = {}
     for spec in project.wells:

@@ -18,15 +18,15 @@ from pathlib import Path
 
 import numpy as np
 
-from . import constants as C
-from .core import (DEFAULT_FAMILIES, CorePoints, FluidSystem, core_points, fit_rock_types,
+from .. import constants as C
+from ..coreplugs import (DEFAULT_FAMILIES, CorePoints, FluidSystem, core_points, fit_rock_types,
                    height_from_pc, lab_to_reservoir_pc)
-from .errors import SatHeightError
-from .io.atomic import atomic_write_text
-from .io.core_data import read_core_files
-from .models import get_family
-from .models.store import models_to_dict, save_models
-from .rocktypes import RockTypeRule, plug_rock_types
+from ..errors import SatHeightError
+from ..io.atomic import atomic_write_text
+from ..io.core_data import read_core_files
+from ..models import get_family
+from ..io.model_file import models_to_dict, save_models
+from ..rocktypes import RockTypeRule, plug_rock_types
 
 
 @dataclass(frozen=True)
@@ -179,7 +179,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     atomic_write_text(pts, points_csv(points))
     files.append(pts)
     if s.plots:
-        from .core_plots import pc_plot, j_sw_plot
+        from ..plots.core import pc_plot, j_sw_plot
 
         files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
         files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
@@ -226,8 +226,8 @@ def parse_lab_override(text: str, base: dict) -> tuple[str, FluidSystem]:
 
     Bare numbers are mN/m and degrees.
     """
-    from .core import fluid_system
-    from .units import parse_quantity
+    from ..coreplugs import fluid_system
+    from ..units import parse_quantity
 
     name, value = _split_pair(text, "--lab")
     if name is None:
@@ -254,7 +254,7 @@ def parse_reservoir(text: str) -> tuple[str, ReservoirFluids]:
     otherwise (key ``"*"``). Bare numbers are mN/m and kg/m^3; the density
     difference may be a gradient (``"0.13 psi/ft"``).
     """
-    from .units import parse_quantity
+    from ..units import parse_quantity
 
     name, value = _split_pair(text, "--reservoir")
     parts = [p.strip() for p in value.split(",") if p.strip()]
@@ -274,7 +274,7 @@ def parse_reservoir(text: str) -> tuple[str, ReservoirFluids]:
 
 def parse_closure(text: str):
     """``"auto"``, ``"none"`` or a pressure (bare number psi) -> setting for FitSettings."""
-    from .units import parse_quantity
+    from ..units import parse_quantity
 
     t = text.strip().lower()
     if t == "auto":
@@ -293,7 +293,7 @@ def parse_closure(text: str):
 
 def parse_classes(text: str, kind: str, names: str | None) -> RockTypeRule:
     """Class edges ``"1,10,100"`` (mD for permeability, um for FZI) -> RockTypeRule."""
-    from .units import parse_quantity
+    from ..units import parse_quantity
 
     opt = "--k-classes" if kind == "permeability" else "--fzi-classes"
     try:

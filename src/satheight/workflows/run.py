@@ -14,20 +14,20 @@ from pathlib import Path
 
 import numpy as np
 
-from . import __version__
-from . import units as U
-from .compare import summarise
-from .engine import ZoneModel, compute_shm
-from .errors import ProjectFileError, SatHeightError
-from .io.atomic import atomic_open, atomic_write_text
-from .io.las import read_las, write_las
-from .logsw import archie_sw
-from .models import build_function
-from .project import load_project
-from .project_types import Project, WellSpec, ZoneSpec
-from .results import FLAG_MEANINGS, WellResult
-from .roles import detect_roles, require_role, role_values
-from .well import Curve, HeaderItem, Well
+from .. import __version__
+from .. import units as U
+from ..compare import summarise
+from ..engine import ZoneModel, compute_shm
+from ..errors import ProjectFileError, SatHeightError
+from ..io.atomic import atomic_open, atomic_write_text
+from ..io.las import read_las, write_las
+from ..logsw import archie_sw
+from ..models import build_function
+from ..project import load_project
+from ..project.types import Project, WellSpec, ZoneSpec
+from ..results import FLAG_MEANINGS, WellResult
+from ..roles import detect_roles, require_role, role_values
+from ..well import Curve, HeaderItem, Well
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -276,13 +276,13 @@ def well_path(spec: WellSpec, well: Well, elev: float):
     warnings : list[str]
         Survey notes (added tie-in station, samples below the last station).
     """
-    from .trajectory import vertical
+    from ..trajectory import vertical
 
     survey_path = getattr(spec, "survey", None)
     if survey_path is None:
         tvd, north, east = vertical(well.md)
         return tvd, north, east, None, []
-    from .io.survey import read_survey, survey_trajectory
+    from ..io.survey import read_survey, survey_trajectory
 
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
@@ -445,8 +445,8 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
         atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
         return
     # the same text as pandas' to_csv(float_format="%.10g"), numbers formatted vectorised
-    from .io.atomic import atomic_open
-    from .io.las_fast import csv_rows
+    from ..io.atomic import atomic_open
+    from ..io.las_fast import csv_rows
 
     header = pd.DataFrame(columns=list(cols)).to_csv(index=False, lineterminator="\n")
     with atomic_open(path, "w", encoding="utf-8", newline="") as f:
@@ -478,7 +478,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
     if plot:
-        from .plots import track_plot
+        from ..plots.track import track_plot
 
         files += track_plot(result, out_dir / f"{stem}_tracks.png",
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
@@ -488,7 +488,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
 
 def _add_contacts(result: WellResult, project: Project, length_factor: float) -> None:
     """Entry height and contact depth per zone into the well's JSON summary (key ``contact``)."""
-    from .contacts import contacts_summary
+    from ..contacts import contacts_summary
 
     zones = result.summary.get("zones", {})
     for name, block in contacts_summary(result, length_factor, project.comparison.min_porosity,
@@ -557,7 +557,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
                   if o.ok and (o.result is not None or o.section is not None)]
     if plot and ok_results:
-        from .plots import section_plot
+        from ..plots.track import section_plot
 
         try:
             section_file = section_plot(ok_results, out_dir / "field_section.png",
@@ -719,7 +719,7 @@ OUTPUT_MARKERS = ("run_summary.json",)
 
 def _sha256(path: Path) -> str | None:
     """SHA-256 of a file's bytes (:func:`satheight.core.sha256_of`), or None if it cannot be read."""
-    from .core import sha256_of
+    from ..coreplugs import sha256_of
 
     try:
         return sha256_of(path)
@@ -749,7 +749,7 @@ def check_output_folder(out_dir, overwrite: bool) -> None:
         If ``out_dir`` contains any of :data:`OUTPUT_MARKERS` and ``overwrite`` is false
         (exit code 2 on the command line).
     """
-    from .errors import OutputExistsError
+    from ..errors import OutputExistsError
 
     out_dir = Path(out_dir)
     if overwrite or not out_dir.is_dir():
