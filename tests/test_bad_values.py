@@ -14,7 +14,7 @@ import pytest
 
 from satheight.errors import ProjectFileError
 from satheight.logsw import archie_sw
-from satheight.pipeline import compute_well
+from satheight.workflows.run import compute_well
 from satheight.project import load_project
 from satheight.results import (FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_J_ABOVE_RANGE,
                                FLAG_J_BELOW_RANGE, FLAG_NO_ZONE)

@@ -294,7 +294,7 @@ def test_hydrostatic_gradient_round_trip():
 
 
 def test_unit_parsers_of_fluid_keys():
-    from satheight.project_fluids import parse_gor, parse_salinity, parse_temperature_gradient
+    from satheight.project.fluid_keys import parse_gor, parse_salinity, parse_temperature_gradient
 
     # 1.6 degF per 100 ft = 1.6 * 5/9 K per 30.48 m (unit definitions)
     assert parse_temperature_gradient("1.6 degF/100ft", "degC/km") == pytest.approx(

@@ -12,8 +12,9 @@ import scipy.constants as sc
 
 from satheight import constants as C
 from satheight import units as U
-from satheight.engine import (capillary_pressure_from_height, height_above_fwl, leverett_j,
-                              pc_from_j)
+from satheight.capillary import (capillary_pressure_from_height, height_above_fwl, height_from_j,
+                                 height_from_pc, lab_to_reservoir_pc, leverett_j, pc_from_j,
+                                 sigma_cos_theta_ratio, three_phase_pc_j)
 from satheight.logsw import archie_sw, formation_factor
 from satheight.models import BrooksCorey, PowerLaw, build_function
 
@@ -95,6 +96,39 @@ def test_chained_mercury_to_reservoir_height():
     assert pc_res / C.PSI == pytest.approx(7.06572, abs=5e-5)
     h = pc_res / (250.0 * C.STANDARD_GRAVITY)
     assert h / C.FOOT == pytest.approx(65.193, abs=1e-3)
+
+
+def test_lab_to_reservoir_height_chain_in_one_module():
+    """The same REFERENCES.md chain through capillary.py's conversion functions.
+
+    Lab mercury Pc 100 psi scaled by (sigma cos theta) ratio 25.98/367.7 -> 7.06572 psi;
+    h = Pc / (250 kg/m3 * g) -> 65.193 ft; and J from (k, phi) at that height gives
+    the lab J back (Leverett 1941: one J curve per rock).
+    """
+    sct_hg = 480 * -math.cos(math.radians(140)) * C.DYNE_PER_CM
+    sct_res = 30 * math.cos(math.radians(30)) * C.DYNE_PER_CM
+    assert sigma_cos_theta_ratio(sct_hg, sct_res) == pytest.approx(0.070657, abs=5e-7)  # REFERENCES.md
+    pc_res = lab_to_reservoir_pc(100 * C.PSI, sct_hg, sct_res)
+    assert pc_res / C.PSI == pytest.approx(7.06572, abs=5e-5)
+    h = height_from_pc(pc_res, 250.0)
+    assert h / C.FOOT == pytest.approx(65.193, abs=1e-3)
+    k, phi = 100 * C.MILLIDARCY, 0.2
+    j_lab = leverett_j(100 * C.PSI, k, phi, sct_hg)
+    assert height_from_j(j_lab, k, phi, sct_res, 250.0) == pytest.approx(h, rel=1e-12)
+
+
+def test_three_phase_pc_accumulates_both_columns():
+    """Hand-worked: oil column 30 m, h = 50 m, rho_w 1100, rho_o 800, rho_g 200 kg/m3.
+
+    Pc = 300 g 30 + 900 g 20 = (9000 + 18000) g = 27000 * 9.80665 = 264779.55 Pa;
+    with sqrt(k/phi) = 1e-6 m, J = 1e-6 (9000 g / 0.03 + 18000 g / 0.05) = 1e-6 * 660000 g.
+    At h = 10 m (oil leg only) Pc = 300 g 10 = 29419.95 Pa (hydrostatics, common practice).
+    """
+    g = 9.80665  # NIST SP 811 standard gravity
+    pc, j = three_phase_pc_j(np.array([10.0, 50.0]), 1e-6, 30.0, 1100.0, 800.0, 200.0,
+                             0.03, 0.05)
+    assert pc == pytest.approx([3000 * g, 27000 * g], rel=1e-12)
+    assert j[1] == pytest.approx(1e-6 * 660000 * g, rel=1e-12)
 
 
 # --- Archie --------------------------------------------------------------------------

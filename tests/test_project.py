@@ -11,14 +11,16 @@ than taken from our own code):
 from __future__ import annotations
 
 import copy
+import math
 import textwrap
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from satheight.errors import InputFileError, ProjectFileError, UnitError
 from satheight.project import load_project, parse_project
-from satheight.project_types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
+from satheight.project.types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
 
 FT = 0.3048              # m, NIST SP 811 (2008) App. B
 PSI = 6894.757293168     # Pa, NIST SP 811 (2008) App. B
@@ -700,3 +702,27 @@ def test_comparison_errors_name_key(tmp_path, table, key):
     with pytest.raises(ProjectFileError) as e:
         load_project(_with_comparison(tmp_path, table))
     assert "c.toml" in str(e.value) and key in str(e.value)
+
+
+def test_one_zone_record_from_project_file_to_engine(proj):
+    """The project zone and the per-well engine zone are one record type.
+
+    Upper: rho_w 1080, rho_o 750 kg/m3 (read above), FWL 2060 m, sigma cos theta 0.026 N/m,
+    power law (swirr 0.1, a 0.2, b 1.5). Worked by hand at 2000 m TVDSS, k = 100 mD
+    (9.869233e-14 m2, NIST SP 811), phi = 0.2: h = 60 m, Pc = 330 * 9.80665 * 60 =
+    194171.67 Pa, J = Pc sqrt(k/phi) / 0.026, power law Sw = swirr + (1 - swirr) a J^-b.
+    """
+    from satheight.engine import Zone, compute_shm, zone_for_well
+
+    p = parse_project(metric_data(), proj)
+    z = p.zones[0]
+    assert type(z) is Zone
+    zw = zone_for_well(z, 1990.0, 2050.0)
+    assert type(zw) is Zone and (zw.top, zw.base) == (1990.0, 2050.0)
+    assert zw.fwl == z.fwl and zw.fluids == z.fluids     # fluids carried, not copied by hand
+    k, phi = 100 * 9.869233e-16, 0.2
+    pc = 330.0 * G * 60.0
+    j = pc * math.sqrt(k / phi) / 0.026
+    r = compute_shm(np.array([2000.0]), np.array([phi]), np.array([k]), [zw])
+    assert r.pc[0] == pytest.approx(pc, rel=1e-9)
+    assert r.sw[0] == pytest.approx(0.1 + 0.9 * 0.2 * j ** -1.5, rel=1e-9)

@@ -19,7 +19,7 @@ from satheight.constants import MILLIDARCY, STANDARD_GRAVITY as G
 from satheight.engine import ZoneModel, column_pc_j, compute_shm
 from satheight.errors import ProjectFileError
 from satheight.models import build_function
-from satheight.pipeline import run_project
+from satheight.workflows.run import run_project
 from satheight.project import load_project
 
 FWL, GOL = 2100.0, 2060.0

@@ -10,8 +10,8 @@ From lab capillary-pressure curves of core plugs to points (J, Sw) ready for fit
    (:func:`wetting_saturation_from_mercury`); closure (conformance) correction
    (:func:`closure_correction`, :func:`pick_closure_pressure`); pore-throat radius
    by Washburn (:func:`washburn_radius`);
-3. lab -> reservoir capillary pressure by the sigma*cos(theta) ratio
-   (:func:`lab_to_reservoir_pc`), equivalent height above the FWL;
+3. lab -> reservoir capillary pressure by the sigma*cos(theta) ratio, equivalent
+   height above the FWL (:mod:`satheight.capillary`, re-exported here);
 4. Leverett J of every point from the plug's own porosity and permeability,
    optionally stress-corrected (:func:`stress_correct`);
 5. fit one or more J-Sw families per rock type (:func:`fit_rock_types`).
@@ -22,6 +22,7 @@ Everything is SI inside: pressure [Pa], sigma*cos(theta) [N/m], permeability
 
 from __future__ import annotations
 
+import hashlib
 import math
 import warnings
 from dataclasses import dataclass, field
@@ -30,8 +31,10 @@ from pathlib import Path
 import numpy as np
 
 from . import constants as C
-from .engine import leverett_j
+from .capillary import (height_from_pc, lab_to_reservoir_pc, leverett_j,  # noqa: F401
+                        sigma_cos_theta_ratio)
 from .errors import ModelError, SatHeightError
+from .models import get_family
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -151,37 +154,7 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
 
 def conversion_ratio(lab: FluidSystem, reservoir: FluidSystem) -> float:
     """``(sigma cos theta)_res / (sigma cos theta)_lab`` [-]; multiply lab Pc by it."""
-    return reservoir.sigma_cos_theta / lab.sigma_cos_theta
-
-
-def lab_to_reservoir_pc(pc_lab, sct_lab, sct_res):
-    """Reservoir capillary pressure [Pa] from lab capillary pressure of the same rock.
-
-    ``Pc_res = Pc_lab * (sigma cos theta)_res / (sigma cos theta)_lab``: the J
-    curve of one rock is the same in both systems (Leverett 1941).
-
-    Parameters
-    ----------
-    pc_lab : array_like
-        Lab capillary pressure [Pa].
-    sct_lab, sct_res : float or array_like
-        |sigma*cos(theta)| of the lab and reservoir systems [N/m].
-    """
-    return np.asarray(pc_lab, dtype=float) * (np.asarray(sct_res, dtype=float)
-                                              / np.asarray(sct_lab, dtype=float))
-
-
-def height_from_pc(pc, delta_rho, g=C.STANDARD_GRAVITY):
-    """Height above the FWL [m] equivalent to reservoir Pc [Pa]: ``h = Pc / (delta_rho g)``.
-
-    Parameters
-    ----------
-    pc : array_like
-        Reservoir capillary pressure [Pa].
-    delta_rho : float
-        Water minus hydrocarbon density at reservoir conditions [kg/m^3], > 0.
-    """
-    return np.asarray(pc, dtype=float) / (float(delta_rho) * g)
+    return float(sigma_cos_theta_ratio(lab.sigma_cos_theta, reservoir.sigma_cos_theta))
 
 
 # ----------------------------------------------------------------------------------
@@ -586,8 +559,6 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
         FitReport}, "selected": family, "errors": {family: message}}``. The
         selected family is the J family with the lowest AIC.
     """
-    from .models import get_family
-
     out: dict = {}
     names = [str(x) or "all" for x in points.rock_type]
     labels = np.array(names, dtype=object)
@@ -617,8 +588,6 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
 
 def sha256_of(path) -> str:
     """sha256 hex digest of a file's bytes."""
-    import hashlib
-
     h = hashlib.sha256()
     with open(Path(path), "rb") as f:
         for block in iter(lambda: f.read(1 << 16), b""):
