@@ -15,6 +15,7 @@ from satheight import units as U
 from satheight.capillary import (capillary_pressure_from_height, height_above_fwl, height_from_j,
                                  height_from_pc, lab_to_reservoir_pc, leverett_j, pc_from_j,
                                  sigma_cos_theta_ratio, three_phase_pc_j)
+from satheight.errors import UnitError
 from satheight.logsw import archie_sw, formation_factor
 from satheight.models import BrooksCorey, PowerLaw, build_function
 
@@ -206,3 +207,49 @@ def test_bad_parameters_named():
         build_function("nope", {})
     with pytest.raises(ModelError, match="outside its allowed range"):
         build_function("power_law", {"swirr": 1.5, "a": 0.2, "b": 1.0})
+
+
+# --- units practitioners meet (bara, barg, psig, kgf/cm2, ppg, nD, uD, US survey foot) ----------
+
+def test_us_survey_foot_is_not_the_international_foot():
+    # NIST SP 811 (2008) App. B: survey foot = 1200/3937 m; library: scipy.constants.survey_foot
+    assert U.parse_quantity("1000 usft", "length") == pytest.approx(1000 * sc.survey_foot, rel=1e-15)
+    assert U.parse_quantity("1000 ftUS", "length") == pytest.approx(304.8006096012, rel=1e-12)
+    # 2 ppm apart: 10000 ft differ by 2 cm (NIST SP 811 note)
+    assert U.parse_quantity("10000 us ft", "length") - U.parse_quantity("10000 ft", "length") \
+        == pytest.approx(0.0203, abs=1e-4)
+
+
+def test_absolute_pressure_units_match_scipy():
+    # library: scipy.constants.bar, psi, kgf (9.80665 N); NIST SP 811: 1 kgf/cm2 = 98066.5 Pa
+    assert U.parse_quantity("3 bara", "pressure") == pytest.approx(3 * sc.bar, rel=1e-15)
+    assert U.parse_quantity("100 psia", "pressure") == pytest.approx(100 * sc.psi, rel=1e-12)
+    assert U.parse_quantity("2 kgf/cm2", "pressure") == pytest.approx(2 * sc.kgf / 1e-4, rel=1e-15)
+    assert U.parse_quantity("1 kgf/cm2", "pressure") == pytest.approx(98066.5, rel=1e-15)
+
+
+def test_gauge_pressure_adds_one_atmosphere_and_is_never_taken_as_absolute():
+    # NIST SP 811: 1 atm = 101325 Pa (scipy.constants.atm); gauge = absolute - 1 atm
+    assert U.parse_quantity("0 psig", "pressure") == pytest.approx(sc.atm, rel=1e-15)
+    assert U.parse_quantity("100 psig", "pressure") == pytest.approx(100 * sc.psi + sc.atm, rel=1e-12)
+    assert U.parse_quantity("10 barg", "pressure") == pytest.approx(10 * sc.bar + sc.atm, rel=1e-15)
+    assert U.from_si(sc.atm + 5 * sc.bar, "barg", "pressure") == pytest.approx(5.0, rel=1e-12)
+    assert U.parse_quantity("100 psig", "pressure") != U.parse_quantity("100 psia", "pressure")
+    with pytest.raises(UnitError, match="gauge"):
+        U.factor("psig", "pressure")      # a bare factor would drop the atmosphere
+
+
+def test_mud_weight_ppg_is_a_density_and_its_gradient():
+    # NIST SP 811: lb = 0.45359237 kg, US gallon = 3.785411784 L (scipy.constants.pound, gallon);
+    # trade rule (common practice): 1 ppg = 0.052 psi/ft
+    rho = U.parse_quantity("10 ppg", "density")
+    assert rho == pytest.approx(10 * sc.pound / sc.gallon, rel=1e-12)
+    assert rho == pytest.approx(1198.264, abs=1e-3)
+    assert rho / 10 * C.STANDARD_GRAVITY * C.FOOT / C.PSI == pytest.approx(0.051948, abs=1e-6)
+
+
+def test_nano_and_micro_darcy():
+    # 1 mD = 9.869233e-16 m2 (NIST SP 811 darcy); nD = 1e-6 mD, uD = 1e-3 mD (SI prefixes)
+    assert U.parse_quantity("250 nD", "permeability") == pytest.approx(250e-6 * 9.869233e-16, rel=1e-12)
+    for text in ("3 uD", "3 µD", "3 μD"):
+        assert U.parse_quantity(text, "permeability") == pytest.approx(3e-3 * 9.869233e-16, rel=1e-12)
