@@ -215,9 +215,9 @@ def test_us_survey_foot_is_not_the_international_foot():
     # NIST SP 811 (2008) App. B: survey foot = 1200/3937 m; library: scipy.constants.survey_foot
     assert U.parse_quantity("1000 usft", "length") == pytest.approx(1000 * sc.survey_foot, rel=1e-15)
     assert U.parse_quantity("1000 ftUS", "length") == pytest.approx(304.8006096012, rel=1e-12)
-    # 2 ppm apart: 10000 ft differ by 2 cm (NIST SP 811 note)
+    # 2 ppm apart (1200/3937 / 0.3048 = 1.000002): 10000 ft = 3048 m differ by 6.1 mm
     assert U.parse_quantity("10000 us ft", "length") - U.parse_quantity("10000 ft", "length") \
-        == pytest.approx(0.0203, abs=1e-4)
+        == pytest.approx(3048 * 2e-6, abs=1e-5)
 
 
 def test_absolute_pressure_units_match_scipy():
