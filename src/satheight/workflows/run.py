@@ -17,13 +17,12 @@ import numpy as np
 from .. import __version__
 from .. import units as U
 from ..compare import summarise
-from ..engine import ZoneModel, compute_shm
+from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
 from ..io.atomic import atomic_open, atomic_write_text
 from ..io.las import read_las, write_las
 from ..logsw import archie_sw
-from ..models import build_function
-from ..project import load_project
+from ..project import check_fwl_near_wells, load_project
 from ..project.types import Project, WellSpec, ZoneSpec
 from ..results import FLAG_MEANINGS, WellResult
 from ..roles import detect_roles, require_role, role_values
@@ -160,20 +159,7 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
 
 
 def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
-    fn = build_function(zs.function.family, zs.function.params, zs.function.j_range,
-                        where=f"{path}, key zones[{zs.name}].function")
-    rock_functions = classifier = None
-    if zs.function.by_rock_type:  # per-depth rock typing from a model file
-        rock_functions = {rt: build_function(f.family, f.params, f.j_range,
-                                             where=f"{path}, key zones[{zs.name}].function")
-                          for rt, f in zs.function.by_rock_type.items()}
-        classifier = zs.function.rock_rule.classify
-    return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
-                     water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
-                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
-                     rock_functions=rock_functions, rock_classifier=classifier,
-                     gas_oil_level=zs.gas_oil_level, gas_density=zs.gas_density,
-                     gas_sigma_cos_theta=zs.gas_sigma_cos_theta)
+    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function")
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
@@ -226,6 +212,8 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
         msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
                     "the computed ones are not written (TVDSS is)")
     zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
+    for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
+        check_fwl_near_wells(project.path, zn, tvdss, -elev)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
