@@ -29,6 +29,7 @@ hydrocarbon = "oil"
 water_density = "{rho_w} g/cm3"
 hydrocarbon_density = "0.8 g/cm3"
 sigma_cos_theta = "26 mN/m"
+{allow}
 [zones.function]
 family = "power_law"
 swirr = 0.1
@@ -53,7 +54,7 @@ def make(tmp_path: Path, phi, perm, rt=None, phi_unit="V/V", zones=None, depth=N
     zones = zones if zones is not None else [dict(name="Z", top=990, base=1100, fwl=1050)]
     text = '[project]\nunits = "metric"\n[log_sw]\nrw = "0.05 ohm.m"\n[[wells]]\nlas = "w.las"\n'
     for z in zones:
-        z = {"rho_w": 1.05, "j_min": 0.0001, "j_max": 1000.0, **z}
+        z = {"rho_w": 1.05, "j_min": 0.0001, "j_max": 1000.0, "allow": "", **z}
         text += ZONE.format(**z)
     (tmp_path / "p.toml").write_text(text)
     project = load_project(tmp_path / "p.toml")
@@ -123,9 +124,27 @@ def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
 
 def test_fwl_below_the_well_is_noted(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
-                        zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+                        zones=[dict(name="Z", top=990, base=1100, fwl=1900)])
     assert np.all(result.shm.hafwl > 0) and np.all(result.shm.sw < 1.0)
     assert any("below its deepest sample" in m for m in msgs)
+
+
+def test_fwl_far_below_the_logs_is_refused_unless_allowed(tmp_path):
+    # logged TVDSS 1000-1019 m; FWL 3000 m is ~2 km below them (plausible.RANGES fwl_margin
+    # 1000 m, common practice): refused naming the key, accepted with allow_unusual = ["fwl"]
+    with pytest.raises(ProjectFileError, match=r"zones\[Z\]\.fwl.*outside the logged TVDSS"):
+        make(tmp_path, [0.2] * 20, [100.0] * 20, zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+    result, _ = make(tmp_path, [0.2] * 20, [100.0] * 20,
+                     zones=[dict(name="Z", top=990, base=1100, fwl=3000,
+                                 allow='allow_unusual = ["fwl"]')])
+    assert result.shm.hafwl[0] == pytest.approx(2000.0)      # 3000 - 1000 m, by hand
+
+
+def test_fwl_above_the_surface_is_refused(tmp_path):
+    # EKB 0 in the test LAS: the depth reference is at 0 m TVDSS; a FWL at -5 m is above it
+    with pytest.raises(ProjectFileError, match=r"zones\[Z\]\.fwl"):
+        make(tmp_path, [0.2] * 20, [100.0] * 20, zones=[dict(name="Z", top=990, base=1100, fwl=-5,
+                                                             allow="")])
 
 
 def test_zone_gap_samples_are_outside_every_zone(tmp_path):
@@ -162,4 +181,5 @@ def test_j_outside_calibrated_range_is_flagged_and_sw_kept(tmp_path):
 def test_delta_rho_not_positive_is_an_error_naming_the_key(tmp_path, rho_w):
     with pytest.raises(ProjectFileError, match=r"key zones\[Z\]\.water_density.*denser"):
         make(tmp_path, [0.2] * 5, [100.0] * 5,
-             zones=[dict(name="Z", top=990, base=1100, fwl=1050, rho_w=rho_w)])
+             zones=[dict(name="Z", top=990, base=1100, fwl=1050, rho_w=rho_w,
+                         allow='allow_unusual = ["water_density"]')])

@@ -75,6 +75,9 @@ class Zone:
     fluids : dict
         How each density was obtained: ``{"water": {...}, "hydrocarbon": {...},
         "gas": {...}, "conditions": {...}}``, JSON-ready.
+    allow_unusual : frozenset of str
+        Names of this zone's values the project file allows outside their plausible
+        range (:mod:`satheight.plausible`), e.g. ``{"fwl"}``.
     """
 
     name: str
@@ -92,6 +95,7 @@ class Zone:
     gas_density: float | None = None
     gas_sigma_cos_theta: float | None = None
     fluids: dict = field(default_factory=dict)
+    allow_unusual: frozenset = frozenset()
 
     @property
     def delta_rho(self) -> float:

@@ -43,6 +43,9 @@ FLUID_ZONE_KEYS = ("water", "oil", "gas", "conditions", "gas_oil_level", "gas_de
 _WATER_KEYS = ("salinity",)
 _OIL_KEYS = ("api", "solution_gor", "gas_gravity")
 _GAS_KEYS = ("gravity", "z_method")
+#: Values of the conditions and water tables that a zone's allow_unusual may list.
+CONDITION_ALLOW = ("pressure", "temperature", "pressure_gradient", "salinity")
+
 _CONDITION_KEYS = ("pressure", "temperature", "pressure_gradient", "temperature_gradient",
                    "surface_pressure", "surface_temperature", "depth")
 
@@ -131,20 +134,23 @@ def parse_temperature_gradient(value: Any, default_unit: str) -> float:
 class _Conditions:
     """Reservoir pressure [Pa] and temperature [K] of a zone, read once when first needed."""
 
-    def __init__(self, reader, t: dict, key: str, fwl: float, notes: dict):
+    def __init__(self, reader, t: dict, key: str, fwl: float, notes: dict, allowed: frozenset):
         self.reader, self.t, self.key, self.fwl, self.notes = reader, t, key, fwl, notes
+        self.allowed = allowed
         self.value: tuple[float, float] | None = None
 
     def __call__(self) -> tuple[float, float]:
         if self.value is None:
             p, temp, info = _read_conditions(self.reader, self.t, self.key, self.fwl,
                                              self.reader.unit_system)
+            _check_conditions(self.reader, self.t, self.key, p, temp, info, self.allowed)
             self.value = (p, temp)
             self.notes["conditions"] = info
         return self.value
 
 
-def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) -> dict:
+def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float,
+                     allowed: frozenset = frozenset()) -> dict:
     """Densities and three-phase keys of one ``[[zones]]`` entry (see module docstring).
 
     Parameters
@@ -159,6 +165,9 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
         ``"oil"``, ``"gas"`` or ``"air"``.
     fwl : float
         The zone's FWL TVDSS [m]: the default depth at which conditions are evaluated.
+    allowed : frozenset of str
+        The zone's ``allow_unusual`` names (conditions and salinity are range-checked here;
+        the densities by the reader).
 
     Returns
     -------
@@ -174,8 +183,8 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
         Naming the file and key on every missing, conflicting or bad value.
     """
     notes: dict[str, dict] = {}
-    conditions = _Conditions(reader, t, key, fwl, notes)
-    rho_w = _water_density(reader, t, key, conditions, notes)
+    conditions = _Conditions(reader, t, key, fwl, notes, allowed)
+    rho_w = _water_density(reader, t, key, conditions, notes, allowed)
     rho_h = _hydrocarbon_density(reader, t, key, hydrocarbon, conditions, notes)
     out = {"water_density": rho_w, "hydrocarbon_density": rho_h, "gas_oil_level": None,
            "gas_density": None, "gas_sigma_cos_theta": None, "fluids": notes}
@@ -187,6 +196,8 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
                                "TVDSS) for a gas cap, or remove the key")
         return out
     out.update(_gas_cap(reader, t, key, hydrocarbon, fwl, rho_h, conditions, notes))
+    reader.plausible("fwl", out["gas_oil_level"], f"{key}.gas_oil_level", t["gas_oil_level"],
+                     allowed=allowed)
     return out
 
 
@@ -197,7 +208,7 @@ def _both(reader, t: dict, key: str, direct: str, table: str) -> None:
                                 f"inputs ({table} = {{...}}), not both")
 
 
-def _water_density(reader, t, key, conditions, notes) -> float:
+def _water_density(reader, t, key, conditions, notes, allowed) -> float:
     _both(reader, t, key, "water_density", "water")
     if "water_density" in t:
         notes["water"] = {"method": "given"}
@@ -209,6 +220,7 @@ def _water_density(reader, t, key, conditions, notes) -> float:
             s = parse_salinity(wt["salinity"])
         except UnitError as exc:
             raise reader.error(f"{key}.water.salinity", exc.what, hint=exc.hint) from None
+        reader.plausible("salinity", s, f"{key}.water.salinity", wt["salinity"], allowed=allowed)
         p, temp = conditions()
         rho_w = float(_guard(reader, f"{key}.water", fluids.brine_density_batzle_wang, p, temp, s))
         notes["water"] = {"method": "Batzle & Wang 1992 eq. 27b", "salinity": s}
@@ -295,6 +307,22 @@ def _guard(reader, key, fn, *args):
         return fn(*args)
     except SatHeightError as exc:
         raise reader.error(key, exc.what, hint=exc.hint) from None
+
+
+def _check_conditions(reader, t, key, p, temp, info, allowed) -> None:
+    """Pressure, temperature and the pressure gradient inside their plausible ranges."""
+    c, ck = t["conditions"], f"{key}.conditions"
+    if "pressure" in c:
+        reader.plausible("pressure", p, f"{ck}.pressure", c["pressure"], allowed=allowed)
+    else:
+        grad = info["pressure_from"]["gradient_Pa_per_m"] / STANDARD_GRAVITY
+        reader.plausible("pressure_gradient", grad, f"{ck}.pressure_gradient",
+                         c["pressure_gradient"], allowed=allowed)
+        reader.plausible("pressure", p, f"{ck}.pressure_gradient", None, allowed=allowed,
+                         allow_as="pressure", derived=f"at {info['depth_m']:g} m from the gradient")
+    temp_raw = c["temperature"] if "temperature" in c else None
+    reader.plausible("temperature", temp, f"{ck}.temperature", temp_raw, allowed=allowed,
+                     derived=f"at {info['depth_m']:g} m from the temperature gradient")
 
 
 def _read_conditions(reader, t, key, fwl, system) -> tuple[float, float, dict]:

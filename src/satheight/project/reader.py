@@ -107,21 +107,25 @@ from typing import Any
 from ..engine import Zone
 from ..errors import InputFileError, ProjectFileError
 from ..units import UNIT_SYSTEMS
-from .fluid_keys import FLUID_ZONE_KEYS, read_zone_fluids
+from ..plausible import PHASE_DENSITY, RANGES
+from .fluid_keys import CONDITION_ALLOW, FLUID_ZONE_KEYS, read_zone_fluids
 from .functions import read_function
 from .types import ComparisonSpec, LogSwSpec, Project, WellSpec
-from .values import ValueReader, _label, _show
+from .values import ALLOW_KEY, ValueReader, _label, _show
 from .wells import merge_tops_file, read_well
 
 __all__ = ["load_project", "parse_project"]
 
 _TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones")
 _PROJECT_KEYS = ("name", "units", "tops_file")
-_LOG_SW_KEYS = ("method", "a", "m", "n", "rw")
-_COMPARISON_KEYS = ("min_porosity", "min_permeability")
+_LOG_SW_KEYS = ("method", "a", "m", "n", "rw", ALLOW_KEY)
+_COMPARISON_KEYS = ("min_porosity", "min_permeability", ALLOW_KEY)
 _LOG_SW_METHODS = ("curve", "archie", "auto")
 _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
-              "hydrocarbon_density", "sigma_cos_theta", "function") + FLUID_ZONE_KEYS
+              "hydrocarbon_density", "sigma_cos_theta", "function", ALLOW_KEY) + FLUID_ZONE_KEYS
+#: Values of a [[zones]] entry that may be listed in its allow_unusual.
+ZONE_ALLOW = ("fwl", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
+              "sigma_cos_theta", "gas_sigma_cos_theta") + CONDITION_ALLOW
 _HYDROCARBONS = ("oil", "gas", "air")
 
 
@@ -294,6 +298,11 @@ class _Reader(ValueReader):
         m = self.number(t["m"], "log_sw.m", positive=True) if "m" in t else defaults.m
         n = self.number(t["n"], "log_sw.n", positive=True) if "n" in t else defaults.n
         rw = self.quantity(t["rw"], "log_sw.rw", "resistivity", positive=True) if "rw" in t else None
+        allowed = self.allow_list(t, "log_sw", ("a", "m", "n", "rw"))
+        for name, v in (("a", a), ("m", m), ("n", n), ("rw", rw)):
+            if name in t:
+                self.plausible("rw" if name == "rw" else f"archie_{name}", v, f"log_sw.{name}",
+                               t[name], allowed=allowed)
         if method == "archie" and rw is None:
             raise self.error("log_sw.rw", 'method = "archie" needs rw, and rw is missing',
                              hint='add rw = "0.045 ohm.m", the water resistivity at formation '
@@ -316,6 +325,13 @@ class _Reader(ValueReader):
                 raise self.error("comparison.min_permeability",
                                  f"expected a permeability cutoff >= 0, found {t['min_permeability']!r}",
                                  hint='write a value such as "1 mD"')
+        allowed = self.allow_list(t, "comparison", ("min_porosity", "min_permeability"))
+        if "min_porosity" in t:
+            self.plausible("porosity", phi, "comparison.min_porosity", t["min_porosity"],
+                           allowed=allowed)
+        if k > 0.0:
+            self.plausible("permeability", k, "comparison.min_permeability",
+                           t["min_permeability"], allowed=allowed)
         return ComparisonSpec(min_porosity=phi, min_permeability=k)
 
     def read_zone(self, raw: dict, index: int) -> Zone:
@@ -341,8 +357,11 @@ class _Reader(ValueReader):
 
         fwl = self.quantity(t["fwl"], f"{key}.fwl", "length")
         hydrocarbon = self.text(t["hydrocarbon"], f"{key}.hydrocarbon", _HYDROCARBONS)
-        # densities: given, or from correlations; optional three-phase keys (project_fluids)
-        zf = read_zone_fluids(self, t, key, hydrocarbon, fwl)
+        allowed = self.allow_list(t, key, ZONE_ALLOW)
+        self.plausible("fwl", fwl, f"{key}.fwl", t["fwl"], allowed=allowed)
+        # densities: given, or from correlations; optional three-phase keys (fluid_keys)
+        zf = read_zone_fluids(self, t, key, hydrocarbon, fwl, allowed)
+        self.check_densities(t, key, hydrocarbon, zf, allowed)
         rho_w, rho_h = zf["water_density"], zf["hydrocarbon_density"]
         if not rho_w > rho_h:
             raise self.error(f"{key}.water_density",
@@ -352,9 +371,38 @@ class _Reader(ValueReader):
                              hint="check the two values and their units")
         sigma = self.quantity(t["sigma_cos_theta"], f"{key}.sigma_cos_theta", "tension",
                               positive=True)
+        self.plausible("sigma_cos_theta", sigma, f"{key}.sigma_cos_theta", t["sigma_cos_theta"],
+                       allowed=allowed)
+        if zf["gas_sigma_cos_theta"] is not None:
+            self.plausible("sigma_cos_theta", zf["gas_sigma_cos_theta"],
+                           f"{key}.gas_sigma_cos_theta", t["gas_sigma_cos_theta"], allowed=allowed)
         function = read_function(self, t["function"], f"{key}.function")
         return Zone(name=name, top=top, base=base, fwl=fwl, hydrocarbon=hydrocarbon,
-                    sigma_cos_theta=sigma, function=function, **zf)
+                    sigma_cos_theta=sigma, function=function, allow_unusual=allowed, **zf)
+
+    def check_densities(self, t: dict, key: str, hydrocarbon: str, zf: dict,
+                        allowed: frozenset) -> None:
+        """Each density of a zone inside the range of its phase (given or computed)."""
+        given = {"water": "water_density", "hydrocarbon": "hydrocarbon_density",
+                 "gas": "gas_density"}
+        rows = [("water", "water_density", zf["water_density"]),
+                ("hydrocarbon", PHASE_DENSITY[hydrocarbon], zf["hydrocarbon_density"])]
+        if zf["gas_density"] is not None:
+            rows.append(("gas", "gas_density", zf["gas_density"]))
+        for phase, name, rho in rows:
+            k = given[phase]
+            source = {"oil": "oil", "gas": "gas", "air": "conditions"}.get(
+                hydrocarbon if phase == "hydrocarbon" else phase, phase)
+            derived = "" if k in t else f"computed from {source} = {{...}}"
+            hint = ""
+            if phase == "hydrocarbon":
+                fits = [ph for ph, n in PHASE_DENSITY.items()
+                        if ph not in (hydrocarbon, "air") and RANGES[n].contains(rho)]
+                hint = "".join(f"{rho:.6g} kg/m3 fits {ph} ({RANGES[PHASE_DENSITY[ph]].text()}): "
+                               f'is hydrocarbon = "{ph}" meant? ' for ph in fits)
+            where = f"{key}.{k}" if k in t else f"{key}.{source}"
+            self.plausible(name, rho, where, t.get(k), allowed=allowed, allow_as=k,
+                           derived=derived, hint=hint)
 
     def check_zone_windows(self, zones: list[Zone], wells: list[WellSpec],
                            pending: dict | None = None) -> None:

@@ -13,8 +13,15 @@ import math
 from pathlib import Path
 from typing import Any, Iterable
 
+import numpy as np
+
 from ..errors import ProjectFileError, UnitError
-from ..units import UNIT_SYSTEMS, from_si, parse_quantity
+from ..plausible import RANGES, fwl_outside_logs, outside_message
+from ..units import UNIT_SYSTEMS, from_si, parse_quantity, split_quantity
+
+#: Key of every table that holds physical values: names of its values allowed outside
+#: their plausible range (:data:`satheight.plausible.RANGES`).
+ALLOW_KEY = "allow_unusual"
 
 _EXAMPLES = {
     "length": '"2060 m" or "6758 ft"',
@@ -168,3 +175,81 @@ class ValueReader:
                                  f"in {depth_name}",
                                  hint="zone windows may touch but not overlap; "
                                       "move one top or base")
+
+    # --- plausible ranges ---------------------------------------------------------
+    def allow_list(self, t: dict, key: str, known: Iterable[str]) -> frozenset:
+        """The ``allow_unusual = [...]`` names of a table; each must be one of ``known``."""
+        if ALLOW_KEY not in t:
+            return frozenset()
+        known = tuple(known)
+        raw = t[ALLOW_KEY]
+        k = _join(key, ALLOW_KEY)
+        if not isinstance(raw, list) or not all(isinstance(x, str) for x in raw):
+            raise self.error(k, f"expected a list of key names, found {_show(raw)}",
+                             hint=f'write e.g. {ALLOW_KEY} = ["{known[0]}"]')
+        for name in raw:
+            if name not in known:
+                close = difflib.get_close_matches(name, known, n=1)
+                raise self.error(k, f"{name!r} is not a value of this table that has a "
+                                 "plausible range",
+                                 hint=(f"did you mean {close[0]!r}? " if close else "")
+                                 + "known: " + ", ".join(known))
+        return frozenset(raw)
+
+    def plausible(self, name: str, value_si: float, key: str, raw: Any = None, *,
+                  allowed: frozenset = frozenset(), allow_as: str | None = None,
+                  derived: str = "", hint: str = "") -> None:
+        """Refuse ``value_si`` outside ``RANGES[name]`` unless the table allows it.
+
+        ``raw`` is the value as written (``None`` for a derived value, described by
+        ``derived``); ``allow_as`` the name to list in ``allow_unusual`` (default the
+        last part of ``key``).
+        """
+        leaf = allow_as or key.rsplit(".", 1)[-1]
+        if leaf in allowed:
+            return
+        number, unit, shown = self._as_read(raw, RANGES[name].kind, leaf, derived)
+        written = isinstance(raw, str) and not shown.endswith(")")
+        msg = outside_message(name, value_si, shown, number, unit, written)
+        if msg is not None:
+            raise self.error(key, msg[0], hint=msg[1] + hint + "if the value is deliberate, add "
+                             f'"{leaf}" to {ALLOW_KEY} = [...] in this table')
+
+    def _as_read(self, raw: Any, kind: str, leaf: str, derived: str):
+        """(number, unit, text) of a value as read, for messages."""
+        if raw is None:
+            return None, None, f"{leaf} {derived}".strip()
+        default = self.units.get(kind, "")
+        if isinstance(raw, str):
+            number, unit = split_quantity(raw)
+            return number, unit or default, f'{leaf} = "{raw}"' + (
+                "" if unit else f" (taken in {default})")
+        return float(raw), default, f"{leaf} = {raw!r} (a bare number, taken in {default})"
+
+
+def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) -> None:
+    """Refuse a zone's FWL far outside a well's logged TVDSS or above its surface.
+
+    Called by the run with each well's TVDSS, as the check needs the wells; the zone's
+    ``allow_unusual = ["fwl"]`` lets the value through. See
+    :func:`satheight.plausible.fwl_outside_logs`.
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        The project file, named in the error.
+    zone : satheight.engine.Zone
+    tvdss : array_like
+        The well's TVDSS [m], positive down.
+    surface_tvdss : float, optional
+        TVDSS of the well's depth reference [m] (minus its elevation).
+    """
+    z = np.asarray(tvdss, dtype=float)
+    z = z[np.isfinite(z)]
+    if "fwl" in zone.allow_unusual or z.size == 0:
+        return
+    why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss)
+    if why is not None:
+        raise ProjectFileError(why, where=f"{path}, key zones[{zone.name}].fwl",
+                               hint="check the FWL and its unit (TVDSS, positive down); if it "
+                                    f'is deliberate, add "fwl" to {ALLOW_KEY} = [...] of the zone')

@@ -9,10 +9,10 @@ from pathlib import Path
 from ..errors import InputFileError
 from ..io.tops import read_tops
 from .types import WellSpec
-from .values import _label, _show
+from .values import ALLOW_KEY, _label, _show
 
 _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "survey_format",
-              "location")
+              "location", ALLOW_KEY)
 _SURVEY_FORMATS = ("csv", "las")
 _CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
 
@@ -31,6 +31,10 @@ def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
     name = reader.text(t["name"], f"{key}.name") if "name" in t else None
     datum = (reader.quantity(t["datum_elevation"], f"{key}.datum_elevation", "length")
              if "datum_elevation" in t else None)
+    if datum is not None:
+        reader.plausible("datum_elevation", datum, f"{key}.datum_elevation",
+                         t["datum_elevation"],
+                         allowed=reader.allow_list(t, key, ("datum_elevation",)))
 
     curves: dict[str, str] = {}
     if "curves" in t:
