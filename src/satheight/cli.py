@@ -372,9 +372,11 @@ def _print_run(report, out) -> int:
             full = w.summary or (w.result.summary if w.result else None) or {}
             s = full.get("whole_well", {})
             if s.get("samples_compared"):
+                hcpt = "; ".join(f"HCPT {ph} SHM {s[f'hcpt_{ph}_shm']:.2f}, log {s[f'hcpt_{ph}_log']:.2f}"
+                                 for ph in ("oil", "gas") if s.get(f"hcpt_{ph}_log") is not None)
                 print(f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
-                      f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}", file=out)
+                      f"over {s['samples_compared']} samples; {hcpt} {full['units']['thickness']}",
+                      file=out)
             for f in w.files:
                 print(f"    {f}", file=out)
             for m in w.warnings:

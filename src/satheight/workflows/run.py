@@ -169,7 +169,10 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
     if cfg.method in ("curve", "auto") and roles.get("sw"):
         sw, w = role_values(well, "sw", roles["sw"])
         msgs += w
-        return sw, f"curve:{roles['sw']}", msgs
+        if np.isfinite(sw).any() or cfg.method == "curve":
+            return sw, f"curve:{roles['sw']}", msgs
+        msgs.append(f"Sw curve {roles['sw']} holds no value: falling back to Archie from the "
+                    "resistivity curve")
     if cfg.method == "curve":
         require_role(well, "sw", None)
     if roles.get("resistivity") is None:
@@ -182,7 +185,8 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
         return None, "none", msgs
     rt, w = role_values(well, "resistivity", roles["resistivity"])
     msgs += w
-    return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n), "archie", msgs
+    # unclipped: the comparison statistics use it; compute_well clips the exported curve
+    return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n, clip=False), "archie", msgs
 
 
 def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
@@ -219,9 +223,13 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     shm = compute_shm(tvdss, phi, k, zones)
     sw_log, source, w4 = log_saturation(project, well, roles, phi)
     msgs += w4
+    sw_raw = sw_log if source == "archie" else None
+    if sw_raw is not None:
+        sw_log = np.clip(sw_raw, 0.0, 1.0)
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
-                        tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None))
+                        tvd=tvd, north=north, east=east, survey=getattr(spec, "survey", None),
+                        sw_log_unclipped=sw_raw)
     msgs += value_warnings(result)
     return result, msgs
 
