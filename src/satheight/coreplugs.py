@@ -35,6 +35,7 @@ from .capillary import (height_from_pc, lab_to_reservoir_pc, leverett_j,  # noqa
                         sigma_cos_theta_ratio)
 from .errors import ModelError, SatHeightError
 from .models import get_family
+from .plausible import outside_message
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -134,7 +135,8 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
         if not sigma_cos_theta > 0:
             raise SatHeightError(f"sigma*cos(theta) of {name} must be > 0, got {sigma_cos_theta}",
                                  where=where or None, hint="give its magnitude, e.g. 26 mN/m")
-        return FluidSystem(name, None, None, float(sigma_cos_theta), source="given")
+        return _plausible(FluidSystem(name, None, None, float(sigma_cos_theta), source="given"),
+                          table, where)
     if sigma is None and theta is None:
         if base is None:
             raise SatHeightError(f"unknown fluid system {name!r}", where=where or None,
@@ -149,7 +151,17 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
     if not s > 0:
         raise SatHeightError(f"interfacial tension of {name} must be > 0, got {s}",
                              where=where or None)
-    return FluidSystem(name, float(s), float(t), None, source="given")
+    return _plausible(FluidSystem(name, float(s), float(t), None, source="given"), table, where)
+
+
+def _plausible(system: FluidSystem, table: dict, where: str) -> FluidSystem:
+    """A given lab or reservoir system whose sigma*cos(theta) lies in its plausible range."""
+    rng = "sigma_cos_theta" if table is RESERVOIR_SYSTEMS else "lab_sigma_cos_theta"
+    sct = system.sigma_cos_theta
+    msg = outside_message(rng, sct, f"sigma*cos(theta) of {system.name}", sct, "N/m", True)
+    if msg is not None:
+        raise SatHeightError(msg[0], where=where or None, hint=msg[1].rstrip("; ") or None)
+    return system
 
 
 def conversion_ratio(lab: FluidSystem, reservoir: FluidSystem) -> float:
@@ -492,6 +504,10 @@ def core_points(dataset: CoreDataset, *, closure="auto", phi_factor: float = 1.0
     if delta_rho is not None and not delta_rho > 0:
         raise SatHeightError(f"density difference must be > 0, got {delta_rho} kg/m3",
                              hint="give water minus hydrocarbon density at reservoir conditions")
+    msg = (None if delta_rho is None else
+           outside_message("delta_rho", delta_rho, "the density difference", delta_rho, "kg/m3"))
+    if msg is not None:
+        raise SatHeightError(msg[0], hint=msg[1] + "give water minus hydrocarbon density")
     cols: dict[str, list] = {k: [] for k in ("plug", "system", "rock", "pc", "sw", "sw_raw",
                                              "phi", "k", "j", "pc_res", "r")}
     closures = {}

@@ -77,6 +77,8 @@ RANGES: dict[str, Plausible] = {
                                  _CP + ": oil-water 10-35, gas-water 30-70 mN/m"),
     "lab_sigma_cos_theta": Plausible("lab sigma*cos(theta) (mercury up to about 370)", "tension",
                                      1e-3, 0.5, "mN/m", _CP + "; purcell1949 for mercury-air"),
+    "delta_rho": Plausible("water minus hydrocarbon density", "density", 20.0, 1200.0, "kg/m3",
+                           _CP + ": heavy oil against brine to gas against brine"),
     "fwl": Plausible("free-water level, TVDSS", "length", 0.0, 10000.0, "m",
                      _CP + ": below sea level and above the deepest reservoirs; checked again "
                            "against the wells' logged TVDSS"),
@@ -228,3 +230,38 @@ def out_of_range_samples(phi, k) -> np.ndarray:
     p, q = RANGES["porosity"], RANGES["log_permeability"]
     with np.errstate(invalid="ignore"):
         return (phi < p.low) | (phi > p.high) | (k < q.low) | (k > q.high)
+
+
+def fluid_line_problems(densities: dict) -> list[str]:
+    """What is implausible about densities derived from pressure lines (gradient / g).
+
+    Parameters
+    ----------
+    densities : dict
+        Phase (``"water"``, ``"oil"``, ``"gas"``) -> density [kg/m^3] from the fitted
+        pressure gradient of that phase.
+
+    Returns
+    -------
+    list of str
+        One sentence per problem: a density outside the range of its phase (with the
+        phase it fits, if any: a "water" line at 0.43 psi/ft in a file read in kPa/m
+        falls in none), or lines out of order (water must be denser than oil, oil
+        denser than gas). Empty when all is plausible.
+    """
+    out = []
+    names = {"water": "water_density", "oil": "oil_density", "gas": "gas_density"}
+    for phase, rho in densities.items():
+        rng = RANGES[names[phase]]
+        if rng.contains(rho):
+            continue
+        fits = [p for p, n in names.items() if p != phase and RANGES[n].contains(rho)]
+        out.append(f"the {phase} line gives {rho:.6g} kg/m3, outside {rng.text()}"
+                   + (f" (it fits {' or '.join(fits)})" if fits else
+                      " (no phase fits: is the pressure or depth unit right?)"))
+    order = [p for p in ("water", "oil", "gas") if p in densities]
+    for heavy, light in zip(order, order[1:]):
+        if not densities[heavy] > densities[light]:
+            out.append(f"the {heavy} line ({densities[heavy]:.6g} kg/m3) is not denser than the "
+                       f"{light} line ({densities[light]:.6g} kg/m3)")
+    return out
