@@ -47,6 +47,7 @@ File format
     water_density = "1.08 g/cm3"    # reservoir conditions; a density OR a pressure gradient ("0.468 psi/ft", "10.6 kPa/m") -> kg/m3
     hydrocarbon_density = "0.75 g/cm3"
     sigma_cos_theta = "26 mN/m"     # or dyn/cm, N/m; > 0
+    allow_unusual = []              # optional: names of this zone's values allowed outside their plausible range
     # instead of the densities: correlation inputs (see satheight.project.fluid_keys):
     # water = { salinity = "80000 ppm" }, oil = { api, solution_gor, gas_gravity },
     # gas = { gravity, z_method }, conditions = { pressure, temperature } or gradients;
@@ -76,9 +77,25 @@ Rules
 * ``top`` and ``base`` of a zone are given both or neither. A zone without them
   must get ``[wells.tops]`` from at least one well. Field-wide zone windows may
   touch but not overlap; nor may the tops windows of one well.
-* The FWL may lie anywhere, also outside the zone window (a zone may sit wholly
-  above or below its FWL).
+* The FWL may lie outside the zone window (a zone may sit wholly above or below
+  its FWL), but not more than 1000 m outside a well's logged TVDSS nor above its
+  depth reference (checked when the well is read).
 * ``water_density`` must be greater than ``hydrocarbon_density``.
+* Every physical value must lie in its plausible range
+  (:data:`satheight.plausible.RANGES`, reproduced in the README): brine 950-1250,
+  oil 500-1000, gas 50-400 kg/m3 (a hydrocarbon density is checked against the
+  range of ``hydrocarbon``), sigma*cos(theta) 1-100 mN/m, FWL 0-10000 m TVDSS,
+  Archie a 0.3-3, m 1-4, n 1-5, rw 0.005-20 ohm.m, porosity cutoff 0-0.6,
+  permeability cutoff 1e-4-1e5 mD, conditions and salinity likewise. A value
+  outside is refused with the key, the value as read and, where one fits, the
+  unit probably meant ("did you mean 1.08 g/cm3?"). A deliberate unusual value is
+  let through by naming it in the list ``allow_unusual`` of the same table, e.g.
+  ``allow_unusual = ["hydrocarbon_density", "fwl"]`` in a ``[[zones]]`` entry,
+  ``allow_unusual = ["m"]`` in ``[log_sw]``, ``["min_porosity"]`` in
+  ``[comparison]``, ``["datum_elevation"]`` in a ``[[wells]]`` entry. A zone's list
+  may also name ``gas_oil_level``, ``gas_density``, ``sigma_cos_theta``,
+  ``gas_sigma_cos_theta``, ``pressure``, ``temperature``, ``pressure_gradient`` and
+  ``salinity``; other names are refused.
 * Explicit well names must be unique. A well without a name takes the LAS
   file's well name when the LAS file is read (not here); the loader must check
   those for clashes.
