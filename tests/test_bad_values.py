@@ -12,6 +12,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from satheight.compare import summarise
 from satheight.errors import ProjectFileError
 from satheight.logsw import archie_sw
 from satheight.workflows.well import compute_well
@@ -29,6 +30,7 @@ hydrocarbon = "oil"
 water_density = "{rho_w} g/cm3"
 hydrocarbon_density = "0.8 g/cm3"
 sigma_cos_theta = "26 mN/m"
+{allow}
 [zones.function]
 family = "power_law"
 swirr = 0.1
@@ -39,21 +41,26 @@ j_max = {j_max}
 """
 
 
-def make(tmp_path: Path, phi, perm, rt=None, phi_unit="V/V", zones=None, depth=None):
-    """A LAS file (EKB 0: TVDSS = MD) and a project with the given zones; return (result, msgs)."""
+def make(tmp_path: Path, phi, perm, rt=None, phi_unit="V/V", zones=None, depth=None, sw=None):
+    """A LAS file (EKB 0: TVDSS = MD) and a project with the given zones; return (result, msgs).
+
+    ``sw`` adds an SW curve (log water saturation) with these values.
+    """
     n = len(phi)
     depth = np.round(1000.0 + np.arange(n), 1) if depth is None else depth
     rt = np.full(n, 20.0) if rt is None else rt
+    cols = [depth, phi, perm, rt] + ([] if sw is None else [sw])
     rows = "\n".join(" ".join("-999.25" if not np.isfinite(v) else repr(float(v)) for v in r)
-                     for r in zip(depth, phi, perm, rt))
+                     for r in zip(*cols))
+    sw_line = "" if sw is None else "SW.V/V : water saturation\n"
     (tmp_path / "w.las").write_text(
         "~Version\nVERS. 2.0 :\nWRAP. NO :\n~Well\nNULL. -999.25 :\nWELL. BV-1 :\nEKB.M 0 :\n"
         f"~Curve\nDEPT.M : depth\nPHIE.{phi_unit} : porosity\nPERM.MD : permeability\n"
-        f"RT.OHMM : resistivity\n~A\n{rows}\n")
+        f"RT.OHMM : resistivity\n{sw_line}~A\n{rows}\n")
     zones = zones if zones is not None else [dict(name="Z", top=990, base=1100, fwl=1050)]
     text = '[project]\nunits = "metric"\n[log_sw]\nrw = "0.05 ohm.m"\n[[wells]]\nlas = "w.las"\n'
     for z in zones:
-        z = {"rho_w": 1.05, "j_min": 0.0001, "j_max": 1000.0, **z}
+        z = {"rho_w": 1.05, "j_min": 0.0001, "j_max": 1000.0, "allow": "", **z}
         text += ZONE.format(**z)
     (tmp_path / "p.toml").write_text(text)
     project = load_project(tmp_path / "p.toml")
@@ -123,9 +130,27 @@ def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
 
 def test_fwl_below_the_well_is_noted(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
-                        zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+                        zones=[dict(name="Z", top=990, base=1100, fwl=1900)])
     assert np.all(result.shm.hafwl > 0) and np.all(result.shm.sw < 1.0)
     assert any("below its deepest sample" in m for m in msgs)
+
+
+def test_fwl_far_below_the_logs_is_refused_unless_allowed(tmp_path):
+    # logged TVDSS 1000-1019 m; FWL 3000 m is ~2 km below them (plausible.RANGES fwl_margin
+    # 1000 m, common practice): refused naming the key, accepted with allow_unusual = ["fwl"]
+    with pytest.raises(ProjectFileError, match=r"zones\[Z\]\.fwl.*outside the logged TVDSS"):
+        make(tmp_path, [0.2] * 20, [100.0] * 20, zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+    result, _ = make(tmp_path, [0.2] * 20, [100.0] * 20,
+                     zones=[dict(name="Z", top=990, base=1100, fwl=3000,
+                                 allow='allow_unusual = ["fwl"]')])
+    assert result.shm.hafwl[0] == pytest.approx(2000.0)      # 3000 - 1000 m, by hand
+
+
+def test_fwl_above_the_surface_is_refused(tmp_path):
+    # EKB 0 in the test LAS: the depth reference is at 0 m TVDSS; a FWL at -5 m is above it
+    with pytest.raises(ProjectFileError, match=r"zones\[Z\]\.fwl"):
+        make(tmp_path, [0.2] * 20, [100.0] * 20, zones=[dict(name="Z", top=990, base=1100, fwl=-5,
+                                                             allow="")])
 
 
 def test_zone_gap_samples_are_outside_every_zone(tmp_path):
@@ -162,4 +187,44 @@ def test_j_outside_calibrated_range_is_flagged_and_sw_kept(tmp_path):
 def test_delta_rho_not_positive_is_an_error_naming_the_key(tmp_path, rho_w):
     with pytest.raises(ProjectFileError, match=r"key zones\[Z\]\.water_density.*denser"):
         make(tmp_path, [0.2] * 5, [100.0] * 5,
-             zones=[dict(name="Z", top=990, base=1100, fwl=1050, rho_w=rho_w)])
+             zones=[dict(name="Z", top=990, base=1100, fwl=1050, rho_w=rho_w,
+                         allow='allow_unusual = ["water_density"]')])
+
+
+def test_zone_without_usable_samples_is_not_computed_in_the_summary(tmp_path):
+    # the middle zone's porosity is all null: "not computed" with a note, no 0.0 volume
+    phi = [0.2] * 5 + [np.nan] * 30 + [0.2] * 5
+    zones = [dict(name="Up", top=990, base=1005, fwl=1060),
+             dict(name="Mid", top=1005, base=1035, fwl=1060)]
+    result, _ = make(tmp_path, phi, [100.0] * 40, zones=zones)
+    s = summarise(result)
+    mid, up = s["zones"]["Mid"], s["zones"]["Up"]
+    assert mid["status"] == "not computed" and "porosity" in mid["note"]
+    assert mid["hcpt_shm"] is None and mid["hcpt_oil_log"] is None
+    assert up["status"] == "ok" and up["hcpt_oil_shm"] > 0
+
+
+def test_archie_exported_curve_is_clipped_statistics_use_unclipped(tmp_path):
+    """Water leg (FWL 990 m above every sample: SHM Sw = 1, common practice).
+
+    Archie (archie1942, a=1, m=2, n=2): Sw = sqrt(0.05 / (0.2^2 Rt)); Rt = 0.5 ohm.m gives
+    sqrt(2.5) = 1.58114 (exported as 1), Rt = 20 gives 0.25. By hand, the mean of SHM minus
+    log over 5 + 5 samples is ((1 - 1.58114) + (1 - 0.25)) / 2 = 0.084431 unclipped, where
+    the clipped values would give (0 + 0.75) / 2 = 0.375.
+    """
+    rt = [0.5] * 5 + [20.0] * 5
+    result, _ = make(tmp_path, [0.2] * 10, [100.0] * 10, rt=rt,
+                     zones=[dict(name="Z", top=990, base=1100, fwl=990)])
+    assert result.sw_log[:5] == pytest.approx([1.0] * 5)
+    assert result.sw_log_unclipped[:5] == pytest.approx([np.sqrt(2.5)] * 5, rel=1e-12)
+    z = summarise(result)["zones"]["Z"]
+    assert z["samples_sw_log_clipped"] == 5
+    assert z["mean_difference"] == pytest.approx((1 - np.sqrt(2.5) + 0.75) / 2, rel=1e-9)
+
+
+def test_all_null_sw_curve_falls_back_to_archie_with_a_note(tmp_path):
+    result, msgs = make(tmp_path, [0.2] * 10, [100.0] * 10, sw=[np.nan] * 10)
+    assert result.sw_log_source == "archie"
+    assert any("holds no value" in m and "Archie" in m for m in msgs)
+    # Archie with Rt 20, Rw 0.05, phi 0.2: sqrt(0.05 / (0.04 * 20)) = 0.25 (by hand)
+    assert result.sw_log == pytest.approx([0.25] * 10, rel=1e-12)

@@ -294,7 +294,7 @@ def test_hydrostatic_gradient_round_trip():
 
 
 def test_unit_parsers_of_fluid_keys():
-    from satheight.project_fluids import parse_gor, parse_salinity, parse_temperature_gradient
+    from satheight.project.fluid_keys import parse_gor, parse_salinity, parse_temperature_gradient
 
     # 1.6 degF per 100 ft = 1.6 * 5/9 K per 30.48 m (unit definitions)
     assert parse_temperature_gradient("1.6 degF/100ft", "degC/km") == pytest.approx(
@@ -305,3 +305,30 @@ def test_unit_parsers_of_fluid_keys():
     # 1 m3/m3 = 5.614583 scf/STB (1 bbl = 0.158987 m3, 1 ft3 = 0.0283168 m3)
     assert parse_gor("5.614583 scf/stb", "m3/m3") == pytest.approx(1.0, rel=1e-6)
     assert parse_gor(100, "m3/m3") == pytest.approx(100.0)
+
+
+# --- densities derived from pressure lines, and lab sigma*cos(theta) (plausible.RANGES) ------
+
+def test_pressure_line_densities_outside_their_phase_or_out_of_order_are_named():
+    from satheight.plausible import fluid_line_problems
+    # 0.433 psi/ft water (NIST SP 811 psi, ft; / g): 999.5 kg/m3; oil 0.33 psi/ft: 761.7 kg/m3
+    psi_ft = 6894.757293168 / 0.3048 / 9.80665
+    assert fluid_line_problems({"water": 0.433 * psi_ft, "oil": 0.33 * psi_ft}) == []
+    # a gradient read in kPa/m where psi/ft was meant: 0.433 kPa/m -> 44.2 kg/m3, fits no phase
+    probs = fluid_line_problems({"water": 433.0 / 9.80665, "oil": 0.33 * psi_ft})
+    assert any("water line" in p and "no phase fits" in p for p in probs)
+    assert any("not denser" in p for p in probs)
+    # a "water" line lighter than the "oil" line, both in range of some phase
+    probs = fluid_line_problems({"water": 980.0, "oil": 990.0})
+    assert probs == ["the water line (980 kg/m3) is not denser than the oil line (990 kg/m3)"]
+
+
+def test_lab_sigma_cos_theta_and_density_difference_outside_their_ranges_are_refused():
+    from satheight.coreplugs import RESERVOIR_SYSTEMS, fluid_system
+    from satheight.errors import SatHeightError
+    # 367.7 mN/m (mercury, purcell1949 values 480 mN/m, 140 deg) is a plausible lab value
+    assert fluid_system("mercury_air", sigma=0.480).sigma_cos_theta == pytest.approx(0.3677, abs=1e-4)
+    with pytest.raises(SatHeightError, match="did you mean 26 mN/m"):
+        fluid_system("oil_brine", sigma_cos_theta=26.0)          # 26 N/m: mN/m meant
+    with pytest.raises(SatHeightError, match="outside the plausible range 1 to 100 mN/m"):
+        fluid_system("oil_brine", RESERVOIR_SYSTEMS, sigma_cos_theta=0.3)

@@ -12,8 +12,10 @@ import scipy.constants as sc
 
 from satheight import constants as C
 from satheight import units as U
-from satheight.engine import (capillary_pressure_from_height, height_above_fwl, leverett_j,
-                              pc_from_j)
+from satheight.capillary import (capillary_pressure_from_height, height_above_fwl, height_from_j,
+                                 height_from_pc, lab_to_reservoir_pc, leverett_j, pc_from_j,
+                                 sigma_cos_theta_ratio, three_phase_pc_j)
+from satheight.errors import UnitError
 from satheight.logsw import archie_sw, formation_factor
 from satheight.models import BrooksCorey, PowerLaw, build_function
 
@@ -97,6 +99,39 @@ def test_chained_mercury_to_reservoir_height():
     assert h / C.FOOT == pytest.approx(65.193, abs=1e-3)
 
 
+def test_lab_to_reservoir_height_chain_in_one_module():
+    """The same REFERENCES.md chain through capillary.py's conversion functions.
+
+    Lab mercury Pc 100 psi scaled by (sigma cos theta) ratio 25.98/367.7 -> 7.06572 psi;
+    h = Pc / (250 kg/m3 * g) -> 65.193 ft; and J from (k, phi) at that height gives
+    the lab J back (Leverett 1941: one J curve per rock).
+    """
+    sct_hg = 480 * -math.cos(math.radians(140)) * C.DYNE_PER_CM
+    sct_res = 30 * math.cos(math.radians(30)) * C.DYNE_PER_CM
+    assert sigma_cos_theta_ratio(sct_hg, sct_res) == pytest.approx(0.070657, abs=5e-7)  # REFERENCES.md
+    pc_res = lab_to_reservoir_pc(100 * C.PSI, sct_hg, sct_res)
+    assert pc_res / C.PSI == pytest.approx(7.06572, abs=5e-5)
+    h = height_from_pc(pc_res, 250.0)
+    assert h / C.FOOT == pytest.approx(65.193, abs=1e-3)
+    k, phi = 100 * C.MILLIDARCY, 0.2
+    j_lab = leverett_j(100 * C.PSI, k, phi, sct_hg)
+    assert height_from_j(j_lab, k, phi, sct_res, 250.0) == pytest.approx(h, rel=1e-12)
+
+
+def test_three_phase_pc_accumulates_both_columns():
+    """Hand-worked: oil column 30 m, h = 50 m, rho_w 1100, rho_o 800, rho_g 200 kg/m3.
+
+    Pc = 300 g 30 + 900 g 20 = (9000 + 18000) g = 27000 * 9.80665 = 264779.55 Pa;
+    with sqrt(k/phi) = 1e-6 m, J = 1e-6 (9000 g / 0.03 + 18000 g / 0.05) = 1e-6 * 660000 g.
+    At h = 10 m (oil leg only) Pc = 300 g 10 = 29419.95 Pa (hydrostatics, common practice).
+    """
+    g = 9.80665  # NIST SP 811 standard gravity
+    pc, j = three_phase_pc_j(np.array([10.0, 50.0]), 1e-6, 30.0, 1100.0, 800.0, 200.0,
+                             0.03, 0.05)
+    assert pc == pytest.approx([3000 * g, 27000 * g], rel=1e-12)
+    assert j[1] == pytest.approx(1e-6 * 660000 * g, rel=1e-12)
+
+
 # --- Archie --------------------------------------------------------------------------
 
 def test_archie_worked_numbers():
@@ -172,3 +207,49 @@ def test_bad_parameters_named():
         build_function("nope", {})
     with pytest.raises(ModelError, match="outside its allowed range"):
         build_function("power_law", {"swirr": 1.5, "a": 0.2, "b": 1.0})
+
+
+# --- units practitioners meet (bara, barg, psig, kgf/cm2, ppg, nD, uD, US survey foot) ----------
+
+def test_us_survey_foot_is_not_the_international_foot():
+    # NIST SP 811 (2008) App. B: survey foot = 1200/3937 m; library: scipy.constants.survey_foot
+    assert U.parse_quantity("1000 usft", "length") == pytest.approx(1000 * sc.survey_foot, rel=1e-15)
+    assert U.parse_quantity("1000 ftUS", "length") == pytest.approx(304.8006096012, rel=1e-12)
+    # 2 ppm apart (1200/3937 / 0.3048 = 1.000002): 10000 ft = 3048 m differ by 6.1 mm
+    assert U.parse_quantity("10000 us ft", "length") - U.parse_quantity("10000 ft", "length") \
+        == pytest.approx(3048 * 2e-6, abs=1e-5)
+
+
+def test_absolute_pressure_units_match_scipy():
+    # library: scipy.constants.bar, psi, kgf (9.80665 N); NIST SP 811: 1 kgf/cm2 = 98066.5 Pa
+    assert U.parse_quantity("3 bara", "pressure") == pytest.approx(3 * sc.bar, rel=1e-15)
+    assert U.parse_quantity("100 psia", "pressure") == pytest.approx(100 * sc.psi, rel=1e-12)
+    assert U.parse_quantity("2 kgf/cm2", "pressure") == pytest.approx(2 * sc.kgf / 1e-4, rel=1e-15)
+    assert U.parse_quantity("1 kgf/cm2", "pressure") == pytest.approx(98066.5, rel=1e-15)
+
+
+def test_gauge_pressure_adds_one_atmosphere_and_is_never_taken_as_absolute():
+    # NIST SP 811: 1 atm = 101325 Pa (scipy.constants.atm); gauge = absolute - 1 atm
+    assert U.parse_quantity("0 psig", "pressure") == pytest.approx(sc.atm, rel=1e-15)
+    assert U.parse_quantity("100 psig", "pressure") == pytest.approx(100 * sc.psi + sc.atm, rel=1e-12)
+    assert U.parse_quantity("10 barg", "pressure") == pytest.approx(10 * sc.bar + sc.atm, rel=1e-15)
+    assert U.from_si(sc.atm + 5 * sc.bar, "barg", "pressure") == pytest.approx(5.0, rel=1e-12)
+    assert U.parse_quantity("100 psig", "pressure") != U.parse_quantity("100 psia", "pressure")
+    with pytest.raises(UnitError, match="gauge"):
+        U.factor("psig", "pressure")      # a bare factor would drop the atmosphere
+
+
+def test_mud_weight_ppg_is_a_density_and_its_gradient():
+    # NIST SP 811: lb = 0.45359237 kg, US gallon = 3.785411784 L (scipy.constants.pound, gallon);
+    # trade rule (common practice): 1 ppg = 0.052 psi/ft
+    rho = U.parse_quantity("10 ppg", "density")
+    assert rho == pytest.approx(10 * sc.pound / sc.gallon, rel=1e-12)
+    assert rho == pytest.approx(1198.264, abs=1e-3)
+    assert rho / 10 * C.STANDARD_GRAVITY * C.FOOT / C.PSI == pytest.approx(0.051948, abs=1e-6)
+
+
+def test_nano_and_micro_darcy():
+    # 1 mD = 9.869233e-16 m2 (NIST SP 811 darcy); nD = 1e-6 mD, uD = 1e-3 mD (SI prefixes)
+    assert U.parse_quantity("250 nD", "permeability") == pytest.approx(250e-6 * 9.869233e-16, rel=1e-12)
+    for text in ("3 uD", "3 µD", "3 μD"):
+        assert U.parse_quantity(text, "permeability") == pytest.approx(3e-3 * 9.869233e-16, rel=1e-12)

@@ -11,14 +11,16 @@ than taken from our own code):
 from __future__ import annotations
 
 import copy
+import math
 import textwrap
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from satheight.errors import InputFileError, ProjectFileError, UnitError
 from satheight.project import load_project, parse_project
-from satheight.project_types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
+from satheight.project.types import FunctionSpec, LogSwSpec, Project, WellSpec, ZoneSpec
 
 FT = 0.3048              # m, NIST SP 811 (2008) App. B
 PSI = 6894.757293168     # Pa, NIST SP 811 (2008) App. B
@@ -492,11 +494,13 @@ def test_non_positive_sigma_cos_theta(proj, value):
     expect_error(data, proj, "zones[Upper].sigma_cos_theta", "greater than zero")
 
 
-@pytest.mark.parametrize("rho_w", ["0.70 g/cm3", "0.75 g/cm3"])
+@pytest.mark.parametrize("rho_w", ["0.96 g/cm3", "0.98 g/cm3"])
 def test_water_not_denser_than_hydrocarbon(proj, rho_w):
+    # both inside their plausible ranges (brine 950-1250, oil 500-1000 kg/m3, common practice)
     data = metric_data()
     zone(data)["water_density"] = rho_w
-    expect_error(data, proj, "zones[Upper].water_density", rho_w, "0.75 g/cm3",
+    zone(data)["hydrocarbon_density"] = "0.98 g/cm3"
+    expect_error(data, proj, "zones[Upper].water_density", rho_w, "0.98 g/cm3",
                  "water must be denser than the hydrocarbon")
 
 
@@ -700,3 +704,112 @@ def test_comparison_errors_name_key(tmp_path, table, key):
     with pytest.raises(ProjectFileError) as e:
         load_project(_with_comparison(tmp_path, table))
     assert "c.toml" in str(e.value) and key in str(e.value)
+
+
+def test_one_zone_record_from_project_file_to_engine(proj):
+    """The project zone and the per-well engine zone are one record type.
+
+    Upper: rho_w 1080, rho_o 750 kg/m3 (read above), FWL 2060 m, sigma cos theta 0.026 N/m,
+    power law (swirr 0.1, a 0.2, b 1.5). Worked by hand at 2000 m TVDSS, k = 100 mD
+    (9.869233e-14 m2, NIST SP 811), phi = 0.2: h = 60 m, Pc = 330 * 9.80665 * 60 =
+    194171.67 Pa, J = Pc sqrt(k/phi) / 0.026, power law Sw = swirr + (1 - swirr) a J^-b.
+    """
+    from satheight.engine import Zone, compute_shm, zone_for_well
+
+    p = parse_project(metric_data(), proj)
+    z = p.zones[0]
+    assert type(z) is Zone
+    zw = zone_for_well(z, 1990.0, 2050.0)
+    assert type(zw) is Zone and (zw.top, zw.base) == (1990.0, 2050.0)
+    assert zw.fwl == z.fwl and zw.fluids == z.fluids     # fluids carried, not copied by hand
+    k, phi = 100 * 9.869233e-16, 0.2
+    pc = 330.0 * G * 60.0
+    j = pc * math.sqrt(k / phi) / 0.026
+    r = compute_shm(np.array([2000.0]), np.array([phi]), np.array([k]), [zw])
+    assert r.pc[0] == pytest.approx(pc, rel=1e-9)
+    assert r.sw[0] == pytest.approx(0.1 + 0.9 * 0.2 * j ** -1.5, rel=1e-9)
+
+
+# ----------------------------------------------------------------------------------
+# plausible ranges (satheight.plausible.RANGES; ranges are common practice, see README)
+# ----------------------------------------------------------------------------------
+def test_water_density_read_in_the_wrong_unit_is_refused_with_the_likely_unit(proj):
+    # 1.08 as a bare metric number is 1.08 kg/m3 (brine 950-1250 kg/m3): 1.08 g/cm3 was meant
+    data = metric_data()
+    zone(data)["water_density"] = 1.08
+    expect_error(data, proj, "zones[Upper].water_density", "1.08", "kg/m3", "950 to 1250",
+                 "did you mean 1.08 g/cm3?", "allow_unusual")
+
+
+def test_sigma_cos_theta_in_n_per_m_read_as_mn_per_m_is_refused(proj):
+    # 0.026 bare metric = 0.026 mN/m (range 1-100 mN/m): 0.026 N/m = 26 mN/m was meant
+    data = metric_data()
+    zone(data)["sigma_cos_theta"] = 0.026
+    expect_error(data, proj, "zones[Upper].sigma_cos_theta", "0.026", "did you mean 0.026 N/m?")
+
+
+def test_gradient_in_another_pressure_unit_is_refused_with_the_likely_unit(proj):
+    # 0.468 kPa/m -> 47.7 kg/m3; 0.468 psi/ft -> 1078 kg/m3 (NIST SP 811 psi and foot)
+    data = metric_data()
+    zone(data)["water_density"] = "0.468 kPa/m"
+    expect_error(data, proj, "zones[Upper].water_density", '"0.468 kPa/m"',
+                 "did you mean 0.468 psi/ft?")
+
+
+def test_density_that_does_not_fit_its_phase_is_refused(proj):
+    # gas zone with an oil density (750 kg/m3; gas 50-400) and oil zone at 220 kg/m3 (oil 500-1000)
+    data = metric_data()
+    zone(data, "Lower")["hydrocarbon_density"] = "0.75 g/cm3"
+    expect_error(data, proj, "zones[Lower].hydrocarbon_density", "gas density",
+                 'is hydrocarbon = "oil" meant?')
+    data = metric_data()
+    zone(data)["hydrocarbon_density"] = "220 kg/m3"
+    expect_error(data, proj, "zones[Upper].hydrocarbon_density", "oil density",
+                 'is hydrocarbon = "gas" meant?')
+
+
+def test_deliberate_unusual_value_is_accepted_with_allow_unusual(proj):
+    data = metric_data()
+    zone(data)["hydrocarbon_density"] = "220 kg/m3"
+    zone(data)["allow_unusual"] = ["hydrocarbon_density"]
+    p = parse_project(data, proj)
+    assert p.zones[0].hydrocarbon_density == pytest.approx(220.0)
+    assert "hydrocarbon_density" in p.zones[0].allow_unusual
+
+
+def test_allow_unusual_with_an_unknown_name_is_refused(proj):
+    data = metric_data()
+    zone(data)["allow_unusual"] = ["water_densty"]
+    expect_error(data, proj, "zones[Upper].allow_unusual", "'water_densty'",
+                 "did you mean 'water_density'?")
+
+
+def test_negative_fwl_is_refused(proj):
+    # TVDSS positive down; a FWL above sea level needs allow_unusual (range 0-10000 m)
+    data = metric_data()
+    zone(data)["fwl"] = "-2060 m"
+    expect_error(data, proj, "zones[Upper].fwl", '"-2060 m"', "0 to 10000 m")
+
+
+def test_archie_rw_and_cutoffs_outside_their_ranges_are_refused(proj):
+    for table, key, value, words in (
+            ("log_sw", "m", 20.0, ("1 to 4",)),
+            ("log_sw", "rw", 45, ("0.005 to 20 ohm.m",)),
+            ("comparison", "min_porosity", 0.8, ("0 to 0.6", "did you mean 0.8 %?")),
+            ("comparison", "min_permeability", "5e6 mD", ("0.0001 to 100000 mD",))):
+        data = metric_data()
+        data.setdefault(table, {})[key] = value
+        expect_error(data, proj, f"{table}.{key}", *words)
+    data = metric_data()
+    data["log_sw"].update(m=20.0, allow_unusual=["m"])
+    assert parse_project(data, proj).log_sw.m == 20.0
+
+
+def test_reservoir_pressure_in_the_wrong_unit_is_refused(proj):
+    # 30 kPa is below 0.1 MPa; 30 MPa was meant (range 0.1-250 MPa, common practice)
+    data = metric_data()
+    z = zone(data)
+    del z["water_density"]
+    z["water"] = {"salinity": "80000 ppm"}
+    z["conditions"] = {"pressure": "30 kPa", "temperature": "80 degC"}
+    expect_error(data, proj, "zones[Upper].conditions.pressure", "did you mean 30 MPa?")

@@ -362,9 +362,10 @@ def _print_run(report, out) -> int:
             full = w.summary or (w.result.summary if w.result else None) or {}
             s = full.get("whole_well", {})
             if s.get("samples_compared"):
+                hcpt = "; ".join(f"HCPT {ph} SHM {s[f'hcpt_{ph}_shm']:.2f}, log {s[f'hcpt_{ph}_log']:.2f}"
+                                 for ph in ("oil", "gas") if s.get(f"hcpt_{ph}_log") is not None)
                 _say(out, f"    SHM - log Sw: mean {s['mean_difference']:+.3f}, RMS {s['rms_difference']:.3f} "
-                      f"over {s['samples_compared']} samples; HCPT SHM {s['hcpt_shm']:.2f}, "
-                      f"log {s['hcpt_log']:.2f} {full['units']['thickness']}")
+                      f"over {s['samples_compared']} samples; {hcpt} {full['units']['thickness']}")
             for f in w.files:
                 _say(out, f"    {f}")
             for m in w.warnings:

@@ -2,7 +2,16 @@
 
 Hydrocarbon pore thickness: ``HCPT = sum(phi * (1 - Sw) * dh)`` over samples, with
 ``dh`` the true vertical thickness each sample stands for (common practice). Both
-saturations are summed over the same samples so the two thicknesses compare.
+saturations are summed over the same samples so the two thicknesses compare, and
+each hydrocarbon phase (oil, gas; air in an air-water column) is summed on its own:
+oil and gas volumes are never added.
+
+Samples whose porosity or permeability lies outside its plausible range
+(:func:`satheight.plausible.out_of_range_samples`) are left out of the statistics and
+the volumes and counted. The difference statistics use the unclipped log Sw (Archie
+values above 1 in the water leg are kept: clipping them biases the mean); only the
+exported curve and the volumes use the clipped one. A block without a usable sample
+is ``"not computed"`` with a note, never ``"ok"`` with zeros.
 """
 
 from __future__ import annotations
@@ -10,6 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from .constants import MILLIDARCY
+from .plausible import out_of_range_samples
 from .results import FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_NO_ZONE, WellResult
 
 
@@ -63,31 +73,97 @@ def difference_stats(sw_model, sw_log):
             "samples_compared": int(d.size)}
 
 
+def _phase_of_samples(result: WellResult) -> np.ndarray:
+    """Hydrocarbon phase of each sample's column (``"oil"``, ``"gas"``, ``"air"``, "" outside).
+
+    In a zone with a gas cap, samples above its free-oil level are in the gas column.
+    """
+    phase = np.full(result.shm.zone.shape, "", dtype=object)
+    z = np.asarray(result.tvdss, dtype=float)
+    for i, zn in enumerate(result.zones):
+        m = result.shm.zone == i
+        phase[m] = zn.hydrocarbon
+        if zn.three_phase:
+            with np.errstate(invalid="ignore"):
+                phase[m & (z < zn.gas_oil_level)] = "gas"
+    return phase
+
+
+def _not_computed_note(result: WellResult, zone_mask: np.ndarray, usable: np.ndarray) -> str:
+    """Why a block has no usable sample, and where log Sw came from."""
+    n = int(zone_mask.sum())
+    if n == 0:
+        why = "no sample of the well lies in it"
+    elif not np.isfinite(result.phi[zone_mask]).any():
+        why = "the porosity curve has no value in it"
+    elif not np.isfinite(result.k[zone_mask]).any():
+        why = "the permeability curve has no value in it"
+    else:
+        why = f"none of its {n} samples has usable porosity, permeability and SHM Sw"
+    src = result.sw_log_source
+    origin = ("log Sw from Archie on the resistivity curve" if src == "archie" else
+              f"log Sw from curve {src.split(':', 1)[1]}" if src.startswith("curve:") else
+              "no log Sw")
+    return f"not computed: {why} ({origin})"
+
+
 def _block(result: WellResult, zone_mask: np.ndarray, net: np.ndarray, dh: np.ndarray,
-           length_factor: float) -> dict:
+           length_factor: float, phase: np.ndarray) -> dict:
     shm = result.shm
     flagged_bits = shm.flag & ~FLAG_NO_ZONE
-    mask = zone_mask & net
+    bad = out_of_range_samples(result.phi, result.k)
+    mask = zone_mask & net & ~bad
     out = {"samples": int(zone_mask.sum()),
            "samples_net": int(mask.sum()),
            "samples_flagged": int((zone_mask & (flagged_bits != 0)).sum()),
            "samples_bad_porosity_or_permeability": int(
                (zone_mask & ((shm.flag & (FLAG_BAD_POROSITY | FLAG_BAD_PERMEABILITY)) != 0)).sum()),
+           "samples_out_of_range": int((zone_mask & bad).sum()),
            "vertical_thickness": float(dh[zone_mask].sum()) / length_factor,
            "net_vertical_thickness": float(dh[mask].sum()) / length_factor}
     sw_shm = np.where(mask, shm.sw, np.nan)
+    usable = np.isfinite(sw_shm) & np.isfinite(result.phi)
+    sw_log = None
     if result.sw_log is not None:
         sw_log = np.where(mask, result.sw_log, np.nan)
-        both = np.isfinite(sw_shm) & np.isfinite(sw_log) & np.isfinite(result.phi)
-        out.update(difference_stats(sw_shm[both], sw_log[both]))
-        out["hcpt_shm"] = hydrocarbon_pore_thickness(result.phi[both], sw_shm[both], dh[both]) / length_factor
-        out["hcpt_log"] = hydrocarbon_pore_thickness(result.phi[both], sw_log[both], dh[both]) / length_factor
+        usable &= np.isfinite(sw_log)
+        # statistics on the unclipped log Sw (clipping biases the mean in the water leg)
+        raw = result.sw_log if result.sw_log_unclipped is None else result.sw_log_unclipped
+        out.update(difference_stats(sw_shm[usable], raw[usable]))
     else:
-        ok = np.isfinite(sw_shm) & np.isfinite(result.phi)
-        out.update({"mean_difference": None, "rms_difference": None,
-                    "samples_compared": 0})
-        out["hcpt_shm"] = hydrocarbon_pore_thickness(result.phi[ok], sw_shm[ok], dh[ok]) / length_factor
-        out["hcpt_log"] = None
+        out.update({"mean_difference": None, "rms_difference": None, "samples_compared": 0})
+    out["samples_sw_log_clipped"] = _clipped(result, zone_mask)
+    out.update(_hcpt(result.phi, sw_shm, sw_log, dh, usable, np.where(zone_mask, phase, ""),
+                     length_factor))
+    ok = bool(usable.any())
+    out["status"] = "ok" if ok else "not computed"
+    out["note"] = None if ok else _not_computed_note(result, zone_mask, usable)
+    return out
+
+
+def _clipped(result: WellResult, zone_mask: np.ndarray) -> int:
+    """Samples of the block whose log Sw (Archie) was outside [0, 1] and clipped for export."""
+    if result.sw_log_unclipped is None:
+        return 0
+    with np.errstate(invalid="ignore"):
+        outside = (result.sw_log_unclipped < 0.0) | (result.sw_log_unclipped > 1.0)
+    return int((zone_mask & outside).sum())
+
+
+def _hcpt(phi, sw_shm, sw_log, dh, usable, phase, length_factor) -> dict:
+    """Hydrocarbon pore thickness per phase present, SHM and log, in the output length unit.
+
+    ``None`` for the phases of a block without a usable sample (not computed, not 0).
+    """
+    out = {}
+    for ph in sorted({str(p) for p in phase} - {""}):
+        m = usable & (phase == ph)
+        if not usable.any():
+            out[f"hcpt_{ph}_shm"] = out[f"hcpt_{ph}_log"] = None
+            continue
+        out[f"hcpt_{ph}_shm"] = hydrocarbon_pore_thickness(phi[m], sw_shm[m], dh[m]) / length_factor
+        out[f"hcpt_{ph}_log"] = (None if sw_log is None else
+                                 hydrocarbon_pore_thickness(phi[m], sw_log[m], dh[m]) / length_factor)
     return out
 
 
@@ -131,10 +207,15 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
     """
     dh = sample_thickness(result.tvdss)
     net = net_mask(result.phi, result.k, min_porosity, min_permeability)
+    phase = _phase_of_samples(result)
     zones = {}
     for i, zn in enumerate(result.zones):
         m = result.shm.zone == i
-        block = _block(result, m, net, dh, length_factor)
+        block = _block(result, m, net, dh, length_factor, phase)
+        # one phase per two-phase zone: its HCPT also under the plain keys
+        hc = None if zn.three_phase else zn.hydrocarbon
+        block["hcpt_shm"] = block.get(f"hcpt_{hc}_shm")
+        block["hcpt_log"] = block.get(f"hcpt_{hc}_log")
         block.update({"top_tvdss": zn.top / length_factor, "base_tvdss": zn.base / length_factor,
                       "fwl_tvdss": zn.fwl / length_factor, "hydrocarbon": zn.hydrocarbon,
                       "function": zn.function.name, "parameters": dict(zn.function.params_)})
@@ -147,5 +228,5 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
             "datum_elevation": result.datum_elevation / length_factor,
             "cutoffs": {"min_porosity": min_porosity,
                         "min_permeability_mD": min_permeability / MILLIDARCY},
-            "whole_well": _block(result, all_zones, net, dh, length_factor),
+            "whole_well": _block(result, all_zones, net, dh, length_factor, phase),
             "zones": zones}

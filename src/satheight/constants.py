@@ -17,6 +17,25 @@ FOOT = 0.3048
 #: (0.45359237 kg * 9.80665 m/s^2 / 0.0254^2 m^2).
 PSI = 0.45359237 * STANDARD_GRAVITY / 0.0254**2
 
+#: US survey foot [m]: 1200/3937 m exactly. NIST SP 811 (2008), Appendix B (footnote on the
+#: survey foot); scipy.constants.survey_foot.
+US_SURVEY_FOOT = 1200.0 / 3937.0
+
+#: Standard atmosphere [Pa], the offset between gauge and absolute pressure used here.
+#: NIST SP 811 (2008), Appendix B: 1 atm = 101 325 Pa exactly.
+STANDARD_ATMOSPHERE = 101325.0
+
+#: Kilogram-force per square centimetre [Pa]: 9.80665 N / 1e-4 m^2 = 98 066.5 Pa exactly.
+#: NIST SP 811 (2008), Appendix B.
+KGF_PER_CM2 = STANDARD_GRAVITY / 1e-4
+
+#: US liquid gallon [m^3]: 231 in^3 = 3.785411784e-3 m^3 exactly. NIST SP 811 (2008), App. B.
+US_GALLON = 231 * 0.0254**3
+
+#: Pound-mass per US gallon [kg/m^3] (mud weight "ppg"): 0.45359237 kg / US gallon
+#: = 119.826 427 kg/m^3. NIST SP 811 (2008), Appendix B.
+LB_PER_GALLON = 0.45359237 / US_GALLON
+
 #: Darcy [m^2]. NIST SP 811 (2008), Appendix B: 1 darcy = 9.869233e-13 m^2.
 DARCY = 9.869233e-13
 

@@ -10,8 +10,8 @@ From lab capillary-pressure curves of core plugs to points (J, Sw) ready for fit
    (:func:`wetting_saturation_from_mercury`); closure (conformance) correction
    (:func:`closure_correction`, :func:`pick_closure_pressure`); pore-throat radius
    by Washburn (:func:`washburn_radius`);
-3. lab -> reservoir capillary pressure by the sigma*cos(theta) ratio
-   (:func:`lab_to_reservoir_pc`), equivalent height above the FWL;
+3. lab -> reservoir capillary pressure by the sigma*cos(theta) ratio, equivalent
+   height above the FWL (:mod:`satheight.capillary`, re-exported here);
 4. Leverett J of every point from the plug's own porosity and permeability,
    optionally stress-corrected (:func:`stress_correct`);
 5. fit one or more J-Sw families per rock type (:func:`fit_rock_types`).
@@ -22,6 +22,7 @@ Everything is SI inside: pressure [Pa], sigma*cos(theta) [N/m], permeability
 
 from __future__ import annotations
 
+import hashlib
 import math
 import warnings
 from dataclasses import dataclass, field
@@ -30,8 +31,11 @@ from pathlib import Path
 import numpy as np
 
 from . import constants as C
-from .engine import leverett_j
+from .capillary import (height_from_pc, lab_to_reservoir_pc, leverett_j,  # noqa: F401
+                        sigma_cos_theta_ratio)
 from .errors import ModelError, SatHeightError
+from .models import get_family
+from .plausible import outside_message
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -131,7 +135,8 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
         if not sigma_cos_theta > 0:
             raise SatHeightError(f"sigma*cos(theta) of {name} must be > 0, got {sigma_cos_theta}",
                                  where=where or None, hint="give its magnitude, e.g. 26 mN/m")
-        return FluidSystem(name, None, None, float(sigma_cos_theta), source="given")
+        return _plausible(FluidSystem(name, None, None, float(sigma_cos_theta), source="given"),
+                          table, where)
     if sigma is None and theta is None:
         if base is None:
             raise SatHeightError(f"unknown fluid system {name!r}", where=where or None,
@@ -146,42 +151,22 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
     if not s > 0:
         raise SatHeightError(f"interfacial tension of {name} must be > 0, got {s}",
                              where=where or None)
-    return FluidSystem(name, float(s), float(t), None, source="given")
+    return _plausible(FluidSystem(name, float(s), float(t), None, source="given"), table, where)
+
+
+def _plausible(system: FluidSystem, table: dict, where: str) -> FluidSystem:
+    """A given lab or reservoir system whose sigma*cos(theta) lies in its plausible range."""
+    rng = "sigma_cos_theta" if table is RESERVOIR_SYSTEMS else "lab_sigma_cos_theta"
+    sct = system.sigma_cos_theta
+    msg = outside_message(rng, sct, f"sigma*cos(theta) of {system.name}", sct, "N/m", True)
+    if msg is not None:
+        raise SatHeightError(msg[0], where=where or None, hint=msg[1].rstrip("; ") or None)
+    return system
 
 
 def conversion_ratio(lab: FluidSystem, reservoir: FluidSystem) -> float:
     """``(sigma cos theta)_res / (sigma cos theta)_lab`` [-]; multiply lab Pc by it."""
-    return reservoir.sigma_cos_theta / lab.sigma_cos_theta
-
-
-def lab_to_reservoir_pc(pc_lab, sct_lab, sct_res):
-    """Reservoir capillary pressure [Pa] from lab capillary pressure of the same rock.
-
-    ``Pc_res = Pc_lab * (sigma cos theta)_res / (sigma cos theta)_lab``: the J
-    curve of one rock is the same in both systems (Leverett 1941).
-
-    Parameters
-    ----------
-    pc_lab : array_like
-        Lab capillary pressure [Pa].
-    sct_lab, sct_res : float or array_like
-        |sigma*cos(theta)| of the lab and reservoir systems [N/m].
-    """
-    return np.asarray(pc_lab, dtype=float) * (np.asarray(sct_res, dtype=float)
-                                              / np.asarray(sct_lab, dtype=float))
-
-
-def height_from_pc(pc, delta_rho, g=C.STANDARD_GRAVITY):
-    """Height above the FWL [m] equivalent to reservoir Pc [Pa]: ``h = Pc / (delta_rho g)``.
-
-    Parameters
-    ----------
-    pc : array_like
-        Reservoir capillary pressure [Pa].
-    delta_rho : float
-        Water minus hydrocarbon density at reservoir conditions [kg/m^3], > 0.
-    """
-    return np.asarray(pc, dtype=float) / (float(delta_rho) * g)
+    return float(sigma_cos_theta_ratio(lab.sigma_cos_theta, reservoir.sigma_cos_theta))
 
 
 # ----------------------------------------------------------------------------------
@@ -519,6 +504,10 @@ def core_points(dataset: CoreDataset, *, closure="auto", phi_factor: float = 1.0
     if delta_rho is not None and not delta_rho > 0:
         raise SatHeightError(f"density difference must be > 0, got {delta_rho} kg/m3",
                              hint="give water minus hydrocarbon density at reservoir conditions")
+    msg = (None if delta_rho is None else
+           outside_message("delta_rho", delta_rho, "the density difference", delta_rho, "kg/m3"))
+    if msg is not None:
+        raise SatHeightError(msg[0], hint=msg[1] + "give water minus hydrocarbon density")
     cols: dict[str, list] = {k: [] for k in ("plug", "system", "rock", "pc", "sw", "sw_raw",
                                              "phi", "k", "j", "pc_res", "r")}
     closures = {}
@@ -586,8 +575,6 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
         FitReport}, "selected": family, "errors": {family: message}}``. The
         selected family is the J family with the lowest AIC.
     """
-    from .models import get_family
-
     out: dict = {}
     names = [str(x) or "all" for x in points.rock_type]
     labels = np.array(names, dtype=object)
@@ -617,8 +604,6 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
 
 def sha256_of(path) -> str:
     """sha256 hex digest of a file's bytes."""
-    import hashlib
-
     h = hashlib.sha256()
     with open(Path(path), "rb") as f:
         for block in iter(lambda: f.read(1 << 16), b""):

@@ -12,107 +12,43 @@ For every sample of a well:
 
 Everything is SI: depths [m], pressure [Pa], density [kg/m^3], permeability [m^2],
 sigma*cos(theta) [N/m], porosity and saturation as fractions. Zones are handled
-by masks (one numpy pass per zone), never by a Python loop over samples.
+by masks (one numpy pass per zone), never by a Python loop over samples. The
+height, Pc and J arithmetic is :mod:`satheight.capillary`'s (its functions are
+also importable from here, as before).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-from typing import Sequence
+from dataclasses import dataclass, field, replace
+from typing import Any, Callable, Sequence
 
 import numpy as np
 
-from .constants import STANDARD_GRAVITY
+from .capillary import (capillary_pressure_from_height, height_above_fwl, leverett_j,  # noqa: F401
+                        pc_from_j, sqrt_k_over_phi, three_phase_pc_j)
 from .errors import SatHeightError
+from .models import build_function
 from .models.base import JSwFunction
 from .results import (FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_J_ABOVE_RANGE,
                       FLAG_J_BELOW_RANGE, FLAG_NO_ROCK_FUNCTION, FLAG_NO_ZONE, ShmResult)
 
 
-def height_above_fwl(tvdss, fwl):
-    """Height above the free-water level [m].
-
-    Parameters
-    ----------
-    tvdss : array_like
-        True vertical depth below the datum of each sample [m], positive down.
-    fwl : float or array_like
-        Free-water level, TVDSS [m].
-
-    Returns
-    -------
-    numpy.ndarray
-        ``fwl - tvdss`` [m]; negative below the FWL.
-    """
-    return np.asarray(fwl, dtype=float) - np.asarray(tvdss, dtype=float)
-
-
-def capillary_pressure_from_height(h, rho_water, rho_hydrocarbon, g=STANDARD_GRAVITY):
-    """Reservoir capillary pressure from height above the FWL [Pa].
-
-    ``Pc = (rho_w - rho_hc) * g * h``: the pressure difference between the two
-    continuous fluid columns at rest, which meet at the FWL (Pc = 0 there).
-
-    Parameters
-    ----------
-    h : array_like
-        Height above the FWL [m].
-    rho_water, rho_hydrocarbon : float or array_like
-        Densities at reservoir conditions [kg/m^3].
-    g : float
-        Acceleration of gravity [m/s^2], standard gravity 9.80665 (3rd CGPM 1901).
-
-    References
-    ----------
-    Hydrostatics of two immiscible fluids; e.g. Tiab, D. and Donaldson, E. C.,
-    Petrophysics, chapter on capillary pressure (common practice).
-    """
-    return (np.asarray(rho_water, dtype=float) - np.asarray(rho_hydrocarbon, dtype=float)) * g * np.asarray(h, dtype=float)
-
-
-def leverett_j(pc, k, phi, sigma_cos_theta):
-    """Leverett J-function, dimensionless.
-
-    Parameters
-    ----------
-    pc : array_like
-        Capillary pressure [Pa].
-    k : array_like
-        Permeability [m^2].
-    phi : array_like
-        Porosity [fraction].
-    sigma_cos_theta : float or array_like
-        Interfacial tension times cosine of the contact angle [N/m].
-
-    Returns
-    -------
-    numpy.ndarray
-        ``J = Pc * sqrt(k / phi) / (sigma cos theta)``. In field units
-        (Pc psi, k mD, sigma dyn/cm) the same J is ``0.2166 * Pc * sqrt(k/phi) / (sigma cos theta)``.
-
-    References
-    ----------
-    Leverett, M. C., 1941. Capillary behavior in porous solids. Trans. AIME 142, 152-169.
-    """
-    pc = np.asarray(pc, dtype=float)
-    return pc * np.sqrt(np.asarray(k, dtype=float) / np.asarray(phi, dtype=float)) / np.asarray(sigma_cos_theta, dtype=float)
-
-
-def pc_from_j(j, k, phi, sigma_cos_theta):
-    """Capillary pressure [Pa] from Leverett J [-]; the inverse of :func:`leverett_j`."""
-    return np.asarray(j, dtype=float) * np.asarray(sigma_cos_theta, dtype=float) / np.sqrt(
-        np.asarray(k, dtype=float) / np.asarray(phi, dtype=float))
-
-
 @dataclass(frozen=True)
-class ZoneModel:
-    """One zone as the engine uses it, for one well.
+class Zone:
+    """One zone: its window, free-water level, fluids and J-Sw function.
+
+    The one zone record of the package. The project reader makes it from a
+    ``[[zones]]`` entry (``function`` is then the
+    :class:`satheight.project.types.FunctionSpec` as read, ``top``/``base`` the
+    field-wide window or ``None``); :func:`zone_for_well` makes the per-well form the
+    engine evaluates (this well's window, a ready :class:`JSwFunction`).
 
     Attributes
     ----------
     name : str
-    top, base : float
-        Zone window in TVDSS [m] for this well (top inclusive, base exclusive).
+    top, base : float or None
+        Zone window in TVDSS [m] (top inclusive, base exclusive); in the project-file
+        form ``None`` when every well gives its own tops.
     fwl : float
         Free-water level TVDSS [m].
     water_density, hydrocarbon_density : float
@@ -121,8 +57,8 @@ class ZoneModel:
         ``"oil"``, ``"gas"`` or ``"air"``.
     sigma_cos_theta : float
         [N/m] at reservoir conditions.
-    function : JSwFunction
-        Ready-to-predict J-Sw function.
+    function : JSwFunction or FunctionSpec
+        Ready-to-predict J-Sw function (per-well form) or its specification (as read).
     rock_functions : dict[str, JSwFunction] or None
         Optional per-rock-type functions: when given, each sample's rock type is
         found by ``rock_classifier(phi, k)`` and that type's function is used
@@ -131,25 +67,35 @@ class ZoneModel:
     rock_classifier : callable or None
         ``(phi [fraction], k [m^2]) -> array of rock-type names``, vectorised
         (e.g. :meth:`satheight.rocktypes.RockTypeRule.classify`).
+    gas_oil_level, gas_density, gas_sigma_cos_theta : float or None
+        Three-phase column (gas cap over oil over water), all optional: the free-oil
+        (gas-oil) level TVDSS [m], gas density [kg/m^3] and gas-water
+        sigma*cos(theta) [N/m]. With gas_oil_level set, ``hydrocarbon`` is the oil
+        of the oil leg.
+    fluids : dict
+        How each density was obtained: ``{"water": {...}, "hydrocarbon": {...},
+        "gas": {...}, "conditions": {...}}``, JSON-ready.
+    allow_unusual : frozenset of str
+        Names of this zone's values the project file allows outside their plausible
+        range (:mod:`satheight.plausible`), e.g. ``{"fwl"}``.
     """
 
     name: str
-    top: float
-    base: float
+    top: float | None
+    base: float | None
     fwl: float
     water_density: float
     hydrocarbon_density: float
     hydrocarbon: str
     sigma_cos_theta: float
-    function: JSwFunction
+    function: Any
     rock_functions: dict | None = None
-    rock_classifier: object | None = None
-    # Three-phase column (gas cap over oil over water), all optional: the free-oil
-    # (gas-oil) level TVDSS [m], gas density [kg/m^3] and gas-water sigma*cos(theta)
-    # [N/m]. With gas_oil_level set, ``hydrocarbon`` is the oil of the oil leg.
+    rock_classifier: Callable | None = None
     gas_oil_level: float | None = None
     gas_density: float | None = None
     gas_sigma_cos_theta: float | None = None
+    fluids: dict = field(default_factory=dict)
+    allow_unusual: frozenset = frozenset()
 
     @property
     def delta_rho(self) -> float:
@@ -162,7 +108,34 @@ class ZoneModel:
         return self.gas_oil_level is not None
 
 
-def assign_zones(tvdss, zones: Sequence[ZoneModel]) -> np.ndarray:
+#: The per-well form of :class:`Zone` (the same record; the name other modules use).
+ZoneModel = Zone
+
+
+def zone_for_well(zone: Zone, top: float, base: float, where: str = "") -> Zone:
+    """The per-well form of a project zone: this well's window, ready J-Sw functions.
+
+    Parameters
+    ----------
+    zone : Zone
+        As read from the project file (``function`` a FunctionSpec).
+    top, base : float
+        This well's zone window, TVDSS [m].
+    where : str
+        Named in errors of the function parameters (file and key).
+    """
+    spec = zone.function
+    fn = build_function(spec.family, spec.params, spec.j_range, where=where)
+    rock_functions = classifier = None
+    if spec.by_rock_type:  # per-depth rock typing from a model file
+        rock_functions = {rt: build_function(f.family, f.params, f.j_range, where=where)
+                          for rt, f in spec.by_rock_type.items()}
+        classifier = spec.rock_rule.classify
+    return replace(zone, top=top, base=base, function=fn, rock_functions=rock_functions,
+                   rock_classifier=classifier)
+
+
+def assign_zones(tvdss, zones: Sequence[Zone]) -> np.ndarray:
     """Index of the zone each sample falls in (top <= z < base), -1 where none.
 
     Where windows overlap the first zone in the list wins (the project reader
@@ -187,7 +160,7 @@ def _columns(tvdss, phi, k):
     return z, phi, k
 
 
-def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+def compute_shm(tvdss, phi, k, zones: Sequence[Zone]) -> ShmResult:
     """Saturation-height model at every sample.
 
     Parameters
@@ -232,7 +205,7 @@ def compute_shm(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
                      sw=res.sw[back], flag=res.flag[back])
 
 
-def _compute_sorted(z, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+def _compute_sorted(z, phi, k, zones: Sequence[Zone]) -> ShmResult:
     """:func:`compute_shm` for non-decreasing ``z`` (NaN only at the end)."""
     n = z.size
     # not filled here: every sample is written once, by its zone or as "no zone" below
@@ -269,21 +242,20 @@ def _compute_sorted(z, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
     return ShmResult(zone=zone, hafwl=hafwl, pc=pc, j=j, sw=sw, flag=flag)
 
 
-def _needs_general_path(zn: ZoneModel) -> bool:
+def _needs_general_path(zn: Zone) -> bool:
     """True for zones the in-place segment code does not cover (see :func:`_zone_segment`)."""
-    return (bool(getattr(zn, "three_phase", False)) or bool(zn.rock_functions)
-            or getattr(zn.function, "variable", "j") == "height")
+    return zn.three_phase or bool(zn.rock_functions) or zn.function.variable == "height"
 
 
-def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
+def _zone_segment(zn: Zone, z, phi, k, h, pc, j, sw, flag) -> None:
     """Fill the output slices ``h, pc, j, sw, flag`` of one zone in place.
 
     The same arithmetic, in the same order, as :func:`compute_shm_masks`:
     ``h = fwl - z``, ``Pc = max(drho*g*h, 0)``, ``J = Pc*sqrt(k/phi)/sigma_cos_theta``
     where porosity and permeability are usable, J = 0 at and below the FWL.
     """
-    np.subtract(zn.fwl, z, out=h)
-    np.multiply(h, zn.delta_rho * STANDARD_GRAVITY, out=pc)
+    height_above_fwl(z, zn.fwl, out=h)
+    capillary_pressure_from_height(h, zn.water_density, zn.hydrocarbon_density, out=pc)
     np.maximum(pc, 0.0, out=pc)
     with np.errstate(invalid="ignore", divide="ignore"):
         ok_phi = phi > 0
@@ -291,10 +263,7 @@ def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
         ok_k = k > 0
         usable = ok_phi & ok_k
         below = h <= 0
-        np.divide(k, phi, out=j)
-        np.sqrt(j, out=j)
-        np.multiply(pc, j, out=j)
-        np.divide(j, zn.sigma_cos_theta, out=j)
+        leverett_j(pc, k, phi, zn.sigma_cos_theta, out=j)
     j[~usable] = np.nan
     j[below] = 0.0
     fn = zn.function
@@ -321,7 +290,7 @@ def _zone_segment(zn: ZoneModel, z, phi, k, h, pc, j, sw, flag) -> None:
     flag[...] = bits
 
 
-def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
+def compute_shm_masks(tvdss, phi, k, zones: Sequence[Zone]) -> ShmResult:
     """Saturation-height model at every sample, straightforward mask form.
 
     Same parameters and results as :func:`compute_shm` (which the tests check
@@ -340,11 +309,12 @@ def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
         return table[zone]  # index -1 picks the trailing NaN
 
     fwl = per_sample([zn.fwl for zn in zones])
-    drho = per_sample([zn.delta_rho for zn in zones])
+    rho_w = per_sample([zn.water_density for zn in zones])
+    rho_h = per_sample([zn.hydrocarbon_density for zn in zones])
     sct = per_sample([zn.sigma_cos_theta for zn in zones])
 
-    h = fwl - z
-    pc = np.maximum(drho * STANDARD_GRAVITY * h, 0.0)
+    h = height_above_fwl(z, fwl)
+    pc = np.maximum(capillary_pressure_from_height(h, rho_w, rho_h), 0.0)
     with np.errstate(invalid="ignore"):
         bad_phi = ~((phi > 0) & (phi <= 1))
         bad_k = ~(k > 0)
@@ -355,14 +325,13 @@ def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
 
     usable = ~(bad_phi | bad_k)
     below = in_zone & (h <= 0)
-    j = np.full(n, np.nan)
     with np.errstate(invalid="ignore", divide="ignore"):
-        np.divide(pc * np.sqrt(k / phi), sct, out=j, where=in_zone & usable)
+        j = np.where(in_zone & usable, leverett_j(pc, k, phi, sct), np.nan)
     j[below] = 0.0
 
     # three-phase zones: Pc and J over both columns (see column_pc_j)
     for i, zn in enumerate(zones):
-        if not getattr(zn, "three_phase", False):
+        if not zn.three_phase:
             continue
         m = (zone == i) & ~below
         if m.any():
@@ -387,7 +356,7 @@ def compute_shm_masks(tvdss, phi, k, zones: Sequence[ZoneModel]) -> ShmResult:
 
 def _predict(fn: JSwFunction, j, h):
     """Sw and range-flag bits of one function; a height function gets h [m], others J."""
-    x = h if getattr(fn, "variable", "j") == "height" else j
+    x = h if fn.variable == "height" else j
     sw = fn.predict(x)
     bits = np.zeros(x.shape, dtype=np.int64)
     rng = fn.j_range_
@@ -397,7 +366,7 @@ def _predict(fn: JSwFunction, j, h):
     return sw, bits
 
 
-def _predict_by_rock_type(zn: ZoneModel, j, h, phi, k, flag):
+def _predict_by_rock_type(zn: Zone, j, h, phi, k, flag):
     """Sw per sample from the function of each sample's rock type (loop over rock types)."""
     labels = np.asarray(zn.rock_classifier(phi, k), dtype=object)
     sw = np.full(j.shape, np.nan)
@@ -414,7 +383,7 @@ def _predict_by_rock_type(zn: ZoneModel, j, h, phi, k, flag):
     return sw, flag
 
 
-def column_pc_j(h, k, phi, zone: ZoneModel, oil_column=None):
+def column_pc_j(h, k, phi, zone: Zone, oil_column=None):
     """Capillary pressure [Pa] and J [-] at height ``h`` above the FWL, any column type.
 
     Two-phase zone (no ``gas_oil_level``): ``Pc = (rho_w - rho_hc) g h`` and
@@ -459,9 +428,8 @@ def column_pc_j(h, k, phi, zone: ZoneModel, oil_column=None):
     k = np.asarray(k, dtype=float)
     phi = np.asarray(phi, dtype=float)
     with np.errstate(invalid="ignore", divide="ignore"):
-        root = np.sqrt(k / phi)
-        root = np.where((k > 0) & (phi > 0) & (phi <= 1), root, np.nan)
-    if not getattr(zone, "three_phase", False):
+        root = np.where((k > 0) & (phi > 0) & (phi <= 1), sqrt_k_over_phi(k, phi), np.nan)
+    if not zone.three_phase:
         pc = np.maximum(capillary_pressure_from_height(h, zone.water_density,
                                                        zone.hydrocarbon_density), 0.0)
         return pc, pc * root / zone.sigma_cos_theta
@@ -469,13 +437,6 @@ def column_pc_j(h, k, phi, zone: ZoneModel, oil_column=None):
         raise SatHeightError(f"zone {zone.name!r} has a gas_oil_level but no gas density or "
                              "gas-water sigma*cos(theta)",
                              hint="give gas_density and gas_sigma_cos_theta for this zone")
-    t = (zone.fwl - zone.gas_oil_level) if oil_column is None else np.asarray(oil_column, float)
-    t = np.maximum(t, 0.0)
-    h_pos = np.maximum(h, 0.0)
-    h_o = np.minimum(h_pos, t)
-    h_g = h_pos - h_o
-    pc_o = (zone.water_density - zone.hydrocarbon_density) * STANDARD_GRAVITY * h_o
-    pc_g = (zone.water_density - zone.gas_density) * STANDARD_GRAVITY * h_g
-    pc = pc_o + pc_g
-    j = root * (pc_o / zone.sigma_cos_theta + pc_g / zone.gas_sigma_cos_theta)
-    return pc, j
+    t = (zone.fwl - zone.gas_oil_level) if oil_column is None else oil_column
+    return three_phase_pc_j(h, root, t, zone.water_density, zone.hydrocarbon_density,
+                            zone.gas_density, zone.sigma_cos_theta, zone.gas_sigma_cos_theta)

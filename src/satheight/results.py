@@ -91,6 +91,10 @@ class WellResult:
         without a survey).
     survey : pathlib.Path or None
         The deviation survey used, if any.
+    sw_log_unclipped : numpy.ndarray or None
+        Archie log Sw before clipping to [0, 1] [fraction] (``None`` when log Sw is a
+        curve of the LAS file): the comparison statistics use it; ``sw_log`` (clipped)
+        is what is exported.
     """
 
     well: Well
@@ -109,3 +113,4 @@ class WellResult:
     north: np.ndarray | None = None
     east: np.ndarray | None = None
     survey: Any = None
+    sw_log_unclipped: np.ndarray | None = None

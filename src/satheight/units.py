@@ -23,21 +23,38 @@ from .errors import UnitError
 # Each kind maps normalised unit names to (factor, offset): SI = value * factor + offset.
 _LENGTH = {"m": 1.0, "meter": 1.0, "meters": 1.0, "metre": 1.0, "metres": 1.0,
            "ft": C.FOOT, "feet": C.FOOT, "foot": C.FOOT, "f": C.FOOT,
-           "cm": 0.01, "mm": 0.001, "km": 1000.0, "in": 0.0254}
-_PRESSURE = {"pa": 1.0, "kpa": 1e3, "mpa": 1e6, "bar": 1e5, "psi": C.PSI, "psia": C.PSI,
-             "atm": 101325.0}
+           "cm": 0.01, "mm": 0.001, "km": 1000.0, "in": 0.0254,
+           # US survey foot (1200/3937 m): never taken for the international foot
+           "usft": C.US_SURVEY_FOOT, "us ft": C.US_SURVEY_FOOT, "ftus": C.US_SURVEY_FOOT,
+           "us-ft": C.US_SURVEY_FOOT, "survey ft": C.US_SURVEY_FOOT,
+           "us survey ft": C.US_SURVEY_FOOT, "us survey foot": C.US_SURVEY_FOOT}
+# Absolute pressures. "psi" and "bar" without a suffix are taken as absolute.
+_PRESSURE = {"pa": 1.0, "kpa": 1e3, "mpa": 1e6, "bar": 1e5, "bara": 1e5, "psi": C.PSI,
+             "psia": C.PSI, "atm": C.STANDARD_ATMOSPHERE, "kgf/cm2": C.KGF_PER_CM2,
+             "kgf/cm^2": C.KGF_PER_CM2}
+#: Gauge pressures: (factor, offset) with SI absolute = value * factor + 1 atm (101 325 Pa,
+#: NIST SP 811). Only :func:`to_si`, :func:`from_si` and :func:`parse_quantity` apply them;
+#: :func:`factor` refuses them, so a gauge value is never taken as absolute.
+GAUGE_PRESSURE = {"barg": (1e5, C.STANDARD_ATMOSPHERE), "psig": (C.PSI, C.STANDARD_ATMOSPHERE),
+                  "kpag": (1e3, C.STANDARD_ATMOSPHERE), "mpag": (1e6, C.STANDARD_ATMOSPHERE)}
 _DENSITY = {"kg/m3": 1.0, "kg/m^3": 1.0, "g/cm3": C.G_PER_CM3, "g/cc": C.G_PER_CM3,
             "g/cm^3": C.G_PER_CM3, "gcc": C.G_PER_CM3, "g/ml": C.G_PER_CM3,
             "lb/ft3": C.LB_PER_FT3, "lbm/ft3": C.LB_PER_FT3, "lb/ft^3": C.LB_PER_FT3,
-            "sg": C.G_PER_CM3}
+            "sg": C.G_PER_CM3,
+            # mud weight: pound per US gallon (a density; as a gradient 0.051948 psi/ft per ppg)
+            "ppg": C.LB_PER_GALLON, "lb/gal": C.LB_PER_GALLON, "lbm/gal": C.LB_PER_GALLON}
 # gradients: pressure per length, converted to density by / g
 _GRADIENT = {"psi/ft": C.PSI / C.FOOT, "kpa/m": 1e3, "pa/m": 1.0, "bar/m": 1e5,
              "mpa/m": 1e6, "psi/m": C.PSI}
+#: Pressure-gradient units (per metre of depth, SI Pa/m) accepted where a density is asked.
+GRADIENT_UNITS = _GRADIENT
 _TENSION = {"n/m": 1.0, "mn/m": 1e-3, "dyn/cm": C.DYNE_PER_CM, "dyne/cm": C.DYNE_PER_CM,
             "dynes/cm": C.DYNE_PER_CM}
 _PERMEABILITY = {"md": C.MILLIDARCY, "mdarcy": C.MILLIDARCY, "millidarcy": C.MILLIDARCY,
                  "d": C.DARCY, "darcy": C.DARCY, "m2": 1.0, "m^2": 1.0, "um2": 1e-12,
-                 "µm2": 1e-12}
+                 "µm2": 1e-12, "ud": C.MILLIDARCY * 1e-3, "µd": C.MILLIDARCY * 1e-3,
+                 "μd": C.MILLIDARCY * 1e-3, "microdarcy": C.MILLIDARCY * 1e-3,
+                 "nd": C.MILLIDARCY * 1e-6, "nanodarcy": C.MILLIDARCY * 1e-6}
 _RESISTIVITY = {"ohm.m": 1.0, "ohmm": 1.0, "ohm-m": 1.0, "ohm m": 1.0, "ohm*m": 1.0,
                 "ohm·m": 1.0, "ohms": 1.0, "ohm": 1.0, "Ω.m": 1.0, "Ωm": 1.0}
 _FRACTION = {"": 1.0, "frac": 1.0, "fraction": 1.0, "v/v": 1.0, "dec": 1.0, "decimal": 1.0,
@@ -109,6 +126,11 @@ def factor(unit: str | None, kind: str) -> float:
     u = normalise_unit(unit)
     if u in table:
         return table[u]
+    if kind == "pressure" and u in GAUGE_PRESSURE:
+        raise UnitError(f"unit {unit!r} is a gauge pressure: it needs the offset of 1 atm "
+                        "(101.325 kPa), not only a factor",
+                        hint="give absolute pressure (bara, psia, kPa) here, or convert with "
+                             "units.to_si, which adds the atmosphere")
     raise UnitError(f"unit {unit!r} is not a {kind} unit",
                     hint="use one of " + ", ".join(repr(k) for k in table if k))
 
@@ -118,6 +140,9 @@ def to_si(value, unit: str | None, kind: str):
     if kind == "temperature":
         scale, offset = _temperature(unit)
         return value * scale + offset
+    if kind == "pressure" and normalise_unit(unit) in GAUGE_PRESSURE:
+        scale, offset = GAUGE_PRESSURE[normalise_unit(unit)]
+        return value * scale + offset
     return value * factor(unit, kind)
 
 
@@ -125,6 +150,9 @@ def from_si(value, unit: str | None, kind: str):
     """Convert ``value`` (scalar or array) from SI to ``unit`` for ``kind``."""
     if kind == "temperature":
         scale, offset = _temperature(unit)
+        return (value - offset) / scale
+    if kind == "pressure" and normalise_unit(unit) in GAUGE_PRESSURE:
+        scale, offset = GAUGE_PRESSURE[normalise_unit(unit)]
         return (value - offset) / scale
     return value / factor(unit, kind)
 

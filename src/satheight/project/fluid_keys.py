@@ -29,7 +29,6 @@ at the zone's conditions unless ``hydrocarbon_density`` is given.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
 from typing import Any
 
 from .. import fluids
@@ -44,6 +43,9 @@ FLUID_ZONE_KEYS = ("water", "oil", "gas", "conditions", "gas_oil_level", "gas_de
 _WATER_KEYS = ("salinity",)
 _OIL_KEYS = ("api", "solution_gor", "gas_gravity")
 _GAS_KEYS = ("gravity", "z_method")
+#: Values of the conditions and water tables that a zone's allow_unusual may list.
+CONDITION_ALLOW = ("pressure", "temperature", "pressure_gradient", "salinity")
+
 _CONDITION_KEYS = ("pressure", "temperature", "pressure_gradient", "temperature_gradient",
                    "surface_pressure", "surface_temperature", "depth")
 
@@ -52,18 +54,6 @@ _GOR_UNITS = {"m3/m3": 1.0, "sm3/sm3": 1.0, "scf/stb": FOOT**3 / 0.158987294928,
 _TEMP_DIFF = {"degc": 1.0, "c": 1.0, "°c": 1.0, "k": 1.0, "degf": 5 / 9, "f": 5 / 9, "°f": 5 / 9}
 _DEFAULTS = {"metric": {"gor": "m3/m3", "tgrad": "degC/km", "pgrad": "kPa/m"},
              "field": {"gor": "scf/stb", "tgrad": "degF/100ft", "pgrad": "psi/ft"}}
-
-
-@dataclass
-class ZoneFluids:
-    """Densities of one zone [kg/m^3], its three-phase keys, and how they were obtained."""
-
-    water_density: float
-    hydrocarbon_density: float
-    gas_oil_level: float | None = None
-    gas_density: float | None = None
-    gas_sigma_cos_theta: float | None = None
-    fluids: dict = field(default_factory=dict)
 
 
 # ----------------------------------------------------------------------------------
@@ -141,12 +131,31 @@ def parse_temperature_gradient(value: Any, default_unit: str) -> float:
 # ----------------------------------------------------------------------------------
 # the zone reader
 # ----------------------------------------------------------------------------------
-def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) -> ZoneFluids:
+class _Conditions:
+    """Reservoir pressure [Pa] and temperature [K] of a zone, read once when first needed."""
+
+    def __init__(self, reader, t: dict, key: str, fwl: float, notes: dict, allowed: frozenset):
+        self.reader, self.t, self.key, self.fwl, self.notes = reader, t, key, fwl, notes
+        self.allowed = allowed
+        self.value: tuple[float, float] | None = None
+
+    def __call__(self) -> tuple[float, float]:
+        if self.value is None:
+            p, temp, info = _read_conditions(self.reader, self.t, self.key, self.fwl,
+                                             self.reader.unit_system)
+            _check_conditions(self.reader, self.t, self.key, p, temp, info, self.allowed)
+            self.value = (p, temp)
+            self.notes["conditions"] = info
+        return self.value
+
+
+def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float,
+                     allowed: frozenset = frozenset()) -> dict:
     """Densities and three-phase keys of one ``[[zones]]`` entry (see module docstring).
 
     Parameters
     ----------
-    reader : satheight.project._Reader
+    reader : satheight.project.reader._Reader
         Gives ``quantity``, ``number``, ``text``, ``table``, ``error`` and the unit system.
     t : dict
         The zone's table (not modified).
@@ -156,56 +165,74 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
         ``"oil"``, ``"gas"`` or ``"air"``.
     fwl : float
         The zone's FWL TVDSS [m]: the default depth at which conditions are evaluated.
+    allowed : frozenset of str
+        The zone's ``allow_unusual`` names (conditions and salinity are range-checked here;
+        the densities by the reader).
 
     Returns
     -------
-    ZoneFluids
+    dict
+        The fluid fields of :class:`satheight.engine.Zone`: ``water_density``,
+        ``hydrocarbon_density`` [kg/m^3], ``gas_oil_level`` [m], ``gas_density``
+        [kg/m^3], ``gas_sigma_cos_theta`` [N/m] (the last three ``None`` without a gas
+        cap) and ``fluids`` (how each density was obtained).
 
     Raises
     ------
     ProjectFileError
         Naming the file and key on every missing, conflicting or bad value.
     """
-    system = reader.unit_system
     notes: dict[str, dict] = {}
-    cond_cache: dict[str, float] = {}
+    conditions = _Conditions(reader, t, key, fwl, notes, allowed)
+    rho_w = _water_density(reader, t, key, conditions, notes, allowed)
+    rho_h = _hydrocarbon_density(reader, t, key, hydrocarbon, conditions, notes)
+    out = {"water_density": rho_w, "hydrocarbon_density": rho_h, "gas_oil_level": None,
+           "gas_density": None, "gas_sigma_cos_theta": None, "fluids": notes}
+    gas_keys = [k for k in ("gas_density", "gas_sigma_cos_theta") if k in t]
+    if "gas_oil_level" not in t:
+        if gas_keys:
+            raise reader.error(f"{key}.{gas_keys[0]}", f"{gas_keys[0]} is given without "
+                               "gas_oil_level", hint="add gas_oil_level (the free-oil level, "
+                               "TVDSS) for a gas cap, or remove the key")
+        return out
+    out.update(_gas_cap(reader, t, key, hydrocarbon, fwl, rho_h, conditions, notes))
+    reader.plausible("fwl", out["gas_oil_level"], f"{key}.gas_oil_level", t["gas_oil_level"],
+                     allowed=allowed)
+    return out
 
-    def conditions() -> tuple[float, float]:
-        if cond_cache:
-            return cond_cache["p"], cond_cache["t"]
-        p, temp, info = _read_conditions(reader, t, key, fwl, system)
-        cond_cache.update(p=p, t=temp)
-        notes["conditions"] = info
-        return p, temp
 
-    def both(direct: str, table: str):
-        if direct in t and table in t:
-            raise reader.error(f"{key}.{table}", f"both {direct} and {table} are given",
-                               hint=f"give the density directly ({direct}) or the correlation "
-                                    f"inputs ({table} = {{...}}), not both")
+def _both(reader, t: dict, key: str, direct: str, table: str) -> None:
+    if direct in t and table in t:
+        raise reader.error(f"{key}.{table}", f"both {direct} and {table} are given",
+                           hint=f"give the density directly ({direct}) or the correlation "
+                                f"inputs ({table} = {{...}}), not both")
 
-    # water
-    both("water_density", "water")
+
+def _water_density(reader, t, key, conditions, notes, allowed) -> float:
+    _both(reader, t, key, "water_density", "water")
     if "water_density" in t:
-        rho_w = reader.quantity(t["water_density"], f"{key}.water_density", "density",
-                                positive=True)
         notes["water"] = {"method": "given"}
-    elif "water" in t:
+        return reader.quantity(t["water_density"], f"{key}.water_density", "density",
+                               positive=True)
+    if "water" in t:
         wt = reader.table(t["water"], f"{key}.water", _WATER_KEYS, required=("salinity",))
         try:
             s = parse_salinity(wt["salinity"])
         except UnitError as exc:
             raise reader.error(f"{key}.water.salinity", exc.what, hint=exc.hint) from None
+        reader.plausible("salinity", s, f"{key}.water.salinity", wt["salinity"], allowed=allowed)
         p, temp = conditions()
         rho_w = float(_guard(reader, f"{key}.water", fluids.brine_density_batzle_wang, p, temp, s))
         notes["water"] = {"method": "Batzle & Wang 1992 eq. 27b", "salinity": s}
-    else:
-        raise reader.error(f"{key}.water_density", "required key 'water_density' is missing",
-                           hint='add water_density = "1.08 g/cm3" (or a gradient), or the '
-                                'correlation inputs water = { salinity = "80000 ppm" } with '
-                                "conditions = {...}")
+        return rho_w
+    raise reader.error(f"{key}.water_density", "required key 'water_density' is missing",
+                       hint='add water_density = "1.08 g/cm3" (or a gradient), or the '
+                            'correlation inputs water = { salinity = "80000 ppm" } with '
+                            "conditions = {...}")
 
-    # hydrocarbon of the (lower) column
+
+def _hydrocarbon_density(reader, t, key, hydrocarbon, conditions, notes) -> float:
+    """Density of the hydrocarbon of the (lower) column [kg/m^3]."""
     table_for = {"oil": "oil", "gas": "gas", "air": None}[hydrocarbon]
     three_phase = "gas_oil_level" in t
     for name in ("oil", "gas"):
@@ -215,39 +242,33 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
                                                      " and there is no gas_oil_level"),
                                hint=f"remove {name} = {{...}} or change hydrocarbon")
     if table_for is not None:
-        both("hydrocarbon_density", table_for)
+        _both(reader, t, key, "hydrocarbon_density", table_for)
     if "hydrocarbon_density" in t:
-        rho_h = reader.quantity(t["hydrocarbon_density"], f"{key}.hydrocarbon_density",
-                                "density", positive=True)
         notes["hydrocarbon"] = {"method": "given"}
-    elif table_for == "oil" and "oil" in t:
-        rho_h, info = _oil_density(reader, t["oil"], f"{key}.oil", conditions, system)
-        notes["hydrocarbon"] = info
-    elif table_for == "gas" and "gas" in t:
-        rho_h, info = _gas_density(reader, t["gas"], f"{key}.gas", conditions)
-        notes["hydrocarbon"] = info
-    elif hydrocarbon == "air" and "conditions" in t:
+        return reader.quantity(t["hydrocarbon_density"], f"{key}.hydrocarbon_density",
+                               "density", positive=True)
+    if table_for == "oil" and "oil" in t:
+        rho_h, notes["hydrocarbon"] = _oil_density(reader, t["oil"], f"{key}.oil", conditions,
+                                                   reader.unit_system)
+        return rho_h
+    if table_for == "gas" and "gas" in t:
+        rho_h, notes["hydrocarbon"] = _gas_density(reader, t["gas"], f"{key}.gas", conditions)
+        return rho_h
+    if hydrocarbon == "air" and "conditions" in t:
         p, temp = conditions()
         rho_h = float(_guard(reader, f"{key}.conditions", fluids.air_density, p, temp))
         notes["hydrocarbon"] = {"method": "ideal gas (dry air)"}
-    else:
-        alt = {"oil": "oil = { api = 35, solution_gor = \"500 scf/stb\", gas_gravity = 0.75 }",
-               "gas": "gas = { gravity = 0.65 }",
-               "air": "conditions = {...} (air as an ideal gas)"}[hydrocarbon]
-        raise reader.error(f"{key}.hydrocarbon_density",
-                           "required key 'hydrocarbon_density' is missing",
-                           hint=f'add hydrocarbon_density = "0.75 g/cm3", or {alt}')
+        return rho_h
+    alt = {"oil": "oil = { api = 35, solution_gor = \"500 scf/stb\", gas_gravity = 0.75 }",
+           "gas": "gas = { gravity = 0.65 }",
+           "air": "conditions = {...} (air as an ideal gas)"}[hydrocarbon]
+    raise reader.error(f"{key}.hydrocarbon_density",
+                       "required key 'hydrocarbon_density' is missing",
+                       hint=f'add hydrocarbon_density = "0.75 g/cm3", or {alt}')
 
-    out = ZoneFluids(water_density=rho_w, hydrocarbon_density=rho_h, fluids=notes)
 
-    # three-phase column
-    gas_keys = [k for k in ("gas_density", "gas_sigma_cos_theta") if k in t]
-    if not three_phase:
-        if gas_keys:
-            raise reader.error(f"{key}.{gas_keys[0]}", f"{gas_keys[0]} is given without "
-                               "gas_oil_level", hint="add gas_oil_level (the free-oil level, "
-                               "TVDSS) for a gas cap, or remove the key")
-        return out
+def _gas_cap(reader, t, key, hydrocarbon, fwl, rho_h, conditions, notes) -> dict:
+    """``gas_oil_level``, ``gas_density`` and ``gas_sigma_cos_theta`` of a gas cap."""
     if hydrocarbon != "oil":
         raise reader.error(f"{key}.gas_oil_level", "a gas_oil_level needs hydrocarbon = 'oil' "
                            f"(the oil leg under the gas cap), found {hydrocarbon!r}",
@@ -258,7 +279,7 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
         raise reader.error(f"{key}.gas_oil_level", f"gas_oil_level {t['gas_oil_level']!r} is "
                            f"not above the fwl {reader.length_text(fwl)} (TVDSS, positive down)",
                            hint="the free-oil level must be shallower than the FWL")
-    both("gas_density", "gas")
+    _both(reader, t, key, "gas_density", "gas")
     if "gas_density" in t:
         rho_g = reader.quantity(t["gas_density"], f"{key}.gas_density", "density",
                                 positive=True)
@@ -278,8 +299,7 @@ def read_zone_fluids(reader, t: dict, key: str, hydrocarbon: str, fwl: float) ->
                            hint='add gas_sigma_cos_theta = "50 mN/m" (gas-water)')
     sgw = reader.quantity(t["gas_sigma_cos_theta"], f"{key}.gas_sigma_cos_theta", "tension",
                           positive=True)
-    out.gas_oil_level, out.gas_density, out.gas_sigma_cos_theta = gol, rho_g, sgw
-    return out
+    return {"gas_oil_level": gol, "gas_density": rho_g, "gas_sigma_cos_theta": sgw}
 
 
 def _guard(reader, key, fn, *args):
@@ -287,6 +307,22 @@ def _guard(reader, key, fn, *args):
         return fn(*args)
     except SatHeightError as exc:
         raise reader.error(key, exc.what, hint=exc.hint) from None
+
+
+def _check_conditions(reader, t, key, p, temp, info, allowed) -> None:
+    """Pressure, temperature and the pressure gradient inside their plausible ranges."""
+    c, ck = t["conditions"], f"{key}.conditions"
+    if "pressure" in c:
+        reader.plausible("pressure", p, f"{ck}.pressure", c["pressure"], allowed=allowed)
+    else:
+        grad = info["pressure_from"]["gradient_Pa_per_m"] / STANDARD_GRAVITY
+        reader.plausible("pressure_gradient", grad, f"{ck}.pressure_gradient",
+                         c["pressure_gradient"], allowed=allowed)
+        reader.plausible("pressure", p, f"{ck}.pressure_gradient", None, allowed=allowed,
+                         allow_as="pressure", derived=f"at {info['depth_m']:g} m from the gradient")
+    temp_raw = c["temperature"] if "temperature" in c else None
+    reader.plausible("temperature", temp, f"{ck}.temperature", temp_raw, allowed=allowed,
+                     derived=f"at {info['depth_m']:g} m from the temperature gradient")
 
 
 def _read_conditions(reader, t, key, fwl, system) -> tuple[float, float, dict]:

@@ -8,6 +8,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from ..engine import Zone
+
 
 @dataclass(frozen=True)
 class FunctionSpec:
@@ -41,44 +43,9 @@ class FunctionSpec:
     rock_rule: object | None = None
 
 
-@dataclass(frozen=True)
-class ZoneSpec:
-    """One zone: its depth window, contact, fluids and J-Sw function.
-
-    Attributes
-    ----------
-    name : str
-    top, base : float or None
-        Field-wide zone window in TVDSS [m], positive down. ``None`` when every
-        well gives its own tops.
-    fwl : float
-        Free-water level, TVDSS [m].
-    water_density, hydrocarbon_density : float
-        Densities at reservoir conditions [kg/m^3].
-    hydrocarbon : str
-        ``"oil"``, ``"gas"`` or ``"air"``.
-    sigma_cos_theta : float
-        Interfacial tension times cosine of contact angle at reservoir conditions [N/m].
-    function : FunctionSpec
-    """
-
-    name: str
-    top: float | None
-    base: float | None
-    fwl: float
-    water_density: float
-    hydrocarbon_density: float
-    hydrocarbon: str
-    sigma_cos_theta: float
-    function: FunctionSpec
-    #: Three-phase column (optional): free-oil (gas-oil) level TVDSS [m], gas density
-    #: [kg/m^3] and gas-water sigma*cos(theta) [N/m] (see engine.column_pc_j).
-    gas_oil_level: float | None = None
-    gas_density: float | None = None
-    gas_sigma_cos_theta: float | None = None
-    #: How each density was obtained: {"water": {...}, "hydrocarbon": {...}, "gas": {...}},
-    #: e.g. {"method": "batzle_wang", "pressure_Pa": ..., "temperature_K": ...}; JSON-ready.
-    fluids: dict = field(default_factory=dict)
+#: A ``[[zones]]`` entry as read: :class:`satheight.engine.Zone` with ``function`` a
+#: :class:`FunctionSpec` (one zone record for the project file and the engine).
+ZoneSpec = Zone
 
 
 @dataclass(frozen=True)
@@ -171,7 +138,7 @@ class Project:
     unit_system : str
         ``"metric"`` or ``"field"``: units of bare numbers in the file and of outputs.
     wells : list[WellSpec]
-    zones : list[ZoneSpec]
+    zones : list[Zone]
     log_sw : LogSwSpec
     comparison : ComparisonSpec
     tops_file : pathlib.Path or None
@@ -187,7 +154,7 @@ class Project:
     name: str
     unit_system: str
     wells: list[WellSpec]
-    zones: list[ZoneSpec]
+    zones: list[Zone]
     log_sw: LogSwSpec
     comparison: ComparisonSpec = field(default_factory=lambda: ComparisonSpec())
     tops_file: Path | None = None

@@ -16,12 +16,12 @@ import numpy as np
 
 from .. import __version__
 from .. import units as U
-from ..engine import ZoneModel, compute_shm
+from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
 from ..io.las import read_las
 from ..io.survey import read_survey, survey_trajectory
 from ..logsw import archie_sw
-from ..models import build_function
+from ..project import check_fwl_near_wells
 from ..project.types import Project, WellSpec, ZoneSpec
 from ..results import FLAG_MEANINGS, WellResult
 from ..roles import detect_roles, require_role, role_values
@@ -121,20 +121,7 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
 
 
 def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
-    fn = build_function(zs.function.family, zs.function.params, zs.function.j_range,
-                        where=f"{path}, key zones[{zs.name}].function")
-    rock_functions = classifier = None
-    if zs.function.by_rock_type:  # per-depth rock typing from a model file
-        rock_functions = {rt: build_function(f.family, f.params, f.j_range,
-                                             where=f"{path}, key zones[{zs.name}].function")
-                          for rt, f in zs.function.by_rock_type.items()}
-        classifier = zs.function.rock_rule.classify
-    return ZoneModel(name=zs.name, top=top, base=base, fwl=zs.fwl,
-                     water_density=zs.water_density, hydrocarbon_density=zs.hydrocarbon_density,
-                     hydrocarbon=zs.hydrocarbon, sigma_cos_theta=zs.sigma_cos_theta, function=fn,
-                     rock_functions=rock_functions, rock_classifier=classifier,
-                     gas_oil_level=zs.gas_oil_level, gas_density=zs.gas_density,
-                     gas_sigma_cos_theta=zs.gas_sigma_cos_theta)
+    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function")
 
 
 def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
@@ -144,7 +131,10 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
     if cfg.method in ("curve", "auto") and roles.get("sw"):
         sw, w = role_values(well, "sw", roles["sw"])
         msgs += w
-        return sw, f"curve:{roles['sw']}", msgs
+        if np.isfinite(sw).any() or cfg.method == "curve":
+            return sw, f"curve:{roles['sw']}", msgs
+        msgs.append(f"Sw curve {roles['sw']} holds no value: falling back to Archie from the "
+                    "resistivity curve")
     if cfg.method == "curve":
         require_role(well, "sw", None)
     if roles.get("resistivity") is None:
@@ -157,7 +147,8 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
         return None, "none", msgs
     rt, w = role_values(well, "resistivity", roles["resistivity"])
     msgs += w
-    return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n), "archie", msgs
+    # unclipped: the comparison statistics use it; compute_well clips the exported curve
+    return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n, clip=False), "archie", msgs
 
 
 def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
@@ -187,14 +178,20 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
         msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
                     "the computed ones are not written (TVDSS is)")
     zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
+    for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
+        check_fwl_near_wells(project.path, zn, tvdss, -elev)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
     sw_log, source, w4 = log_saturation(project, well, roles, phi)
     msgs += w4
+    sw_raw = sw_log if source == "archie" else None
+    if sw_raw is not None:
+        sw_log = np.clip(sw_raw, 0.0, 1.0)
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
-                        tvd=tvd, north=north, east=east, survey=spec.survey)
+                        tvd=tvd, north=north, east=east, survey=spec.survey,
+                        sw_log_unclipped=sw_raw)
     msgs += value_warnings(result)
     return result, msgs
 
