@@ -15,8 +15,10 @@ import numpy as np
 import pytest
 
 from satheight.constants import MILLIDARCY, STANDARD_GRAVITY
-from satheight.contacts import (block_weights, entry_height, entry_j, fit_fwl_with_parameters,
-                                misfit_matrix, search_fwl, zone_contact, zone_samples)
+from satheight.blockboot import block_weights
+from satheight.contacts import entry_height, entry_j, zone_contact
+from satheight.fwljoint import fit_fwl_with_parameters
+from satheight.fwlsearch import misfit_matrix, search_fwl, zone_samples
 from satheight.engine import ZoneModel, compute_shm
 from satheight.errors import SatHeightError
 from satheight.models import build_function
@@ -215,7 +217,7 @@ def test_fwl_command_on_demo(tmp_path):
     # the demo logs were made with FWL 2290 m TVDSS (demo_wells/README.md) but with
     # per-well J-Sw parameters, so allow a metre
     assert doc["best_fwl"] == pytest.approx(2290.0, abs=1.0)
-    from satheight.project import load_project
+    from satheight.project.reader import load_project
 
     assert len(doc["wells"]) == len(load_project(ROOT / "demo_wells" / "demo_project.toml").wells)
     assert doc["bootstrap_resamples"] == 40

@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 import scipy.constants as sc
 
-from satheight.core import (LAB_SYSTEMS, RESERVOIR_SYSTEMS, CoreDataset, Plug, closure_correction,
+from satheight.coreplugs import (LAB_SYSTEMS, RESERVOIR_SYSTEMS, CoreDataset, Plug, closure_correction,
                             conversion_ratio, core_points, fluid_system, height_from_pc,
                             lab_to_reservoir_pc, make_curve, pick_closure_pressure,
                             stress_correct, washburn_radius, wetting_saturation_from_mercury)

@@ -16,8 +16,8 @@ from satheight.cli import main
 from satheight.engine import ZoneModel, compute_shm
 from satheight.errors import ProjectFileError
 from satheight.models import build_function
-from satheight.models.store import load_models, models_to_dict, save_models
-from satheight.project import load_project, parse_project
+from satheight.io.model_file import load_models, models_to_dict, save_models
+from satheight.project.reader import load_project, parse_project
 from satheight.results import FLAG_NO_ROCK_FUNCTION
 from satheight.rocktypes import RockTypeRule
 
@@ -132,7 +132,7 @@ def test_project_per_depth_rock_typing(tmp_path):
     p = _project(tmp_path, {"file": "models.json"})
     f = p.zones[0].function
     assert set(f.by_rock_type) == {"A", "B"} and f.rock_rule == rule
-    from satheight.pipeline import _zone_model
+    from satheight.workflows.run import _zone_model
 
     zm = _zone_model(p.zones[0], 1000.0, 1100.0, p.path)
     phi = np.full(2, 0.2)
@@ -144,7 +144,7 @@ def test_project_per_depth_rock_typing(tmp_path):
     # the ROCK_ID output curve numbers the rock types in the zone's table order
     import types
 
-    from satheight.pipeline import rock_type_ids
+    from satheight.workflows.run import rock_type_ids
 
     ids = rock_type_ids(types.SimpleNamespace(zones=[zm], shm=res, phi=phi, k=k))
     names = list(zm.rock_functions)
@@ -242,8 +242,8 @@ def test_demo_run_records_model_file(tmp_path):
 def test_fit_option_parsing():
     import math
 
-    from satheight.core import LAB_SYSTEMS
-    from satheight.core_workflow import (parse_classes, parse_closure, parse_lab_override,
+    from satheight.coreplugs import LAB_SYSTEMS
+    from satheight.workflows.fit import (parse_classes, parse_closure, parse_lab_override,
                                          parse_reservoir)
     from satheight.errors import SatHeightError
 
@@ -267,7 +267,7 @@ def test_fit_option_parsing():
 
 
 def test_fixed_closure_pressure_used_for_every_mercury_curve(tmp_path):
-    from satheight.core import core_points
+    from satheight.coreplugs import core_points
     from satheight.io.core_data import read_core_files
 
     ds = read_core_files(CORE_FILES[:2])

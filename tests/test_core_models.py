@@ -12,7 +12,7 @@ import pytest
 from satheight.errors import InputFileError, ModelError, NotFittedError
 from satheight.models import (FAMILIES, BrooksCorey, PowerLaw, SkeltHarrison, Thomeer,
                               VanGenuchten, build_function)
-from satheight.models.store import load_models, models_to_dict, save_models
+from satheight.io.model_file import load_models, models_to_dict, save_models
 from satheight.models.thomeer import fit_thomeer_pc, thomeer_bulk_volume
 from satheight.models.van_genuchten import van_genuchten_theta
 from satheight.rocktypes import RockTypeRule

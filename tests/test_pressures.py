@@ -209,11 +209,11 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
     # survey (minimum curvature), the same TVDSS the log samples of that MD get.
     import lasio
 
-    from satheight.contacts_run import _datums
+    from satheight.workflows.contacts import _datums
 
     demo = Path(__file__).resolve().parents[1] / "demo_wells"
-    from satheight.project import load_project
-    from satheight.pipeline import run_project
+    from satheight.project.reader import load_project
+    from satheight.workflows.run import run_project
 
     project = load_project(demo / "demo_project.toml")
     conv = _datums(project, {"VANTREL-5"})["VANTREL-5"]

@@ -52,7 +52,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import units as U
-from ..core import LAB_SYSTEMS, CoreDataset, Plug, make_curve, sha256_of
+from ..coreplugs import LAB_SYSTEMS, CoreDataset, Plug, make_curve, sha256_of
 from ..errors import InputFileError, SatHeightError, UnitError
 from .table import csv_cells, parse_number, read_csv_text
 

@@ -32,10 +32,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import InputFileError, ModelError, SatHeightError
-from ..io.atomic import atomic_write_text
+from .atomic import atomic_write_text
 from ..rocktypes import RockTypeRule
-from . import build_function, get_family
-from .base import FitReport, JSwFunction
+from ..models import build_function, get_family
+from ..models.base import FitReport, JSwFunction
 
 FORMAT = "satheight-models"
 VERSION = 1

@@ -42,6 +42,7 @@ class JSwFunction:
         self.j_range_: tuple[float, float] | None = None
         self.stderr_: dict[str, float] | None = None
         self.rmse_: float | None = None
+        self._fit_data = None
 
     # --- construction -------------------------------------------------------------
     @classmethod
@@ -182,7 +183,7 @@ class JSwFunction:
         correlation matrix come from the covariance that
         :func:`scipy.optimize.curve_fit` estimates (residual variance scaled).
         """
-        data = getattr(self, "_fit_data", None)
+        data = self._fit_data
         if data is None or self.params_ is None:
             raise NotFittedError(f"{self.name} function has not been fitted",
                                  hint="call fit(j, sw) before fit_report()")
@@ -214,7 +215,7 @@ class JSwFunction:
             r2=float(1.0 - rss / tss) if tss > 0 else float("nan"),
             aic=float(n * np.log(max(rss, 1e-300) / n) + 2 * p),
             j_range=tuple(self.j_range_), residuals_by_group=per_group,
-            variable=getattr(self, "variable", "j"))
+            variable=self.variable)
 
     def __repr__(self) -> str:
         return f"{type(self).__name__}(params_={self.params_}, j_range_={self.j_range_})"
