@@ -25,7 +25,8 @@ from .constants import MILLIDARCY, STANDARD_GRAVITY
 from .engine import ZoneModel
 from .errors import SatHeightError
 from .fwljoint import fit_fwl_with_parameters
-from .fwlsearch import FwlSearch, search_fwl, zone_samples
+from .fwlmisfit import zone_samples
+from .fwlsearch import FwlSearch, search_fwl
 
 __all__ = ["entry_j", "entry_height", "zone_contact", "contacts_summary", "fwl_from_project"]
 
