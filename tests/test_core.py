@@ -98,6 +98,54 @@ def test_closure_correction_recovers_true_intrusion():
     np.testing.assert_array_equal(closure_correction(pc, s_obs, 0.5 * PSI), s_obs)
 
 
+def _brooks_corey_mercury(j, swirr=0.12, jd=0.2, lam=2.5):
+    """Mercury saturation of a Brooks-Corey rock (Brooks and Corey 1964): 0 below the
+    entry J, ``1 - swirr - (1 - swirr) (J/jd)^-lam`` above it."""
+    sw = np.where(j >= jd, swirr + (1 - swirr) * (np.maximum(j, jd) / jd) ** -lam, 1.0)
+    return 1.0 - sw
+
+
+def test_auto_closure_leaves_clean_mercury_data_without_closure_as_measured():
+    # a clean mercury curve with no conformance: nothing before the entry but noise.
+    # The auto closure must apply (close to) none: the Brooks-Corey fit after it stays
+    # within half a standard error of the fit of the data as measured.
+    from satheight.models import BrooksCorey
+
+    pc = np.geomspace(1, 20000, 30) * PSI
+    j = leverett_j(pc, 30 * MD, 0.2, HG.sigma_cos_theta)
+    for seed in range(12):
+        s = _brooks_corey_mercury(j)
+        if seed:                                   # seed 0: exact data
+            s = s + np.random.default_rng(seed).normal(0.0, 0.005, j.size)   # 0.5 % noise
+        cp = pick_closure_pressure(pc, s)
+        raw = BrooksCorey().fit(j, 1 - s)
+        auto = BrooksCorey().fit(j, 1 - closure_correction(pc, s, cp))
+        moved = max(abs(auto.params_[p] - raw.params_[p]) / raw.stderr_[p] for p in raw.params_)
+        assert moved < 0.5, (seed, cp / PSI, moved)
+
+
+def test_auto_closure_takes_the_end_of_a_conformance_plateau():
+    # conformance of 2.7 % fills by 11 psi, then a plateau to the entry near 60 psi (the
+    # shape of the demo's mercury curves): closure is picked at the top of the plateau,
+    # not at its first flat step, so the whole conformance is removed
+    pc = np.array([1, 1.407, 1.98, 2.786, 3.92, 5.515, 7.76, 10.92, 15.36, 21.62, 30.42, 42.8,
+                   60.22, 84.73, 119.2, 167.8, 236, 332.1]) * PSI
+    s = np.array([0, 1.02, 1.02, 1.45, 1.45, 1.45, 1.45, 2.71, 2.71, 2.71, 2.71, 2.71, 3.27,
+                  12.2, 38.18, 55.5, 67.51, 75.36]) / 100
+    assert pick_closure_pressure(pc, s) == pytest.approx(42.8 * PSI)
+
+
+def test_auto_closure_is_reported_per_curve():
+    # one entry per mercury curve; a clean curve gets its first pressure (nothing removed)
+    pc = np.geomspace(1, 20000, 30) * PSI
+    j = leverett_j(pc, 30 * MD, 0.2, HG.sigma_cos_theta)
+    plugs = {"A": Plug("A", "W", 2000.0, 0.2, 30 * MD)}
+    curve = make_curve("A", "mercury_air", pc, 1 - _brooks_corey_mercury(j), range(30), "x.csv")
+    ds = CoreDataset(plugs=plugs, curves=[curve], files={})
+    pts = core_points(ds, closure="auto")
+    assert pts.closure == {"A/mercury_air": pytest.approx(pc[0])}
+
+
 def test_stress_correction_factors():
     phi, k = stress_correct(0.2, 100 * MD, 0.95, 0.7)
     assert phi == pytest.approx(0.19) and k == pytest.approx(70 * MD)
