@@ -32,6 +32,7 @@ import numpy as np
 from . import constants as C
 from .engine import leverett_j
 from .errors import ModelError, SatHeightError
+from .models import FAMILIES, select_family
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -596,7 +597,9 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
     dict
         Rock-type name -> ``{"plugs": [...], "n_points": int, "fits": {family:
         FitReport}, "selected": family, "errors": {family: message}}``. The
-        selected family is the J family with the lowest AIC.
+        selected family is chosen among the J families by
+        :func:`satheight.models.select_family` (fewest parameters among fits within
+        2 of the lowest AIC); ``"delta_aic"`` holds each J family's AIC minus the lowest.
     """
     from .models import get_family
 
@@ -621,8 +624,7 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
             except (ModelError, RuntimeError, ValueError) as exc:
                 entry["errors"][fam] = str(exc)
         j_fits = {f: r for f, r in entry["fits"].items() if r.variable == "j"}
-        if j_fits:
-            entry["selected"] = min(j_fits, key=lambda f: j_fits[f].aic)
+        entry["selected"], entry["delta_aic"] = select_family(j_fits, order=FAMILIES)
         out[rt] = entry
     return out
 

@@ -171,7 +171,8 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
         "stress_factors": {"porosity": s.phi_factor, "permeability": s.k_factor},
         "reservoir": {rt: {"sigma_cos_theta_mN_per_m": f.sigma_cos_theta * 1e3,
                            "delta_rho_kg_per_m3": f.delta_rho} for rt, f in s.reservoir.items()},
-        "selection": "selected = J family with the lowest AIC",
+        "selection": "selected = among J families within 2 of the lowest AIC, the fewest "
+                     "parameters, then the first in the registry; delta_aic per rock type",
     }
     model_path = save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))
     files = [model_path]
@@ -192,7 +193,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
 
 def fit_table(fits: dict) -> str:
     """Plain-text table of the fits: one line per rock type and family."""
-    lines = [f"{'rock type':<16} {'family':<15} {'n':>5} {'RMSE':>7} {'R2':>7} {'AIC':>9} "
+    lines = [f"{'rock type':<16} {'family':<15} {'n':>5} {'RMSE':>7} {'R2':>7} {'AIC':>9} {'dAIC':>6} "
              f"{'range':>19}  parameters (± standard error)"]
     for rt, e in fits.items():
         for fam, r in e["fits"].items():
@@ -201,10 +202,12 @@ def fit_table(fits: dict) -> str:
                                for p, v in r.params.items())
             unit = "m" if r.variable == "height" else "J"
             rng = f"{unit} {r.j_range[0]:.3g}-{r.j_range[1]:.3g}"
+            d = e.get("delta_aic", {}).get(fam)
             lines.append(f"{rt[:16]:<16} {fam + mark:<15} {r.n_points:>5} {r.rmse:>7.4f} "
-                         f"{r.r2:>7.4f} {r.aic:>9.1f} {rng:>19}  {params}")
-    lines.append("* selected (lowest AIC among J families); ranges: J covered by data "
-                 "(height [m] for height functions)")
+                         f"{r.r2:>7.4f} {r.aic:>9.1f} {'' if d is None else f'{d:.1f}':>6} "
+                         f"{rng:>19}  {params}")
+    lines.append("* selected: among J families within 2 of the lowest AIC (dAIC <= 2) the one "
+                 "with fewer parameters; ranges: J covered by data (height [m] for height functions)")
     return "\n".join(lines)
 
 
