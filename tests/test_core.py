@@ -18,7 +18,8 @@ from satheight.engine import leverett_j
 from satheight.errors import InputFileError, SatHeightError, UnitError
 from satheight.io.core_data import (file_kind, read_core_files, read_plug_table,
                                     read_pressure_steps, read_single_plug)
-from satheight.rocktypes import RockTypeRule, fzi, normalised_porosity, plug_rock_types, rqi
+from satheight.rocktypes import (RockTypeRule, check_rock_type_names, fzi, normalised_porosity,
+                                plug_rock_types, rqi)
 
 MD = 9.869233e-16   # 1 mD in m^2, NIST SP 811 (darcy = 9.869233e-13 m^2)
 PSI = sc.psi        # NIST SP 811, via scipy.constants
@@ -339,3 +340,15 @@ def test_make_curve_needs_two_steps():
 def test_dataset_warns_about_plugs_without_curves():
     ds = CoreDataset(plugs={"P": Plug("P", "W", 0, 0.2, 1e-13, source="p.csv, row 2")}, curves=[])
     assert "has no capillary-pressure curve" in ds.validate()[0]
+
+
+def test_option_naming_a_rock_type_that_matches_nothing_is_refused_with_known_names():
+    known = ["Lower Sand", "Upper Sand"]
+    check_rock_type_names(["Upper Sand", "*"], known, "--reservoir")      # fine
+    with pytest.raises(SatHeightError) as e:
+        check_rock_type_names(["Uper Sand", "Upper Sand"], known, "--reservoir")
+    msg = str(e.value)
+    assert "'Uper Sand'" in msg and "--reservoir" in msg
+    assert "'Lower Sand'" in msg and "'Upper Sand'" in msg        # the known names listed
+    with pytest.raises(SatHeightError, match="'\\*'"):
+        check_rock_type_names(["*"], known, "--models", wildcard=None)

@@ -26,7 +26,7 @@ from .io.atomic import atomic_write_text
 from .io.core_data import read_core_files
 from .models import get_family
 from .models.store import models_to_dict, save_models
-from .rocktypes import RockTypeRule, plug_rock_types
+from .rocktypes import RockTypeRule, check_rock_type_names, plug_rock_types
 
 
 @dataclass(frozen=True)
@@ -152,6 +152,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     else:
         rock_types = plug_rock_types(plugs, rule)
         rule_out = rule
+    check_rock_type_names(s.reservoir, rock_types.values(), "--reservoir")
     points = core_points(ds, closure=s.closure, phi_factor=s.phi_factor, k_factor=s.k_factor,
                          rock_types=rock_types)
     lab_sct = np.array([ds.systems[x].sigma_cos_theta for x in points.system])
