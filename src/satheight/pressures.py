@@ -56,6 +56,8 @@ class PressurePoints:
         [Pa].
     line : numpy.ndarray of int
         Line number in the file (1-based) of each point, for messages.
+    notes : list of str
+        What the reader or the MD -> TVDSS step left out or assumed, for the user.
     """
 
     source: Path
@@ -67,6 +69,7 @@ class PressurePoints:
     quality: np.ndarray
     zone: np.ndarray
     line: np.ndarray
+    notes: list = field(default_factory=list)
 
     def __len__(self) -> int:
         return int(self.pressure.size)
@@ -76,7 +79,7 @@ class PressurePoints:
         m = np.asarray(mask, dtype=bool)
         return PressurePoints(self.source, self.well[m], self.tvdss[m], self.md[m],
                               self.pressure[m], self.fluid[m], self.quality[m], self.zone[m],
-                              self.line[m])
+                              self.line[m], list(self.notes))
 
 
 

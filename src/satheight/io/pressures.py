@@ -14,10 +14,10 @@ comments; column names are case-insensitive and carry their unit in brackets):
 |---|---|---|
 | ``well`` | yes | well name |
 | ``tvdss [unit]`` | one of the two | true vertical depth below the datum, positive down (m or ft) |
-| ``md [unit]`` | one of the two | measured depth; turned into TVDSS with the well's datum elevation (vertical wells) when TVDSS is blank |
+| ``md [unit]`` | one of the two | measured depth; turned into TVDSS with the well's datum elevation (vertical wells) or survey when TVDSS is blank; a point whose well has neither is skipped with a note |
 | ``pressure [unit]`` | yes | formation pressure (psi, psia, bar, kPa, MPa, Pa); gauge and absolute are not told apart: use one kind in a file |
 | ``fluid`` | yes | ``water``, ``oil``, ``gas`` or ``unknown`` (the mobile fluid of the sample or gradient) |
-| ``quality`` | yes | ``good``, ``fair``, ``poor`` or ``bad``; by default good and fair points are fitted |
+| ``quality`` | no | ``good``, ``fair``, ``poor`` or ``bad``; by default good and fair points are fitted; without the column every point is taken as good (a note says so) |
 | ``zone`` | no | zone (pressure compartment) name; points are fitted per zone |
 
 Every value is checked; errors name the file, the line and the column.
@@ -67,7 +67,7 @@ def read_pressure_points(path) -> PressurePoints:
     if not rows:
         raise InputFileError("the pressure file has no header row", where=str(p),
                              hint="the first non-comment line names the columns: "
-                                  "well,tvdss [m],pressure [psi],fluid,quality")
+                                  "well,tvdss [m],pressure [psi],fluid[,quality][,zone]")
     header_line, header_text = rows[0]
     where = f"{p}, line {header_line}"
     header = csv_cells(header_text, where)
@@ -84,13 +84,15 @@ def read_pressure_points(path) -> PressurePoints:
             out[k].append(v)
     if not out["line"]:
         raise InputFileError("the pressure file has a header but no data rows", where=str(p))
+    notes = [] if "quality" in cols else [f"{p.name}: no quality column: every point is "
+                                          "taken as good and fitted"]
     return PressurePoints(source=p, well=np.array(out["well"], dtype=object),
                           tvdss=np.array(out["tvdss"], float), md=np.array(out["md"], float),
                           pressure=np.array(out["pressure"], float),
                           fluid=np.array(out["fluid"], dtype=object),
                           quality=np.array(out["quality"], dtype=object),
                           zone=np.array(out["zone"], dtype=object),
-                          line=np.array(out["line"], dtype=np.int64))
+                          line=np.array(out["line"], dtype=np.int64), notes=notes)
 
 
 def _columns(header: list[str], where: str) -> dict[str, tuple[int, str]]:
@@ -105,12 +107,12 @@ def _columns(header: list[str], where: str) -> dict[str, tuple[int, str]]:
         if name in cols:
             raise InputFileError(f"column {name!r} appears twice", where=where)
         cols[name] = (i, (m.group(2) or "").strip())
-    for need in ("well", "pressure", "fluid", "quality"):
+    for need in ("well", "pressure", "fluid"):
         if need not in cols:
             raise InputFileError(f"column {need!r} is missing (found: {', '.join(cols)})",
                                  where=where,
                                  hint="columns: well, tvdss [unit] or md [unit], "
-                                      "pressure [unit], fluid, quality, optional zone")
+                                      "pressure [unit], fluid, optional quality and zone")
     if "tvdss" not in cols and "md" not in cols:
         raise InputFileError("no depth column: give tvdss [unit] or md [unit]", where=where)
     return cols
@@ -165,7 +167,7 @@ def _read_row(cells: list[str], n_columns: int, cols, factors, where: str) -> tu
     if fluid not in FLUIDS:
         raise InputFileError(f"fluid {cell('fluid')!r} is not known", where=where,
                              hint="use one of " + ", ".join(FLUIDS))
-    qual = cell("quality").lower()
+    qual = cell("quality").lower() if "quality" in cols else "good"
     if qual not in QUALITIES:
         raise InputFileError(f"quality {cell('quality')!r} is not known", where=where,
                              hint="use one of " + ", ".join(QUALITIES))
@@ -173,7 +175,7 @@ def _read_row(cells: list[str], n_columns: int, cols, factors, where: str) -> tu
 
 
 def resolve_tvdss(points: PressurePoints, datum_elevation: dict) -> PressurePoints:
-    """Fill TVDSS [m] of points given only by MD.
+    """Fill TVDSS [m] of points given only by MD; skip, with a note, those that cannot be.
 
     A vertical well: ``TVDSS = MD - datum``; a deviated well: its MD -> TVDSS
     function (minimum curvature through its survey).
@@ -189,25 +191,34 @@ def resolve_tvdss(points: PressurePoints, datum_elevation: dict) -> PressurePoin
     Returns
     -------
     PressurePoints
-        A copy with every TVDSS filled.
+        A copy with every TVDSS filled; points of a well with only MD and no datum
+        are left out and named (file and lines) in its ``notes``.
 
     Raises
     ------
     InputFileError
-        A point has only MD and its well has no datum elevation (names the line).
+        No point is left (every point has only MD and no datum).
     """
     tvd = points.tvdss.copy()
     need = np.isnan(tvd)
+    keep = np.ones(tvd.size, dtype=bool)
+    notes = list(points.notes)
     for well in sorted(set(points.well[need])):
         m = need & (points.well == well)
         if well not in datum_elevation:
-            line = int(points.line[m][0])
-            raise InputFileError(f"point of well {well!r} has only MD and the well's datum "
-                                 "elevation is unknown", where=f"{points.source}, line {line}",
-                                 hint="give the tvdss column, or run with --project naming a "
-                                      "project file that has this well")
+            keep &= ~m
+            lines = ", ".join(str(int(x)) for x in points.line[m])
+            notes.append(f"{points.source}, line(s) {lines}: point(s) of well {well!r} have only "
+                         "MD and the well's datum elevation is unknown: skipped (give the tvdss "
+                         "column, or a project file that has this well)")
+            continue
         conv = datum_elevation[well]
         tvd[m] = conv(points.md[m]) if callable(conv) else points.md[m] - conv
-    return PressurePoints(points.source, points.well.copy(), tvd, points.md.copy(),
-                          points.pressure.copy(), points.fluid.copy(), points.quality.copy(),
-                          points.zone.copy(), points.line.copy())
+    if not keep.any():
+        raise InputFileError("every pressure point has only MD and no well datum to turn it "
+                             "into TVDSS", where=str(points.source),
+                             hint="give the tvdss column, or run with --project naming a "
+                                  "project file that has these wells")
+    return PressurePoints(points.source, points.well[keep], tvd[keep], points.md[keep],
+                          points.pressure[keep], points.fluid[keep], points.quality[keep],
+                          points.zone[keep], points.line[keep], notes)

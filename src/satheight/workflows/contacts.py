@@ -136,6 +136,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         points = resolve_tvdss(points, _datums(project, set(points.well)))
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
+    notes += points.notes
     analysis = analyse_pressures(points, qualities=qualities)
     out = _out_dir(out_dir)
 
