@@ -254,3 +254,38 @@ def test_store_bad_parameter_names_rock_type(tmp_path):
     with pytest.raises(ModelError, match="swirr") as e:
         load_models(p)
     assert "rock_types[A]" in str(e.value)
+
+
+@pytest.mark.parametrize("name", sorted(FAMILIES))
+def test_families_follow_the_scikit_learn_estimator_convention(name):
+    # checked with scikit-learn itself (its developers' guide: the constructor only
+    # stores arguments, fit returns self, learned attributes end in "_", clone works)
+    sklearn_base = pytest.importorskip("sklearn.base")
+    from sklearn.exceptions import NotFittedError as SkNotFitted
+    from sklearn.utils.validation import check_is_fitted
+
+    cls = FAMILIES[name]
+    est = cls()
+    assert [k for k in vars(est) if k.endswith("_")] == []          # nothing learned yet
+    with pytest.raises(SkNotFitted):
+        check_is_fitted(est)
+    with pytest.raises(NotFittedError):
+        est.predict([1.0])
+    assert est.get_params() == {"max_evaluations": 20000}
+    assert est.set_params(max_evaluations=5000) is est and est.max_evaluations == 5000
+    with pytest.raises(ModelError, match="no setting"):
+        est.set_params(nonsense=1)
+    x = np.geomspace(0.3, 30, 25) if cls.variable == "j" else np.linspace(2.0, 60.0, 25)
+    sw = np.clip(0.15 + 0.85 * (x / x.min()) ** -0.8, 0, 1)
+    assert est.fit(x, sw) is est
+    check_is_fitted(est)
+    learned = {k for k in vars(est) if k.endswith("_")}
+    assert {"params_", "stderr_", "rmse_", "j_range_", "fit_data_"} <= learned
+    copy = sklearn_base.clone(est)
+    assert type(copy) is cls and copy is not est
+    assert copy.get_params() == {"max_evaluations": 5000}
+    assert [k for k in vars(copy) if k.endswith("_")] == []         # clone is unfitted
+    # built from given parameters: ready to predict, and clone still works
+    built = cls.from_params(est.params_)
+    check_is_fitted(built)
+    assert sklearn_base.clone(built).get_params() == {"max_evaluations": 20000}
