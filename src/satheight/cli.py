@@ -280,7 +280,9 @@ def _fwl(args, out) -> int:
         p = d.get("parameters")
         if p:
             vals = ", ".join(f"{k} {v:.4g}" for k, v in p["values"].items())
-            print(f"  joint fit: FWL {p['fwl']:.2f} {u}, {vals}", file=out)
+            iv = p.get("interval")
+            se = (f" [{iv[0]:.2f}, {iv[1]:.2f}], se {p['standard_error']:.2f} {u}" if iv else "")
+            print(f"  joint fit: FWL {p['fwl']:.2f} {u}{se}, {vals}", file=out)
             if p.get("correlation"):
                 names = p["names"]
                 for i, row in enumerate(p["correlation"]):

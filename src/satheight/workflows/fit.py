@@ -185,6 +185,11 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
 
         files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
         files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
+    if points.closure:
+        first = {f"{c.plug_id}/{c.system}": c.pc[0] for c in ds.curves}
+        warnings.append("closure per curve: " + ", ".join(
+            f"{k} {'none' if v <= first[k] else f'{v / C.PSI:.4g} psi'}"
+            for k, v in points.closure.items()))
     for rt, e in fits.items():
         for fam, msg in e["errors"].items():
             warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
@@ -208,7 +213,8 @@ def fit_table(fits: dict) -> str:
                          f"{r.r2:>7.4f} {r.aic:>9.1f} {'' if d is None else f'{d:.1f}':>6} "
                          f"{rng:>19}  {params}")
     lines.append("* selected: among J families within 2 of the lowest AIC (dAIC <= 2) the one "
-                 "with fewer parameters; ranges: J covered by data (height [m] for height functions)")
+                 "with fewer parameters, then the first listed; ranges: J covered by data "
+                 "(height [m] for height functions)")
     return "\n".join(lines)
 
 
