@@ -217,6 +217,9 @@ def test_fwl_command_on_demo(tmp_path):
     # the demo logs were made with FWL 2290 m TVDSS (demo_wells/README.md) but with
     # per-well J-Sw parameters, so allow a metre
     assert doc["best_fwl"] == pytest.approx(2290.0, abs=1.0)
+    # the true level inside the interval, no compartment flagged (one compartment per zone)
+    assert doc["interval"][0] <= 2290.0 <= doc["interval"][1]
+    assert doc["flagged_wells"] == [] and doc["shape_fitted_with_fwl"] is True
     from satheight.project.reader import load_project
 
     assert len(doc["wells"]) == len(load_project(ROOT / "demo_wells" / "demo_project.toml").wells)
@@ -338,3 +341,12 @@ def test_demo_fwl_search_recovers_every_fwl_and_flags_no_compartment():
         assert r.low <= truth <= r.high, (zone, r.best, r.low, r.high)
         assert r.high - r.low < 2.0                           # informative
         assert r.flagged_wells == [], (zone, r.warnings)
+
+
+def test_too_few_samples_keep_the_function_and_say_so():
+    s = [samples_of(0, n=700)]
+    few = zone_samples("F", s[0].tvdss[400:430], s[0].phi[400:430], s[0].k[400:430],
+                       s[0].sw_log[400:430], s[0].zone)
+    r = search_fwl([few], n_boot=20, seed=1)
+    assert not r.shape_fitted and r.parameters is None
+    assert any("too few to fit the J-Sw shape" in m for m in r.warnings)

@@ -37,7 +37,8 @@ from scipy.optimize import minimize_scalar
 
 from .blockboot import block_weights, bootstrap_interval, grid_minima
 from .errors import SatHeightError
-from .fwljoint import DEFAULT_SEED, block_length_at, joint_search, shape_bounds
+from .fwljoint import (DEFAULT_SEED, MIN_OWN_SAMPLES_PER_PARAMETER, block_length_at,
+                       joint_search, shape_bounds)
 from .fwlmisfit import (WellFwl, ZoneSamples, default_window, misfit_matrix, profile_value,
                         zone_samples)
 
@@ -243,6 +244,11 @@ def search_fwl(samples: Sequence[ZoneSamples], *, window: tuple[float, float] | 
     if shape == "auto":
         shape = shape_bounds(samples[0].zone.function)
     if not shape:
+        return fixed
+    if fixed.n_samples < MIN_OWN_SAMPLES_PER_PARAMETER * (len(shape) + 1):
+        fixed.warnings.append(f"{fixed.n_samples} usable samples are too few to fit the J-Sw "
+                              f"shape ({len(shape)} parameter(s)) with the FWL: the function "
+                              "was kept as given and the interval does not include its error")
         return fixed
     return _search_shape(samples, grid, shape, fixed, **opts)
 
