@@ -185,16 +185,22 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
 
         files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
         files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
-    if points.closure:
-        first = {f"{c.plug_id}/{c.system}": c.pc[0] for c in ds.curves}
-        warnings.append("closure per curve: " + ", ".join(
-            f"{k} {'none' if v <= first[k] else f'{v / C.PSI:.4g} psi'}"
-            for k, v in points.closure.items()))
+    warnings += _closure_note(points, ds)
     for rt, e in fits.items():
         for fam, msg in e["errors"].items():
             warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
     return FitRun(points=points, fits=fits, rule=rule_out, model_path=model_path, files=files,
                   warnings=warnings)
+
+
+def _closure_note(points: CorePoints, ds) -> list[str]:
+    """The closure chosen per mercury curve ('none' where nothing was corrected)."""
+    if not points.closure:
+        return []
+    first = {f"{c.plug_id}/{c.system}": c.pc[0] for c in ds.curves}
+    return ["closure per curve: " + ", ".join(
+        f"{k} {'none' if v <= first[k] else f'{v / C.PSI:.4g} psi'}"
+        for k, v in points.closure.items())]
 
 
 def fit_table(fits: dict) -> str:
