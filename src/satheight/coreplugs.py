@@ -32,7 +32,7 @@ import numpy as np
 from . import constants as C
 from .engine import leverett_j
 from .errors import ModelError, SatHeightError
-from .models import FAMILIES, select_family
+from .models import FAMILIES, get_family, select_family
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -601,8 +601,6 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
         :func:`satheight.models.select_family` (fewest parameters among fits within
         2 of the lowest AIC); ``"delta_aic"`` holds each J family's AIC minus the lowest.
     """
-    from .models import get_family
-
     out: dict = {}
     names = [str(x) or "all" for x in points.rock_type]
     labels = np.array(names, dtype=object)
