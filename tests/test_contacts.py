@@ -265,15 +265,21 @@ def test_function_a_few_percent_off_does_not_push_the_fwl_out_of_its_interval():
     # (10 % off, the plug-to-plug spread of a small core set). The FWL and a trade
     # off: with the function fixed the best FWL moves by about a metre and its
     # interval, which only counts the log scatter, misses the true level; with the
-    # shape fitted with the FWL (the default) the interval holds it.
+    # shape fitted with the FWL (the default) the interval holds it. Four independent
+    # fields of three wells each, 95 % intervals: at least three of four must hold it.
     off = {"swirr": 0.1, "a": 0.27, "b": 1.2}
-    s = [_samples_with_function(i, off) for i in range(3)]
-    fixed = search_fwl(s, n_boot=60, seed=1, shape=None)
-    fitted = search_fwl(s, n_boot=60, seed=1)
-    assert not fixed.low <= TRUE_FWL <= fixed.high          # the failure the default avoids
-    assert fitted.shape_fitted and fitted.low <= TRUE_FWL <= fitted.high
-    assert fitted.parameters["values"]["a"] == pytest.approx(0.30, abs=0.03)  # truth of the logs
-    assert not fitted.flagged_wells
+    fixed_hits = fitted_hits = 0
+    for k in range(4):
+        s = [_samples_with_function(10 * k + i, off) for i in range(3)]
+        fixed = search_fwl(s, n_boot=60, seed=k, shape=None)
+        fitted = search_fwl(s, n_boot=60, seed=k)
+        fixed_hits += fixed.low <= TRUE_FWL <= fixed.high
+        fitted_hits += fitted.low <= TRUE_FWL <= fitted.high
+        assert fitted.shape_fitted and not fitted.flagged_wells
+        # the fitted a comes back near the truth of the logs, not the function's 0.27
+        assert fitted.parameters["values"]["a"] == pytest.approx(0.30, abs=0.02)
+    assert fixed_hits <= 1              # the failure the default avoids
+    assert fitted_hits >= 3
 
 
 def test_joint_parameter_fit_reports_interval_standard_error_and_per_well_offsets():
