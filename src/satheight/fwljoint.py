@@ -235,7 +235,8 @@ def joint_search(samples, params, grid, *, fwl_start, misfit, delta, n_boot, blo
     low, high = bootstrap_interval(boot, best, level)
     wells, notes = [], []
     for s, w in zip(samples, weights):
-        own, note = _own_joint(s, params, grid, w, best, (low, high), fit, misfit, delta, level,
+        alone = (fit, mats[0]) if len(samples) == 1 else None      # one well: its own fit
+        own, note = _own_joint(s, params, grid, w, best, (low, high), alone, misfit, delta, level,
                                tolerance)
         wells.append(own)
         notes += [note] if note else []
@@ -252,15 +253,20 @@ def joint_search(samples, params, grid, *, fwl_start, misfit, delta, n_boot, blo
                                                        at_project))
 
 
-def _own_joint(s, params, grid, weights, best, joint, fit, misfit, delta, level, tolerance):
-    """One well's own fit of FWL and parameters, its interval and offset from ``best``."""
+def _own_joint(s, params, grid, weights, best, joint, alone, misfit, delta, level, tolerance):
+    """One well's own fit of FWL and parameters, its interval and offset from ``best``
+    (``alone``: the joint fit and misfit array when the well is the only one)."""
     if s.n < MIN_OWN_SAMPLES_PER_PARAMETER * (len(params) + 1):
         return (WellFwl(s.well, s.n, None, None, None, None, None),
                 f"{s.well}: {s.n} usable samples, too few for its own FWL and "
                 f"{len(params)} parameter(s)")
-    own = fit_point([s], params, fwl_bounds=(grid[0], grid[-1]), fwl_start=best,
-                    misfit=misfit, delta=delta)
-    mats = valley_matrix(s, grid, valley_functions(own, s.zone.function, grid), misfit, delta)
+    if alone is not None:
+        own, mats = alone
+    else:
+        own = fit_point([s], params, fwl_bounds=(grid[0], grid[-1]), fwl_start=best,
+                        misfit=misfit, delta=delta)
+        mats = valley_matrix(s, grid, valley_functions(own, s.zone.function, grid), misfit,
+                             delta)
     wboot = grid_minima(weights @ mats.T / s.n, grid)
     wl, wh = bootstrap_interval(wboot, own["fwl"], level)
     low, high = joint
