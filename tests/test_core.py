@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 import scipy.constants as sc
 
-from satheight.core import (LAB_SYSTEMS, RESERVOIR_SYSTEMS, CoreDataset, Plug, closure_correction,
+from satheight.coreplugs import (LAB_SYSTEMS, RESERVOIR_SYSTEMS, CoreDataset, Plug, closure_correction,
                             conversion_ratio, core_points, fluid_system, height_from_pc,
                             lab_to_reservoir_pc, make_curve, pick_closure_pressure,
                             stress_correct, washburn_radius, wetting_saturation_from_mercury)
@@ -18,7 +18,8 @@ from satheight.engine import leverett_j
 from satheight.errors import InputFileError, SatHeightError, UnitError
 from satheight.io.core_data import (file_kind, read_core_files, read_plug_table,
                                     read_pressure_steps, read_single_plug)
-from satheight.rocktypes import RockTypeRule, fzi, normalised_porosity, plug_rock_types, rqi
+from satheight.rocktypes import (RockTypeRule, check_rock_type_names, fzi, normalised_porosity,
+                                plug_rock_types, rqi)
 
 MD = 9.869233e-16   # 1 mD in m^2, NIST SP 811 (darcy = 9.869233e-13 m^2)
 PSI = sc.psi        # NIST SP 811, via scipy.constants
@@ -96,6 +97,54 @@ def test_closure_correction_recovers_true_intrusion():
     assert 15 * PSI <= picked <= 32 * PSI
     # nothing to correct below the first step
     np.testing.assert_array_equal(closure_correction(pc, s_obs, 0.5 * PSI), s_obs)
+
+
+def _brooks_corey_mercury(j, swirr=0.12, jd=0.2, lam=2.5):
+    """Mercury saturation of a Brooks-Corey rock (Brooks and Corey 1964): 0 below the
+    entry J, ``1 - swirr - (1 - swirr) (J/jd)^-lam`` above it."""
+    sw = np.where(j >= jd, swirr + (1 - swirr) * (np.maximum(j, jd) / jd) ** -lam, 1.0)
+    return 1.0 - sw
+
+
+def test_auto_closure_leaves_clean_mercury_data_without_closure_as_measured():
+    # a clean mercury curve with no conformance: nothing before the entry but noise.
+    # The auto closure must apply (close to) none: the Brooks-Corey fit after it stays
+    # within half a standard error of the fit of the data as measured.
+    from satheight.models import BrooksCorey
+
+    pc = np.geomspace(1, 20000, 30) * PSI
+    j = leverett_j(pc, 30 * MD, 0.2, HG.sigma_cos_theta)
+    for seed in range(12):
+        s = _brooks_corey_mercury(j)
+        if seed:                                   # seed 0: exact data
+            s = s + np.random.default_rng(seed).normal(0.0, 0.005, j.size)   # 0.5 % noise
+        cp = pick_closure_pressure(pc, s)
+        raw = BrooksCorey().fit(j, 1 - s)
+        auto = BrooksCorey().fit(j, 1 - closure_correction(pc, s, cp))
+        moved = max(abs(auto.params_[p] - raw.params_[p]) / raw.stderr_[p] for p in raw.params_)
+        assert moved < 0.5, (seed, cp / PSI, moved)
+
+
+def test_auto_closure_takes_the_end_of_a_conformance_plateau():
+    # conformance of 2.7 % fills by 11 psi, then a plateau to the entry near 60 psi (the
+    # shape of the demo's mercury curves): closure is picked at the top of the plateau,
+    # not at its first flat step, so the whole conformance is removed
+    pc = np.array([1, 1.407, 1.98, 2.786, 3.92, 5.515, 7.76, 10.92, 15.36, 21.62, 30.42, 42.8,
+                   60.22, 84.73, 119.2, 167.8, 236, 332.1]) * PSI
+    s = np.array([0, 1.02, 1.02, 1.45, 1.45, 1.45, 1.45, 2.71, 2.71, 2.71, 2.71, 2.71, 3.27,
+                  12.2, 38.18, 55.5, 67.51, 75.36]) / 100
+    assert pick_closure_pressure(pc, s) == pytest.approx(42.8 * PSI)
+
+
+def test_auto_closure_is_reported_per_curve():
+    # one entry per mercury curve; a clean curve gets its first pressure (nothing removed)
+    pc = np.geomspace(1, 20000, 30) * PSI
+    j = leverett_j(pc, 30 * MD, 0.2, HG.sigma_cos_theta)
+    plugs = {"A": Plug("A", "W", 2000.0, 0.2, 30 * MD)}
+    curve = make_curve("A", "mercury_air", pc, 1 - _brooks_corey_mercury(j), range(30), "x.csv")
+    ds = CoreDataset(plugs=plugs, curves=[curve], files={})
+    pts = core_points(ds, closure="auto")
+    assert pts.closure == {"A/mercury_air": pytest.approx(pc[0])}
 
 
 def test_stress_correction_factors():
@@ -291,3 +340,15 @@ def test_make_curve_needs_two_steps():
 def test_dataset_warns_about_plugs_without_curves():
     ds = CoreDataset(plugs={"P": Plug("P", "W", 0, 0.2, 1e-13, source="p.csv, row 2")}, curves=[])
     assert "has no capillary-pressure curve" in ds.validate()[0]
+
+
+def test_option_naming_a_rock_type_that_matches_nothing_is_refused_with_known_names():
+    known = ["Lower Sand", "Upper Sand"]
+    check_rock_type_names(["Upper Sand", "*"], known, "--reservoir")      # fine
+    with pytest.raises(SatHeightError) as e:
+        check_rock_type_names(["Uper Sand", "Upper Sand"], known, "--reservoir")
+    msg = str(e.value)
+    assert "'Uper Sand'" in msg and "--reservoir" in msg
+    assert "'Lower Sand'" in msg and "'Upper Sand'" in msg        # the known names listed
+    with pytest.raises(SatHeightError, match="'\\*'"):
+        check_rock_type_names(["*"], known, "--models", wildcard=None)

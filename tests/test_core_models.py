@@ -11,8 +11,8 @@ import pytest
 
 from satheight.errors import InputFileError, ModelError, NotFittedError
 from satheight.models import (FAMILIES, BrooksCorey, PowerLaw, SkeltHarrison, Thomeer,
-                              VanGenuchten, build_function)
-from satheight.models.store import load_models, models_to_dict, save_models
+                              VanGenuchten, build_function, select_family)
+from satheight.io.model_file import load_models, models_to_dict, round_to_error, save_models
 from satheight.models.thomeer import fit_thomeer_pc, thomeer_bulk_volume
 from satheight.models.van_genuchten import van_genuchten_theta
 from satheight.rocktypes import RockTypeRule
@@ -172,16 +172,64 @@ def test_store_round_trip_is_plain_json(tmp_path):
     rule = RockTypeRule("fzi", None, (1.0,), ("A", "B"))
     path = save_models(tmp_path / "m.json", models_to_dict(fits, rule, {"files": {"x.csv": "ab"}}))
     data = json.loads(path.read_text())           # readable JSON, not pickle
-    assert data["rock_types"]["A"]["fits"]["power_law"]["params"] == fits["A"]["fits"]["power_law"].params
+    rep = fits["A"]["fits"]["power_law"]
+    written = data["rock_types"]["A"]["fits"]["power_law"]["params"]
+    for p, v in rep.params.items():               # rounded within 1/200 of its standard error
+        assert abs(written[p] - v) <= rep.stderr[p] / 200
     mf = load_models(path)
     assert mf.rule == rule
     fn = mf.function("B")
-    assert fn.params_ == fits["B"]["fits"]["power_law"].params
+    assert fn.params_ == data["rock_types"]["B"]["fits"]["power_law"]["params"]
     assert fn.j_range_ == pytest.approx(fits["B"]["fits"]["power_law"].j_range)
     with pytest.raises(ModelError, match="no rock type 'C'"):
         mf.function("C")
     with pytest.raises(ModelError, match="no fitted 'thomeer'"):
         mf.function("A", "thomeer")
+
+
+def test_parameters_are_written_to_the_precision_their_standard_error_supports():
+    # worked by hand: SE 2.8 -> two decimals; SE 0.0029 -> five; SE 0.012 -> four
+    assert round_to_error(2.2649871, 2.8) == 2.26
+    assert round_to_error(0.289612345, 0.0029) == 0.28961
+    assert round_to_error(1.19246, 0.012) == 1.1925
+    # no usable standard error: six significant digits
+    assert round_to_error(0.0123456789, float("nan")) == 0.0123457
+    # never rounded out of the family's bounds (power law a >= 1e-6)
+    assert round_to_error(1.2e-6, 1.0, PowerLaw.bounds["a"]) == 1e-6
+    # an ill-conditioned value that differs in the 7th digit between machines is
+    # written the same (or one rounding step apart, far below its error)
+    a, b = round_to_error(2.2612345, 2.8), round_to_error(2.2612345 * (1 + 1e-7), 2.8)
+    assert abs(a - b) <= 0.01
+
+
+def test_equal_fits_prefer_fewer_parameters_and_report_delta_aic():
+    from types import SimpleNamespace as R
+
+    # worked by hand: AICs -100 (3 parameters), -99 (2 parameters), -90 (1 parameter):
+    # -99 is within 2 of the lowest (Burnham and Anderson 2002, section 2.6) and has
+    # fewer parameters; -90 is not within 2
+    reps = {"three": R(aic=-100.0, params={"x": 1, "y": 2, "z": 3}),
+            "two": R(aic=-99.0, params={"x": 1, "y": 2}),
+            "one": R(aic=-90.0, params={"x": 1})}
+    chosen, delta = select_family(reps)
+    assert chosen == "two" and delta == {"three": 0.0, "two": 1.0, "one": 10.0}
+    # beyond 2 the lowest AIC wins
+    reps["two"] = R(aic=-97.5, params={"x": 1, "y": 2})
+    assert select_family(reps)[0] == "three"
+
+
+def test_power_law_and_brooks_corey_tie_and_the_power_law_is_chosen():
+    # Sw = swirr + (1-swirr) a J^-b clipped at 1 is Brooks-Corey with jd = a^(1/b),
+    # lam = b (Brooks and Corey 1964): the same curve, the same AIC to rounding, so
+    # the choice must not depend on the last digits of two equal fits
+    rng = np.random.default_rng(5)
+    j = np.geomspace(0.05, 50, 40)
+    sw = np.clip(PowerLaw.equation(j, 0.1, 0.3, 1.2), 0, 1) + rng.normal(0, 0.01, j.size)
+    reps = {cls.name: cls().fit(j, sw).fit_report() for cls in (BrooksCorey, PowerLaw)}
+    assert abs(reps["brooks_corey"].aic - reps["power_law"].aic) < 1e-6
+    chosen, delta = select_family(reps, order=list(FAMILIES))
+    assert chosen == "power_law"
+    assert max(delta.values()) < 1e-6
 
 
 @pytest.mark.parametrize("text, match", [
@@ -206,3 +254,38 @@ def test_store_bad_parameter_names_rock_type(tmp_path):
     with pytest.raises(ModelError, match="swirr") as e:
         load_models(p)
     assert "rock_types[A]" in str(e.value)
+
+
+@pytest.mark.parametrize("name", sorted(FAMILIES))
+def test_families_follow_the_scikit_learn_estimator_convention(name):
+    # checked with scikit-learn itself (its developers' guide: the constructor only
+    # stores arguments, fit returns self, learned attributes end in "_", clone works)
+    sklearn_base = pytest.importorskip("sklearn.base")
+    from sklearn.exceptions import NotFittedError as SkNotFitted
+    from sklearn.utils.validation import check_is_fitted
+
+    cls = FAMILIES[name]
+    est = cls()
+    assert [k for k in vars(est) if k.endswith("_")] == []          # nothing learned yet
+    with pytest.raises(SkNotFitted):
+        check_is_fitted(est)
+    with pytest.raises(NotFittedError):
+        est.predict([1.0])
+    assert est.get_params() == {"max_evaluations": 20000}
+    assert est.set_params(max_evaluations=5000) is est and est.max_evaluations == 5000
+    with pytest.raises(ModelError, match="no setting"):
+        est.set_params(nonsense=1)
+    x = np.geomspace(0.3, 30, 25) if cls.variable == "j" else np.linspace(2.0, 60.0, 25)
+    sw = np.clip(0.15 + 0.85 * (x / x.min()) ** -0.8, 0, 1)
+    assert est.fit(x, sw) is est
+    check_is_fitted(est)
+    learned = {k for k in vars(est) if k.endswith("_")}
+    assert {"params_", "stderr_", "rmse_", "j_range_", "fit_data_"} <= learned
+    copy = sklearn_base.clone(est)
+    assert type(copy) is cls and copy is not est
+    assert copy.get_params() == {"max_evaluations": 5000}
+    assert [k for k in vars(copy) if k.endswith("_")] == []         # clone is unfitted
+    # built from given parameters: ready to predict, and clone still works
+    built = cls.from_params(est.params_)
+    check_is_fitted(built)
+    assert sklearn_base.clone(built).get_params() == {"max_evaluations": 20000}

@@ -138,16 +138,44 @@ def test_md_points_resolved_with_datum(tmp_path):
                     "A,,7000,210,water,good\nA,2100,,211,water,good\n")
     pts = read_pressure_points(path)
     assert np.isnan(pts.tvdss[0]) and pts.pressure[0] == pytest.approx(210e5)
-    with pytest.raises(InputFileError, match="line 2"):
-        resolve_tvdss(pts, {})
     done = resolve_tvdss(pts, {"A": 30.0})
     assert done.tvdss[0] == pytest.approx(7000 * FOOT - 30.0)
     assert np.isnan(pts.tvdss[0])                       # the input object is unchanged
 
 
+def test_point_with_md_and_no_way_to_convert_it_is_skipped_with_a_note(tmp_path):
+    # one point of well B has only MD and B has no datum: that point is left out and
+    # named, the rest of the file is used (1 bar = 1e5 Pa, NIST SP 811)
+    path = tmp_path / "md.csv"
+    path.write_text("well,tvdss [m],md [m],pressure [bar],fluid,quality\n"
+                    "A,2000,,200,water,good\nB,,2100,210,water,good\nA,2050,,205,water,good\n")
+    pts = read_pressure_points(path)
+    done = resolve_tvdss(pts, {"A": 30.0})
+    assert list(done.line) == [2, 4] and list(done.tvdss) == [2000.0, 2050.0]
+    assert len(done.notes) == 1 and "line(s) 3" in done.notes[0] and "'B'" in done.notes[0]
+    assert len(pts) == 3 and pts.notes == []                 # the input object is unchanged
+    # nothing left at all: a clear error naming the file
+    only_md = tmp_path / "only_md.csv"
+    only_md.write_text("well,md [m],pressure [bar],fluid\nB,2100,210,water\n")
+    with pytest.raises(InputFileError, match="only MD") as ei:
+        resolve_tvdss(read_pressure_points(only_md), {})
+    assert str(only_md) in str(ei.value)
+
+
+def test_quality_column_is_optional(tmp_path):
+    path = tmp_path / "noq.csv"
+    path.write_text("well,tvdss [m],pressure [bar],fluid\nA,2000,200,water\nA,2010,201,water\n")
+    pts = read_pressure_points(path)
+    assert list(pts.quality) == ["good", "good"]             # every point is fitted
+    assert any("no quality column" in n for n in pts.notes)
+    # 1 bar over 10 m = 1e4 Pa/m (NIST SP 811: 1 bar = 1e5 Pa)
+    line = analyse_pressures(pts)[""].lines["water"]
+    assert line.gradient == pytest.approx(1e4)
+
+
 @pytest.mark.parametrize("text, words", [
     ("well,tvdss [m],pressure,fluid,quality\nA,1,2,water,good\n", "no unit"),
-    ("well,tvdss [m],pressure [psi],fluid\nA,1,2,water\n", "'quality' is missing"),
+    ("well,tvdss [m],pressure [psi],water\nA,1,2,water\n", "'fluid' is missing"),
     ("well,pressure [psi],fluid,quality\nA,2,water,good\n", "no depth column"),
     ("well,tvdss [m],pressure [furlong],fluid,quality\nA,1,2,water,good\n", "pressure"),
     ("well,tvdss [m],pressure [psi],fluid,quality\nA,1,2,brine,good\n", "fluid 'brine'"),
@@ -212,7 +240,7 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
     from satheight.workflows.contacts import _datums
 
     demo = Path(__file__).resolve().parents[1] / "demo_wells"
-    from satheight.project import load_project
+    from satheight.project.reader import load_project
     from satheight.workflows.run import run_project
 
     project = load_project(demo / "demo_project.toml")

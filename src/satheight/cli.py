@@ -237,7 +237,9 @@ def _fwl(args, out) -> int:
         p = d.get("parameters")
         if p:
             vals = ", ".join(f"{k} {v:.4g}" for k, v in p["values"].items())
-            _say(out, f"  joint fit: FWL {p['fwl']:.2f} {u}, {vals}")
+            iv = p.get("interval")
+            se = (f" [{iv[0]:.2f}, {iv[1]:.2f}], se {p['standard_error']:.2f} {u}" if iv else "")
+            _say(out, f"  joint fit: FWL {p['fwl']:.2f} {u}{se}, {vals}")
             if p.get("correlation"):
                 names = p["names"]
                 for i, row in enumerate(p["correlation"]):

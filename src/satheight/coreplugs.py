@@ -34,7 +34,7 @@ from . import constants as C
 from .capillary import (height_from_pc, lab_to_reservoir_pc, leverett_j,  # noqa: F401
                         sigma_cos_theta_ratio)
 from .errors import ModelError, SatHeightError
-from .models import get_family
+from .models import FAMILIES, get_family, select_family
 from .plausible import outside_message
 
 # ----------------------------------------------------------------------------------
@@ -215,14 +215,22 @@ def closure_correction(pc, s_nw, closure_pc):
     return np.clip(np.where(pc <= closure_pc, 0.0, out), 0.0, 1.0)
 
 
+#: Smallest conformance [fraction of pore volume] taken as a closure plateau: below
+#: it the curve is left as measured (a rule of our own; noise of about 0.5 % is usual).
+MIN_CONFORMANCE = 0.01
+
+
 def pick_closure_pressure(pc, s_nw) -> float:
     """Pick the closure pressure of a mercury curve [Pa] (a simple rule of our own).
 
     The main entry into the pore system is the step with the largest intrusion per
-    decade of pressure. Below it, conformance shows as a tail of small intrusion;
-    closure is taken at the step below the entry with the smallest intrusion per
-    decade (the knee between the two). With no step below the entry the first
-    pressure is returned (nothing to correct).
+    decade of pressure. Below it, conformance shows as a rise followed by a
+    plateau of small intrusion; closure is taken at the top of the flattest step
+    below the entry (the highest of equally flat ones: the end of the plateau).
+    Where the data show no plateau, nothing is corrected (the first pressure is
+    returned): no step below the entry, or the mercury saturation at that step is
+    below :data:`MIN_CONFORMANCE` or within three times the scatter of the
+    saturation below the entry (a clean curve with noise has no conformance).
 
     Parameters
     ----------
@@ -239,7 +247,11 @@ def pick_closure_pressure(pc, s_nw) -> float:
     entry = int(np.argmax(rate))
     if entry == 0:
         return float(pc[0])
-    knee = int(np.argmin(rate[:entry]))
+    knee = entry - 1 - int(np.argmin(rate[:entry][::-1]))
+    steps = np.diff(s[:entry + 1])
+    scatter = 1.4826 * float(np.median(np.abs(steps - np.median(steps)))) / np.sqrt(2.0)
+    if not s[knee + 1] > max(MIN_CONFORMANCE, 3.0 * scatter):
+        return float(pc[0])
     return float(pc[knee + 1])
 
 
@@ -573,7 +585,9 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
     dict
         Rock-type name -> ``{"plugs": [...], "n_points": int, "fits": {family:
         FitReport}, "selected": family, "errors": {family: message}}``. The
-        selected family is the J family with the lowest AIC.
+        selected family is chosen among the J families by
+        :func:`satheight.models.select_family` (fewest parameters among fits within
+        2 of the lowest AIC); ``"delta_aic"`` holds each J family's AIC minus the lowest.
     """
     out: dict = {}
     names = [str(x) or "all" for x in points.rock_type]
@@ -596,8 +610,7 @@ def fit_rock_types(points: CorePoints, families=DEFAULT_FAMILIES) -> dict:
             except (ModelError, RuntimeError, ValueError) as exc:
                 entry["errors"][fam] = str(exc)
         j_fits = {f: r for f, r in entry["fits"].items() if r.variable == "j"}
-        if j_fits:
-            entry["selected"] = min(j_fits, key=lambda f: j_fits[f].aic)
+        entry["selected"], entry["delta_aic"] = select_family(j_fits, order=FAMILIES)
         out[rt] = entry
     return out
 

@@ -20,15 +20,15 @@ chapter 1, from memory).
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from pathlib import Path
 
 import numpy as np
 from scipy import stats
 
 from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
-from .io.pressures import PressurePoints
 
-__all__ = ["LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "analyse_pressures",
+__all__ = ["PressurePoints", "LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "analyse_pressures",
            "compare_levels", "DEFAULT_QUALITIES"]
 
 #: Quality words of points used in fits by default.
@@ -37,6 +37,50 @@ DEFAULT_QUALITIES = ("good", "fair")
 #: Smallest residual spread [Pa] for outlier rejection: a gauge resolution of
 #: about 0.01 psi (common practice), so exact data are never rejected.
 PRESSURE_RESOLUTION = 70.0
+
+
+@dataclass
+class PressurePoints:
+    """Pressure points in SI, one entry per data row.
+
+    Attributes
+    ----------
+    source : pathlib.Path
+    well, fluid, quality, zone : numpy.ndarray of str
+        ``zone`` is ``""`` where the file has no zone column or a blank cell.
+    tvdss : numpy.ndarray
+        [m], NaN where only MD was given (see :func:`satheight.io.pressures.resolve_tvdss`).
+    md : numpy.ndarray
+        [m], NaN where not given.
+    pressure : numpy.ndarray
+        [Pa].
+    line : numpy.ndarray of int
+        Line number in the file (1-based) of each point, for messages.
+    notes : list of str
+        What the reader or the MD -> TVDSS step left out or assumed, for the user.
+    """
+
+    source: Path
+    well: np.ndarray
+    tvdss: np.ndarray
+    md: np.ndarray
+    pressure: np.ndarray
+    fluid: np.ndarray
+    quality: np.ndarray
+    zone: np.ndarray
+    line: np.ndarray
+    notes: list = field(default_factory=list)
+
+    def __len__(self) -> int:
+        return int(self.pressure.size)
+
+    def subset(self, mask) -> "PressurePoints":
+        """A new object with the points where ``mask`` is true."""
+        m = np.asarray(mask, dtype=bool)
+        return PressurePoints(self.source, self.well[m], self.tvdss[m], self.md[m],
+                              self.pressure[m], self.fluid[m], self.quality[m], self.zone[m],
+                              self.line[m], list(self.notes))
+
 
 
 @dataclass
@@ -228,6 +272,22 @@ def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = N
     if gradient is None and np.ptp(z[idx]) <= 0:
         raise SatHeightError(f"{fluid or 'a fluid'}: all pressure points lie at one depth",
                              hint="a gradient needs points at two or more depths")
+    fit, used, rejected = _fit_rejecting(z, p, idx, gradient, reject, alpha, resolution,
+                                         min_points)
+    c, b, zref, cov, sd, dof = fit
+    se = None if gradient is None and dof <= 0 else (0.0 if gradient is not None
+                                                        else float(np.sqrt(cov[1, 1])))
+    return LineFit(fluid=fluid, gradient=float(b), gradient_se=se, ref_depth=float(zref),
+                   intercept=float(c), cov=cov, residual_sd=sd, dof=int(dof), used=used,
+                   rejected=np.array(sorted(rejected), dtype=np.int64),
+                   fixed=gradient is not None)
+
+
+def _fit_rejecting(z, p, idx, gradient, reject, alpha, resolution, min_points):
+    """OLS fit of the points ``idx``, dropping the worst deleted-residual outlier per round.
+
+    Returns (the :func:`_ols` tuple, used indices, rejected indices as a list).
+    """
     n_par = 1 if gradient is not None else 2
     used = idx.copy()
     rejected: list[int] = []
@@ -250,13 +310,7 @@ def fit_gradient(depth, pressure, fluid: str = "", *, gradient: float | None = N
             break
         rejected.append(int(used[worst]))
         used = np.delete(used, worst)
-    c, b, zref, cov, sd, dof = fit
-    se = None if gradient is None and dof <= 0 else (0.0 if gradient is not None
-                                                        else float(np.sqrt(cov[1, 1])))
-    return LineFit(fluid=fluid, gradient=float(b), gradient_se=se, ref_depth=float(zref),
-                   intercept=float(c), cov=cov, residual_sd=sd, dof=int(dof), used=used,
-                   rejected=np.array(sorted(rejected), dtype=np.int64),
-                   fixed=gradient is not None)
+    return fit, used, rejected
 
 
 def _ols(z, p, gradient):

@@ -231,3 +231,34 @@ def plug_rock_types(plugs, rule: RockTypeRule, where: str = "") -> dict[str, str
                                       "permeability or FZI classes")
         out[i] = str(value).strip()
     return out
+
+
+def check_rock_type_names(given, known, option: str, wildcard: str | None = "*") -> None:
+    """Refuse names in an option that match no rock type.
+
+    An option that maps fluids or models to rock types by name (e.g. ``--reservoir
+    "Upper Sand=26 mN/m"``) would otherwise leave a misspelt name silently unused.
+
+    Parameters
+    ----------
+    given : iterable of str
+        Rock-type names the option mentions.
+    known : iterable of str
+        Rock types the data have.
+    option : str
+        The option's name, for the message.
+    wildcard : str or None
+        A name that stands for every other rock type (allowed).
+
+    Raises
+    ------
+    SatHeightError
+        Naming the unknown names and listing the known ones.
+    """
+    known = sorted(set(known))
+    unknown = [n for n in dict.fromkeys(given) if n != wildcard and n not in known]
+    if unknown:
+        also = f", or {wildcard} for every other" if wildcard else ""
+        raise SatHeightError("names rock type(s) that match no plug: "
+                             + ", ".join(repr(n) for n in unknown), where=option,
+                             hint="known rock types: " + ", ".join(repr(n) for n in known) + also)

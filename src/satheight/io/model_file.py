@@ -94,15 +94,54 @@ def _clean(v):
     return v
 
 
+def round_to_error(value: float, stderr: float | None, bounds=None) -> float:
+    """``value`` rounded to the precision its standard error supports.
+
+    Kept to the decimal place two below the standard error's leading digit
+    (``SE = 2.8`` -> 2 decimals, ``SE = 0.0029`` -> 5 decimals): the rounding moves
+    a parameter by at most SE/200, well inside its uncertainty, and drops the
+    digits that differ between machines (a rule of our own). Without a usable standard error, six
+    significant digits. The result stays within ``bounds`` (low, high).
+    """
+    v = float(value)
+    if not math.isfinite(v) or v == 0.0:
+        return v
+    if stderr is not None and math.isfinite(stderr) and stderr > 0:
+        decimals = 2 - math.floor(math.log10(stderr))
+    else:
+        decimals = 5 - math.floor(math.log10(abs(v)))
+    r = round(v, decimals)
+    if bounds is not None:
+        r = min(max(r, float(bounds[0])), float(bounds[1]))
+    return r
+
+
+def _fit_record(report) -> dict:
+    """JSON record of one fit, parameters to the precision their standard errors support."""
+    rec = _clean(report)
+    cls = get_family(report.family)
+    se = report.stderr or {}
+    rec["params"] = {p: round_to_error(v, se.get(p), cls.bounds.get(p))
+                     for p, v in report.params.items()}
+    rec["stderr"] = {p: (float(f"{s:.2g}") if s is not None and math.isfinite(s) else None)
+                     for p, s in se.items()}
+    return rec
+
+
 def models_to_dict(fits: dict, rule: RockTypeRule, provenance: dict) -> dict:
-    """JSON-ready dict from :func:`satheight.core.fit_rock_types` output."""
+    """JSON-ready dict from :func:`satheight.coreplugs.fit_rock_types` output.
+
+    Fitted parameters are written to the precision their standard errors support
+    (:func:`round_to_error`), standard errors to two significant digits; each rock
+    type carries ``delta_aic`` (AIC minus the lowest, per J family) beside ``selected``.
+    """
     from .. import __version__
 
     rts = {}
     for name, e in fits.items():
         rts[name] = {"plugs": list(e["plugs"]), "n_points": e["n_points"],
-                     "selected": e["selected"],
-                     "fits": {f: _clean(r) for f, r in e["fits"].items()},
+                     "selected": e["selected"], "delta_aic": _clean(e.get("delta_aic", {})),
+                     "fits": {f: _fit_record(r) for f, r in e["fits"].items()},
                      "fit_errors": dict(e.get("errors", {}))}
     return {"format": FORMAT, "version": VERSION, "program": f"satheight {__version__}",
             "note": "J-Sw functions fitted to core capillary-pressure data; J is "

@@ -11,6 +11,7 @@ from ..errors import ModelError
 from .base import JSwFunction
 from .brooks_corey import BrooksCorey
 from .power_law import PowerLaw
+from .selection import EQUIVALENT_AIC, select_family
 from .skelt_harrison import SkeltHarrison
 from .thomeer import Thomeer
 from .van_genuchten import VanGenuchten
@@ -40,4 +41,4 @@ def build_function(family: str, params: dict, j_range=None, where: str = "") -> 
 
 
 __all__ = ["FAMILIES", "JSwFunction", "PowerLaw", "BrooksCorey", "Thomeer", "VanGenuchten",
-           "SkeltHarrison", "get_family", "build_function"]
+           "SkeltHarrison", "get_family", "build_function", "select_family", "EQUIVALENT_AIC"]

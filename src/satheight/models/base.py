@@ -10,9 +10,14 @@ A family is a class with
   from J [-];
 * ``initial_guess(j, sw)``: starting values for a fit.
 
-Instances follow scikit-learn's estimator convention: ``fit(j, sw)`` returns
-``self`` and sets ``params_`` and ``j_range_``; ``predict(j)`` before fit (or
-before :meth:`JSwFunction.from_params`) raises :class:`NotFittedError`.
+Instances follow scikit-learn's estimator convention (scikit-learn developers'
+guide, "Rolling your own estimator"): the constructor only stores its arguments
+(``max_evaluations``); ``fit(j, sw)`` returns ``self`` and sets the learned
+attributes, whose names end in ``_`` (``params_``, ``stderr_``, ``rmse_``,
+``j_range_``, ``fit_data_``) and which do not exist before; ``get_params`` and
+``set_params`` work, so ``sklearn.base.clone`` gives an unfitted copy.
+``predict(j)`` before fit (or before :meth:`JSwFunction.from_params`) raises
+:class:`NotFittedError`. scikit-learn itself is not needed.
 """
 
 from __future__ import annotations
@@ -37,11 +42,37 @@ class JSwFunction:
     #: versus height directly). The engine passes the matching array.
     variable: ClassVar[str] = "j"
 
-    def __init__(self):
-        self.params_: dict[str, float] | None = None
-        self.j_range_: tuple[float, float] | None = None
-        self.stderr_: dict[str, float] | None = None
-        self.rmse_: float | None = None
+    def __init__(self, max_evaluations: int = 20000):
+        self.max_evaluations = max_evaluations
+
+    # --- estimator parameters (scikit-learn convention) ---------------------------
+    def get_params(self, deep: bool = True) -> dict:
+        """Constructor arguments by name (``deep`` is accepted for scikit-learn)."""
+        return {"max_evaluations": self.max_evaluations}
+
+    def set_params(self, **params) -> "JSwFunction":
+        """Set constructor arguments; returns ``self``."""
+        valid = self.get_params()
+        for key, value in params.items():
+            if key not in valid:
+                raise ModelError(f"{type(self).__name__} has no setting {key!r}",
+                                 hint="settings: " + ", ".join(valid))
+            setattr(self, key, value)
+        return self
+
+    def is_fitted(self) -> bool:
+        """Whether the function has parameters (fitted, or built from given values)."""
+        return "params_" in vars(self)
+
+    def __sklearn_is_fitted__(self) -> bool:
+        return self.is_fitted()
+
+    def __sklearn_tags__(self):
+        """Estimator tags for scikit-learn (imported only when scikit-learn asks)."""
+        from sklearn.utils import RegressorTags, Tags, TargetTags   # optional library
+
+        return Tags(estimator_type="regressor", target_tags=TargetTags(required=True),
+                    regressor_tags=RegressorTags())
 
     # --- construction -------------------------------------------------------------
     @classmethod
@@ -78,6 +109,9 @@ class JSwFunction:
         cls.check_params(clean, where)
         obj = cls()
         obj.params_ = clean
+        obj.stderr_ = None
+        obj.rmse_ = None
+        obj.j_range_ = None
         if j_range is not None:
             lo, hi = float(j_range[0]), float(j_range[1])
             if not (0 <= lo < hi):
@@ -101,7 +135,7 @@ class JSwFunction:
         J <= 0 (at or below the free-water level) gives Sw = 1. NaN J gives NaN.
         Results are clipped to [0, 1].
         """
-        if self.params_ is None:
+        if not self.is_fitted():
             raise NotFittedError(f"{self.name} function has no parameters yet",
                                  hint="call fit(j, sw) or build it with from_params(...)")
         j = np.asarray(j, dtype=float)
@@ -148,13 +182,13 @@ class JSwFunction:
         def f(x, *p):
             return np.clip(self.equation(x, **dict(zip(self.param_names, p))), 0.0, 1.0)
 
-        popt, pcov = curve_fit(f, j, sw, p0=p0, bounds=(lo, hi), maxfev=20000)
+        popt, pcov = curve_fit(f, j, sw, p0=p0, bounds=(lo, hi), maxfev=int(self.max_evaluations))
         self.params_ = dict(zip(self.param_names, map(float, popt)))
         with np.errstate(invalid="ignore"):
             self.stderr_ = dict(zip(self.param_names, map(float, np.sqrt(np.diag(pcov)))))
         self.rmse_ = float(np.sqrt(np.mean((f(j, *popt) - sw) ** 2)))
         self.j_range_ = (float(j.min()), float(j.max()))
-        self._fit_data = (j, sw, f(j, *popt), np.asarray(pcov, dtype=float), ok)
+        self.fit_data_ = (j, sw, f(j, *popt), np.asarray(pcov, dtype=float), ok)
         return self
 
     # --- fit report (additive: statistics of the last fit) ----------------------------
@@ -182,11 +216,10 @@ class JSwFunction:
         correlation matrix come from the covariance that
         :func:`scipy.optimize.curve_fit` estimates (residual variance scaled).
         """
-        data = getattr(self, "_fit_data", None)
-        if data is None or self.params_ is None:
+        if "fit_data_" not in vars(self):
             raise NotFittedError(f"{self.name} function has not been fitted",
                                  hint="call fit(j, sw) before fit_report()")
-        j, sw, pred, pcov, ok = data
+        j, sw, pred, pcov, ok = self.fit_data_
         resid = pred - sw
         n, p = sw.size, len(self.param_names)
         rss = float(np.sum(resid ** 2))
@@ -214,9 +247,11 @@ class JSwFunction:
             r2=float(1.0 - rss / tss) if tss > 0 else float("nan"),
             aic=float(n * np.log(max(rss, 1e-300) / n) + 2 * p),
             j_range=tuple(self.j_range_), residuals_by_group=per_group,
-            variable=getattr(self, "variable", "j"))
+            variable=self.variable)
 
     def __repr__(self) -> str:
+        if not self.is_fitted():
+            return f"{type(self).__name__}(max_evaluations={self.max_evaluations})"
         return f"{type(self).__name__}(params_={self.params_}, j_range_={self.j_range_})"
 
 

@@ -19,7 +19,7 @@ import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
-from ..contacts import FwlSearch
+from ..fwlsearch import FwlSearch
 from ..io.atomic import atomic_save_figure
 from .track import safe_text
 from ..pressures import ZonePressures

@@ -17,7 +17,9 @@ from typing import Sequence
 import numpy as np
 
 from .. import units as U
-from ..contacts import FwlSearch, fit_fwl_with_parameters, search_fwl, zone_samples
+from ..fwljoint import fit_fwl_with_parameters
+from ..fwlmisfit import zone_samples
+from ..fwlsearch import FwlSearch, search_fwl
 from ..errors import SatHeightError
 from ..io.atomic import atomic_write_text
 from ..io.las import read_las
@@ -215,6 +217,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         points = resolve_tvdss(points, _datums(project, set(points.well)))
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
+    notes += points.notes
     analysis = analyse_pressures(points, qualities=qualities)
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
@@ -355,9 +358,9 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
     exclude : sequence of (well or None, top, base)
         TVDSS intervals [m] left out (the user mask); ``None`` for every well.
     fit_parameters : dict, optional
-        J-Sw parameter bounds for :func:`satheight.contacts.fit_fwl_with_parameters`.
+        J-Sw parameter bounds for :func:`satheight.fwljoint.fit_fwl_with_parameters`.
     **search_options
-        Passed to :func:`satheight.contacts.search_fwl` (window, step, misfit, delta,
+        Passed to :func:`satheight.fwlsearch.search_fwl` (window, step, misfit, delta,
         n_boot, seed...).
 
     Returns

@@ -29,7 +29,7 @@ from ..io.core_data import read_core_files
 from ..io.model_file import models_to_dict, save_models
 from ..models import get_family
 from ..plots.core import j_sw_plot, pc_plot
-from ..rocktypes import RockTypeRule, plug_rock_types
+from ..rocktypes import RockTypeRule, check_rock_type_names, plug_rock_types
 from ..units import parse_quantity
 from .output_folder import InputFiles, OutputSession
 
@@ -166,7 +166,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
     else:
         rock_types = plug_rock_types(plugs, rule)
         rule_out = rule
-    _check_reservoir_names(s.reservoir, set(rock_types.values()))
+    check_rock_type_names(s.reservoir, rock_types.values(), "--reservoir")
     points = core_points(ds, closure=s.closure, phi_factor=s.phi_factor, k_factor=s.k_factor,
                          rock_types=rock_types)
     lab_sct = np.array([ds.systems[x].sigma_cos_theta for x in points.system])
@@ -179,6 +179,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
     for rt, e in fits.items():
         for fam, msg in e["errors"].items():
             warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
+    warnings += _closure_note(points, ds)
     return FitRun(points=points, fits=fits, rule=rule_out, model_path=files[0], files=files,
                   warnings=warnings)
 
@@ -195,7 +196,8 @@ def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: di
         "stress_factors": {"porosity": s.phi_factor, "permeability": s.k_factor},
         "reservoir": {rt: {"sigma_cos_theta_mN_per_m": f.sigma_cos_theta * 1e3,
                            "delta_rho_kg_per_m3": f.delta_rho} for rt, f in s.reservoir.items()},
-        "selection": "selected = J family with the lowest AIC",
+        "selection": "selected = among J families within 2 of the lowest AIC, the fewest "
+                     "parameters, then the first in the registry; delta_aic per rock type",
     }
     files = [save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))]
     pts = out / "core_points.csv"
@@ -214,19 +216,19 @@ def _check_model_file_name(name: str) -> None:
                              hint="e.g. --model-file models.json; choose the folder with --out")
 
 
-def _check_reservoir_names(reservoir: dict, rock_types: set) -> None:
-    """Refuse ``--reservoir`` rock-type names that match no rock type of the plugs."""
-    known = set(rock_types) | ({"all"} if "" in rock_types else set())
-    unknown = sorted(n for n in reservoir if n != "*" and n not in known)
-    if unknown:
-        raise SatHeightError(f"--reservoir names rock type(s) {', '.join(map(repr, unknown))} "
-                             "that no plug has",
-                             hint="rock types: " + ", ".join(sorted(map(str, known))))
+def _closure_note(points: CorePoints, ds) -> list[str]:
+    """The closure chosen per mercury curve ('none' where nothing was corrected)."""
+    if not points.closure:
+        return []
+    first = {f"{c.plug_id}/{c.system}": c.pc[0] for c in ds.curves}
+    return ["closure per curve: " + ", ".join(
+        f"{k} {'none' if v <= first[k] else f'{v / C.PSI:.4g} psi'}"
+        for k, v in points.closure.items())]
 
 
 def fit_table(fits: dict) -> str:
     """Plain-text table of the fits: one line per rock type and family."""
-    lines = [f"{'rock type':<16} {'family':<15} {'n':>5} {'RMSE':>7} {'R2':>7} {'AIC':>9} "
+    lines = [f"{'rock type':<16} {'family':<15} {'n':>5} {'RMSE':>7} {'R2':>7} {'AIC':>9} {'dAIC':>6} "
              f"{'range':>19}  parameters (± standard error)"]
     for rt, e in fits.items():
         for fam, r in e["fits"].items():
@@ -235,9 +237,12 @@ def fit_table(fits: dict) -> str:
                                for p, v in r.params.items())
             unit = "m" if r.variable == "height" else "J"
             rng = f"{unit} {r.j_range[0]:.3g}-{r.j_range[1]:.3g}"
+            d = e.get("delta_aic", {}).get(fam)
             lines.append(f"{rt[:16]:<16} {fam + mark:<15} {r.n_points:>5} {r.rmse:>7.4f} "
-                         f"{r.r2:>7.4f} {r.aic:>9.1f} {rng:>19}  {params}")
-    lines.append("* selected (lowest AIC among J families); ranges: J covered by data "
+                         f"{r.r2:>7.4f} {r.aic:>9.1f} {'' if d is None else f'{d:.1f}':>6} "
+                         f"{rng:>19}  {params}")
+    lines.append("* selected: among J families within 2 of the lowest AIC (dAIC <= 2) the one "
+                 "with fewer parameters, then the first listed; ranges: J covered by data "
                  "(height [m] for height functions)")
     return "\n".join(lines)
 
