@@ -19,6 +19,7 @@ import pytest
 from satheight.errors import (DepthError, InputFileError, MissingCurveError, ProjectFileError,
                               UnitError)
 from satheight.io import las as las_mod
+from satheight.io import las_write
 from satheight.io.atomic import atomic_open, atomic_write_bytes, atomic_write_text
 from satheight.io.las import describe_las, read_las, write_las
 from satheight.roles import ROLE_ALIASES, detect_roles, require_role, role_values
@@ -521,7 +522,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
     out = tmp_path / "result.las"
     out.write_text("old content\n")
     temps_at_failure = []
-    real = las_mod._format_column
+    real = las_write._format_column
     calls = {"n": 0}
 
     def failing(values, decimals, null_text):
@@ -532,7 +533,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
             raise RuntimeError("simulated failure")
         return real(values, decimals, null_text)
 
-    monkeypatch.setattr(las_mod, "_format_column", failing)
+    monkeypatch.setattr(las_write, "_format_column", failing)
     with pytest.raises(RuntimeError):
         write_las(out, well)
     assert len(temps_at_failure) == 1         # failed mid-way, with the temporary file open
