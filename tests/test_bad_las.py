@@ -3,11 +3,15 @@ each loads with the documented behaviour and note, or raises the tool's own erro
 file (and the line where one line is at fault). Behavioural checks only: no values of our own.
 """
 
+import os
+import threading
+import time
+
 import numpy as np
 import pytest
 
 from satheight.errors import DepthError, InputFileError
-from satheight.io.las import read_las, write_las
+from satheight.io.las import describe_las, read_las, write_las
 
 BASE = """~Version
 VERS. 2.0 :
@@ -48,7 +52,18 @@ CASES = {
                 (OK, None, lambda w: w.n_samples == 2 and w.curves["PERM"].data[1] == 11)),
     "wrapped_missing_value": (BASE.replace("WRAP. NO", "WRAP. YES").split("~A")[0] + "~A\n1000.0\n0.2 10\n1000.1\n0.2\n",
                               (ERR, InputFileError, "whole rows")),
-    "too_few_columns": (BASE.split("~A")[0] + "~A\n1000.0 0.2\n1000.1 0.3\n", (ERR, InputFileError, "fewer columns")),
+    "too_few_columns": (BASE.split("~A")[0] + "~A\n1000.0 0.2\n1000.1 0.3\n", (ERR, InputFileError, "line 15: every data line has 2 values")),
+    # one value too many, then one too few: lasio would re-flow the values into whole rows
+    "long_row_then_short_row": (BASE.replace("1000.1 0.2 11", "1000.1 0.2 11 5").replace("1000.2 0.21 12", "1000.2 0.21"),
+                                (ERR, InputFileError, "line 16")),
+    # a ~Curve line missing: every column after it would shift by one
+    "curve_line_missing": (BASE.replace("PHIE.V/V : porosity\n", ""), (ERR, InputFileError, "columns would shift")),
+    "decimal_comma": (BASE.replace("1000.2 0.21 12", "1000.2 0.21 1,500"), (ERR, InputFileError, "line 17: a number is written with a comma ('1,500')")),
+    "wrapped_line_crosses_rows": (BASE.replace("WRAP. NO", "WRAP. YES").split("~A")[0] + "~A\n1000.0\n0.2 10 1000.1\n0.2 11\n",
+                                  (ERR, InputFileError, "line 16")),
+    "wrapped_row_without_depth_alone": (BASE.replace("WRAP. NO", "WRAP. YES").split("~A")[0] + "~A\n1000.0 0.2\n10\n",
+                                        (ERR, InputFileError, "line 15")),
+    "depth_beyond_plausible": (BASE.replace("1000.3 0.22", "1e308 0.22"), (ERR, DepthError, "data row 4")),
     "crlf": (BASE.replace("\n", "\r\n"), (OK, None, lambda w: w.n_samples == 4)),
     "cr_only": (BASE.replace("\n", "\r"), (OK, None, lambda w: w.n_samples == 4)),
     "no_version_section": (BASE.replace("~Version\nVERS. 2.0 :\nWRAP. NO :\n", ""), (OK, None, lambda w: w.n_samples == 4)),
@@ -120,3 +135,66 @@ def test_curve_named_dlm_is_refused_naming_the_line(tmp_path):
     with pytest.raises(InputFileError) as e:
         read_las(p)
     assert "dlm.las, line 12" in str(e.value) and "DLM" in str(e.value)
+
+
+def test_long_header_line_is_refused_naming_the_line(tmp_path):
+    """A 5 MB header line: lasio's header parser would take minutes; refused at once."""
+    p = tmp_path / "long.las"
+    p.write_text(BASE.replace("WELL. W-1", "WELL. W-" + "x" * 5_000_000))
+    with pytest.raises(InputFileError) as e:
+        read_las(p)
+    assert "long.las, line 9" in str(e.value) and "characters long" in str(e.value)
+
+
+def test_pathological_data_row_fails_before_lasio_reads_the_data(tmp_path, monkeypatch):
+    """Thousands of values on one line: the row check refuses it before lasio's data reader
+    (which would re-flow them, slowly) is ever called."""
+    from satheight.io import las_header
+
+    def never(*args, **kwargs):
+        raise AssertionError("lasio's data reader was called")
+
+    monkeypatch.setattr(las_header, "parse_with_lasio", never)
+    from satheight.io import las as las_mod
+    monkeypatch.setattr(las_mod, "parse_with_lasio", never)
+    p = tmp_path / "wide.las"
+    p.write_text(BASE.replace("1000.1 0.2 11", "1000.1 0.2 11" + " 1" * 20000))
+    with pytest.raises(InputFileError) as e:
+        read_las(p)
+    assert "wide.las, line 16" in str(e.value) and "20003 values" in str(e.value)
+
+
+@pytest.mark.skipif(not os.path.exists("/dev/zero"), reason="no /dev/zero")
+def test_device_given_as_las_path_is_refused_before_reading():
+    with pytest.raises(InputFileError) as e:
+        read_las("/dev/zero")
+    assert "/dev/zero" in str(e.value) and "device" in str(e.value)
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="no named pipes here")
+def test_fifo_given_as_las_path_is_refused_without_blocking(tmp_path):
+    """read_las and describe_las (inspect) refuse a named pipe; opening it would block."""
+    fifo = tmp_path / "pipe.las"
+    os.mkfifo(fifo)
+    # if a regression opened the pipe, this writer unblocks it (and the checks below fail)
+    def unblock():
+        time.sleep(3)
+        try:
+            fd = os.open(fifo, os.O_WRONLY | os.O_NONBLOCK)
+            os.close(fd)
+        except OSError:
+            pass
+    threading.Thread(target=unblock, daemon=True).start()
+    for reader in (read_las, describe_las):
+        with pytest.raises(InputFileError) as e:
+            reader(fifo)
+        assert "pipe.las" in str(e.value) and "named pipe" in str(e.value)
+
+
+def test_symlink_loop_is_a_clean_error(tmp_path):
+    a, b = tmp_path / "a.las", tmp_path / "b.las"
+    a.symlink_to(b)
+    b.symlink_to(a)
+    with pytest.raises(InputFileError) as e:
+        read_las(a)
+    assert "a.las" in str(e.value) and "link loop" in str(e.value)

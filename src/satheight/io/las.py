@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import io
 import math
+import re
 from pathlib import Path
 from typing import Iterable
 
@@ -39,6 +40,7 @@ from ..errors import DepthError, InputFileError, SatHeightError
 from ..roles import ROLE_ALIASES, detect_roles
 from ..well import Curve, HeaderItem, Well
 from . import las_fast
+from .las_checks import check_data_rows, check_header_lines
 from .las_header import (HINT_LAS, RawLas, check_structure, decode, lasio_messages, num, plain,
                          raw_from_lasio, read_bytes, parse_with_lasio, text_warning)
 from .las_write import MAX_DECIMALS, decimals_for, depth_step, write_las
@@ -194,6 +196,24 @@ def _check_depths(index: np.ndarray, mnemonic: str, path: Path) -> bool:
     raise DepthError(what, where=str(path), hint=hint)
 
 
+#: Largest measured depth accepted [m]: no drilled well is half as long (common practice).
+MAX_MD = 30_000.0
+
+
+def _check_plausible_md(md: np.ndarray, index: np.ndarray, mnemonic: str, depth_unit: str,
+                        path: Path) -> None:
+    """Refuse a depth that is not finite in metres or deeper than :data:`MAX_MD`."""
+    with np.errstate(invalid="ignore"):
+        bad = np.flatnonzero(~np.isfinite(md) | (np.abs(md) > MAX_MD))
+    if bad.size:
+        row = int(bad[0]) + 1
+        raise DepthError(f"depth {float(index[bad[0]]):.6g} {depth_unit} of {mnemonic!r} at data row "
+                         f"{row} is not a plausible measured depth (beyond {MAX_MD:,.0f} m"
+                         f"{' or not finite in metres' if not np.isfinite(md[bad[0]]) else ''})",
+                         where=str(path), hint="check the depth column and its unit in ~Curve "
+                                               "(M or FT); a depth this large is a damaged value")
+
+
 def _build_well(path: Path, raw: RawLas) -> Well:
     """Apply the tool's rules (units, nulls, depth order) to parsed LAS content."""
     if not raw.curve_defs or not raw.columns:
@@ -224,6 +244,7 @@ def _build_well(path: Path, raw: RawLas) -> Well:
                         f"depth increases ({num(columns[0][0])} to {num(columns[0][-1])} "
                         f"{depth_unit})")
     md = np.asarray(units.to_si(columns[0], depth_unit, "length"), dtype=np.float64)
+    _check_plausible_md(md, columns[0], index_mnemonic, depth_unit, path)
 
     curves = {name: Curve(name, unit, descr, col, value)
               for (name, unit, descr, value), col in zip(raw.curve_defs, columns)}
@@ -280,15 +301,38 @@ def read_las(path, engine: str = "auto") -> Well:
         raise SatHeightError(f"unknown LAS reading engine {engine!r}", where="read_las",
                              hint="use engine='auto' or engine='lasio'")
     data = read_bytes(path)
+    found = las_fast.split_data_section(data)
+    check_header_lines(path, data, found[1] if found else len(data))
     parsed = _parse_fast(path, data) if engine == "auto" else None
     if parsed is None:
         text = decode(data)
         del data
         check_structure(path, text)
+        n_curves, wrapped = _curves_and_wrap(text)
+        check_data_rows(path, text, n_curves, wrapped)
         parsed = parse_with_lasio(path, text)
     else:
         del data
     return _build_well(path, parsed)
+
+
+def _curves_and_wrap(text: str) -> tuple[int, bool]:
+    """Number of ~Curve lines and whether WRAP is YES, from the header sections only.
+
+    ``(0, False)`` when the header cannot be parsed (the full parse then says why).
+    """
+    import lasio
+
+    m = re.search(r"^[ \t]*~A", text, re.M)
+    header = text[:m.start()] if m else text
+    with lasio_messages():
+        try:
+            las = lasio.read(io.StringIO(header), mnemonic_case="preserve", engine="normal",
+                             ignore_data=True)
+        except Exception:  # noqa: BLE001 - the full parse reports the problem
+            return 0, False
+    wrap = next((plain(it.value) for it in las.version if it.mnemonic.upper() == "WRAP"), "NO")
+    return len(las.curves), str(wrap).strip().upper() in ("YES", "Y", "TRUE")
 
 
 # Header items that make the fast path step aside (lasio handles them).

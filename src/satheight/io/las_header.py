@@ -21,6 +21,7 @@ import numpy as np
 
 from ..errors import InputFileError
 from ..well import HeaderItem
+from .las_checks import check_regular_file
 
 HINT_LAS = ("check that it is a LAS 1.2 or 2.0 text file; open it in a text editor and "
             "look at the line named")
@@ -93,13 +94,7 @@ def decode(raw: bytes) -> str:
 
 def read_bytes(path: Path) -> bytes:
     """The file's bytes, or an InputFileError saying why they cannot be read as LAS text."""
-    if not path.exists():
-        raise InputFileError("file not found", where=str(path),
-                             hint="check the file name and folder (a relative path is taken from "
-                                  "the folder of the project file)")
-    if path.is_dir():
-        raise InputFileError("is a folder, not a LAS file", where=str(path),
-                             hint="give the path of the .las file itself")
+    check_regular_file(path)
     try:
         raw = path.read_bytes()
     except OSError as exc:
