@@ -16,6 +16,7 @@ import lasio
 import numpy as np
 import pytest
 
+from satheight.datum import datum_from_header
 from satheight.errors import (DepthError, InputFileError, MissingCurveError, ProjectFileError,
                               UnitError)
 from satheight.io import las as las_mod
@@ -642,3 +643,78 @@ GR  .GAPI 07 310 01 00 : gamma ray
     write_las(tmp_path / "out.las", w)
     back = lasio.read(tmp_path / "out.las")
     assert back.curves["GR"].value == "07 310 01 00"
+
+
+# ---------------------------------------------------------------------------
+# datum elevation from the header (~Well and ~Parameter)
+# ---------------------------------------------------------------------------
+
+def _datum_well(tmp_path, extra_well=(), params=(), name="d.las"):
+    p = tmp_path / name
+    p.write_text(las_text([("DEPT", "M", "depth"), ("PHIE", "V/V", "por")],
+                          [[1000.0, 0.2], [1000.5, 0.21]], extra_well=extra_well, params=params))
+    return read_las(p)
+
+
+def test_datum_found_in_parameter_section(tmp_path):
+    well = _datum_well(tmp_path, params=[("EKB", "M", "31.2", "kelly bushing")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(31.2, abs=1e-12)            # as written, metres
+    assert "EKB" in source and "~Parameter" in source and notes == []
+
+
+def test_datum_in_feet_converted_to_metres(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "FT", "100", "kb")])
+    assert datum_from_header(well)[0] == pytest.approx(100 * FOOT_M, rel=1e-12)   # NIST SP 811
+
+
+def test_datum_same_item_in_both_sections_disagreeing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb")],
+                       params=[("EKB", "M", "30.0", "kb")])
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "disagree" in str(e.value) and "28.5" in str(e.value) and "30" in str(e.value)
+
+
+def test_datum_kb_and_ekb_disagreeing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb")],
+                       params=[("KB", "M", "25.0", "kb")])
+    with pytest.raises(InputFileError, match="disagree"):
+        datum_from_header(well)
+
+
+def test_datum_depth_reference_disagreeing_with_kelly_bushing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb"), ("EREF", "M", "20", "ref")])
+    with pytest.raises(InputFileError, match="EREF"):
+        datum_from_header(well)
+
+
+def test_datum_ground_level_fallback_is_a_visible_note(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EGL", "M", "12.0", "ground")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(12.0, abs=1e-12) and "ground level" in source
+    assert any("ground level" in n for n in notes)
+
+
+def test_datum_lmf_names_the_point_used(tmp_path):
+    """LMF = DF: the log depths are measured from the drill floor, so EDF is used, and the
+    kelly bushing item is listed as present but not used."""
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb"), ("EDF", "M", "28.1", "df")],
+                       params=[("LMF", "", "DF", "log measured from")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(28.1, abs=1e-12) and "EDF" in source and "LMF" in source
+    assert any("EKB" in n and "not used" in n for n in notes)
+
+
+def test_datum_missing_is_refused_with_hint(tmp_path):
+    well = _datum_well(tmp_path)
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "datum_elevation" in str(e.value) and "~Parameter" in str(e.value)
+
+
+def test_datum_implausible_elevation_is_refused(tmp_path):
+    # 28.5 m written in centimetres: beyond any drilled ground elevation (recalled from memory)
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28500", "kb")])
+    with pytest.raises(InputFileError, match="plausible"):
+        datum_from_header(well)
