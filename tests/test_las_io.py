@@ -718,3 +718,66 @@ def test_datum_implausible_elevation_is_refused(tmp_path):
     well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28500", "kb")])
     with pytest.raises(InputFileError, match="plausible"):
         datum_from_header(well)
+
+
+# ---------------------------------------------------------------------------
+# permeability curves by pattern (K*, PERM*) with a permeability unit as evidence
+# ---------------------------------------------------------------------------
+
+def _perm_well(tmp_path, curves, name="k.las"):
+    p = tmp_path / name
+    rows = [[1000.0] + [0.2] * len(curves), [1000.5] + [0.3] * len(curves)]
+    p.write_text(las_text([("DEPT", "M", "depth")] + curves, rows))
+    return p
+
+
+@pytest.mark.parametrize("mnemonic,unit", [("KLOGH", "mD"), ("PERM_H", "md"), ("KHOR", "D"),
+                                           ("KINT_CORE", "darcy")])
+def test_suffixed_permeability_curve_found_with_reason(tmp_path, mnemonic, unit):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), (mnemonic, unit, "k")])
+    assert detect_roles(read_las(p))["permeability"] == mnemonic
+    info = describe_las(p)["roles"]["permeability"]
+    assert info["mnemonic"] == mnemonic and "K*/PERM*" in info["reason"] and unit in info["reason"]
+
+
+def test_potassium_curve_is_not_taken_for_permeability(tmp_path):
+    """K in % is potassium from spectral gamma ray (common practice), KTH a gamma-ray curve:
+    neither carries a permeability unit, so neither is permeability."""
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("K", "%", "potassium"), ("KTH", "gAPI", "gr")])
+    assert detect_roles(read_las(p))["permeability"] is None
+    reason = describe_las(p)["roles"]["permeability"]["reason"]
+    assert "none named K*/PERM*" in reason and "K skipped: unit '%'" in reason
+
+
+def test_two_permeability_pattern_candidates_are_refused_not_guessed(tmp_path):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("KLOGH", "mD", "kh"), ("KLOGV", "mD", "kv")])
+    with pytest.raises(MissingCurveError) as e:
+        detect_roles(read_las(p))
+    msg = str(e.value)
+    assert "KLOGH" in msg and "KLOGV" in msg and "curves = { permeability" in msg
+    info = describe_las(p)["roles"]["permeability"]       # inspect shows the choice, no error
+    assert info["mnemonic"] is None and info["candidates"] == ["KLOGH", "KLOGV"]
+    # naming one in the project file settles it
+    assert detect_roles(read_las(p), {"permeability": "KLOGV"})["permeability"] == "KLOGV"
+
+
+def test_alias_choice_names_the_other_curves_present(tmp_path):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("PERM", "mD", "k"), ("KH", "mD", "kh")])
+    info = describe_las(p)["roles"]["permeability"]
+    assert info["mnemonic"] == "PERM" and "KH" in info["reason"]
+
+
+def test_permeability_without_unit_read_as_md_with_a_note(tmp_path):
+    p = _perm_well(tmp_path, [("PERM", "", "k")])
+    values, notes = role_values(read_las(p), "permeability", "PERM")
+    # 1 mD = 9.869233e-16 m^2 (NIST SP 811 darcy / 1000)
+    assert values[0] == pytest.approx(0.2 * DARCY_M2 / 1000, rel=1e-9)
+    assert any("no unit; read as mD" in n for n in notes)
+
+
+def test_describe_las_reports_the_datum_item_used(tmp_path):
+    p = tmp_path / "d.las"
+    p.write_text(las_text([("DEPT", "M", "depth"), ("PHIE", "V/V", "por")], [[1000.0, 0.2], [1001, 0.2]],
+                          params=[("EKB", "M", "28.5", "kb")]))
+    datum = describe_las(p)["datum"]
+    assert datum["elevation_m"] == pytest.approx(28.5, abs=1e-12) and "~Parameter" in datum["source"]

@@ -37,7 +37,8 @@ import numpy as np
 
 from .. import units
 from ..errors import DepthError, InputFileError, SatHeightError
-from ..roles import ROLE_ALIASES, detect_roles
+from ..datum import datum_from_header
+from ..roles import ROLE_ALIASES, explain_roles
 from ..well import Curve, HeaderItem, Well
 from . import las_fast
 from .las_checks import check_data_rows, check_header_lines
@@ -416,11 +417,16 @@ def describe_las(path) -> dict:
              "null_value",
              "curves": [{"mnemonic", "unit", "description", "n_null", "min", "max"}, ...],
              "header": {MNEM: {"section", "unit", "value", "description"}, ...},
-             "roles": {role: {"mnemonic": str|None, "aliases_tried": [aliases]}},
+             "roles": {role: {"mnemonic": str|None, "reason": str,
+                              "candidates": [mnemonics when ambiguous], "aliases_tried": [aliases]}},
+             "datum": {"elevation_m", "source", "notes", "error"},
              "warnings": [...]}
 
         ``start``/``stop``/``step`` are in the file's depth unit (step 0 when the
-        sampling is irregular); min/max are None for an all-null curve.
+        sampling is irregular); min/max are None for an all-null curve. ``roles``
+        says per role which curve was taken and why (an ambiguous permeability
+        lists its candidates instead); ``datum`` the elevation of the log depth
+        reference from the header and the item used (or why there is none).
 
     Raises
     ------
@@ -445,9 +451,14 @@ def describe_las(path) -> dict:
                 header[it.mnemonic.upper()] = {"section": section, "unit": it.unit,
                                                "value": plain(it.value),
                                                "description": it.description}
-    found = detect_roles(well)
-    roles = {role: {"mnemonic": found[role], "aliases_tried": list(ROLE_ALIASES[role])}
-             for role in ROLE_ALIASES}
+    roles = {role: {"mnemonic": key, "reason": reason, "candidates": cands,
+                    "aliases_tried": list(ROLE_ALIASES[role])}
+             for role, (key, reason, cands) in explain_roles(well).items()}
+    try:
+        elevation, source, notes = datum_from_header(well)
+        datum = {"elevation_m": elevation, "source": source, "notes": notes, "error": None}
+    except InputFileError as exc:
+        datum = {"elevation_m": None, "source": None, "notes": [], "error": exc.what}
     return {
         "path": str(well.source),
         "well": well.name,
@@ -462,5 +473,6 @@ def describe_las(path) -> dict:
         "curves": curves,
         "header": header,
         "roles": roles,
+        "datum": datum,
         "warnings": list(well.warnings),
     }
