@@ -59,6 +59,8 @@ CASES = {
     # a ~Curve line missing: every column after it would shift by one
     "curve_line_missing": (BASE.replace("PHIE.V/V : porosity\n", ""), (ERR, InputFileError, "columns would shift")),
     "decimal_comma": (BASE.replace("1000.2 0.21 12", "1000.2 0.21 1,500"), (ERR, InputFileError, "line 17: a number is written with a comma ('1,500')")),
+    # lasio splits 12-5 into two values, which would then re-flow into the next row
+    "run_on_numbers": (BASE.replace("1000.2 0.21 12", "1000.2 0.21 12-5"), (ERR, InputFileError, "line 17: two numbers run together")),
     "wrapped_line_crosses_rows": (BASE.replace("WRAP. NO", "WRAP. YES").split("~A")[0] + "~A\n1000.0\n0.2 10 1000.1\n0.2 11\n",
                                   (ERR, InputFileError, "line 16")),
     "wrapped_row_without_depth_alone": (BASE.replace("WRAP. NO", "WRAP. YES").split("~A")[0] + "~A\n1000.0 0.2\n10\n",

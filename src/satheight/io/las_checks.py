@@ -13,7 +13,8 @@ wrongly without a word, or read for minutes:
   one, or shift every column when the ``~Curve`` section lacks a line); a wrapped
   section (``WRAP YES``) holds the depth alone on the first line of each row and
   no line crosses into the next row; no number is written with a decimal comma
-  (``1,500``), which lasio reads as ``1.5``.
+  (``1,500``), which lasio reads as ``1.5``, and no two numbers run together
+  (``12-5``, ``1.2.3``), which lasio splits into two values.
 
 The counts are vectorised over the bytes of the data section (numpy); only lines
 holding quoted text are looked at one by one.
@@ -40,6 +41,8 @@ MAX_HEADER_LINE = 1 << 16
 
 # a digit, a comma, a digit: a decimal comma (1,500) or comma-separated values
 _DECIMAL_COMMA = re.compile(r"\d,\d")
+# numbers run together (12-5, 1.2.3, NaN-1): lasio splits them into two values
+_RUN_ON = re.compile(r"\d-\d|\d\.\d*\.|\.\d+\.|NaN[.-]\d", re.I)
 # a token of a data line as lasio splits it: quoted text stays one token
 _TOKEN = re.compile(r'"[^"\n]*"|\S+')
 
@@ -124,6 +127,12 @@ def _tokens_per_line(data: str) -> np.ndarray:
     return counts
 
 
+def _token_at(data: str, pos: int) -> str:
+    """The blank-separated token of ``data`` holding character ``pos``."""
+    return (re.search(r"\S*$", data[:pos + 1]).group(0)
+            + re.match(r"\S*", data[pos + 1:]).group(0))
+
+
 def _data_span(text: str) -> tuple[int, int] | None:
     """Character offsets (first data character, end) of the ``~A`` section's data."""
     m = re.search(r"^[ \t]*~A[^\n]*(\n|$)", text, re.M)
@@ -161,13 +170,18 @@ def check_data_rows(path: Path, text: str, n_curves: int, wrapped: bool) -> None
     comma = _DECIMAL_COMMA.search(data)
     if comma:
         line = first_line + data.count("\n", 0, comma.start())
-        token = re.search(r"\S*$", data[:comma.start() + 1]).group(0) + \
-            re.match(r"\S*", data[comma.start() + 1:]).group(0)
+        token = _token_at(data, comma.start())
         raise InputFileError(f"a number is written with a comma ({token[:40]!r}): a decimal "
                              "comma or comma-separated values, which LAS 2.0 data do not allow",
                              where=f"{path}, line {line}",
                              hint="write numbers with a decimal point (1.5, 1500) and separate "
                                   "values with blanks")
+    run_on = _RUN_ON.search(data)
+    if run_on:
+        line = first_line + data.count("\n", 0, run_on.start())
+        raise InputFileError(f"two numbers run together ({_token_at(data, run_on.start())[:40]!r}),"
+                             " which would be split into two values", where=f"{path}, line {line}",
+                             hint="put a blank between the values, or correct the number")
     if n_curves <= 0:
         return
     counts = _tokens_per_line(data)
