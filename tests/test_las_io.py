@@ -781,3 +781,30 @@ def test_describe_las_reports_the_datum_item_used(tmp_path):
                           params=[("EKB", "M", "28.5", "kb")]))
     datum = describe_las(p)["datum"]
     assert datum["elevation_m"] == pytest.approx(28.5, abs=1e-12) and "~Parameter" in datum["source"]
+
+
+# ---------------------------------------------------------------------------
+# depth units of older files and other languages
+# ---------------------------------------------------------------------------
+
+def test_tenth_inch_depth_unit_read_in_metres(tmp_path):
+    """.1IN: tenths of an inch; 1 in = 0.0254 m exactly (NIST SP 811), so 393700.8 tenths of an
+    inch = 999.998 + 0.8 x 0.00254 = 1000.000032 m, and 393706.8 gives 999.998 + 6.8 x 0.00254
+    = 1000.015272 m (worked by hand)."""
+    well = make_well(tmp_path, [("DEPT", ".1IN", ""), ("PHIE", "V/V", "")],
+                     [[393700.8, 0.2], [393706.8, 0.21]])
+    assert well.depth_unit == ".1in"
+    np.testing.assert_allclose(well.md, [1000.000032, 1000.015272], rtol=0, atol=1e-9)
+
+
+@pytest.mark.parametrize("unit,factor", [("METROS", 1.0), ("PIEDS", FOOT_M)])
+def test_depth_unit_in_another_language_read_with_a_note(tmp_path, unit, factor):
+    well = make_well(tmp_path, [("DEPT", unit, ""), ("PHIE", "V/V", "")], [[100.0, 0.2], [101.0, 0.21]])
+    np.testing.assert_allclose(well.md, [100.0 * factor, 101.0 * factor], rtol=1e-12)
+    assert any(unit in w and "read as" in w for w in well.warnings)
+
+
+def test_depth_unit_from_strt_is_a_visible_note(tmp_path):
+    well = read_las(write(tmp_path, las_text([("DEPT", "", ""), ("PHIE", "V/V", "")],
+                                             [[100.0, 0.2], [101.0, 0.21]], strt_unit="FT"), "s.las"))
+    assert well.depth_unit == "ft" and any("unit of STRT" in w for w in well.warnings)

@@ -23,7 +23,8 @@ from .errors import UnitError
 # Each kind maps normalised unit names to (factor, offset): SI = value * factor + offset.
 _LENGTH = {"m": 1.0, "meter": 1.0, "meters": 1.0, "metre": 1.0, "metres": 1.0,
            "ft": C.FOOT, "feet": C.FOOT, "foot": C.FOOT, "f": C.FOOT,
-           "cm": 0.01, "mm": 0.001, "km": 1000.0, "in": 0.0254}
+           "cm": 0.01, "mm": 0.001, "km": 1000.0, "in": 0.0254,
+           ".1in": 0.00254}                # tenths of an inch: depth unit of older LAS files
 _PRESSURE = {"pa": 1.0, "kpa": 1e3, "mpa": 1e6, "bar": 1e5, "psi": C.PSI, "psia": C.PSI,
              "atm": 101325.0}
 _DENSITY = {"kg/m3": 1.0, "kg/m^3": 1.0, "g/cm3": C.G_PER_CM3, "g/cc": C.G_PER_CM3,

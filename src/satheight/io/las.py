@@ -56,6 +56,14 @@ HUGE_NULL = 1e30
 
 _METRE_UNITS = frozenset({"m", "meter", "meters", "metre", "metres"})
 _FOOT_UNITS = frozenset({"f", "ft", "feet", "foot"})
+# Depth units of older files: tenths of an inch (1 in = 0.0254 m, NIST SP 811), and the
+# metre and foot in other languages where the word means nothing else (read with a note).
+# ("DEPT .1IN": the unit starts after the first dot, so lasio gives "1IN")
+_TENTH_INCH_UNITS = frozenset({".1in", "0.1in", ".1 in", "0.1 in", "1in"})
+_OTHER_LANGUAGE = {**dict.fromkeys(("metro", "metros", "mètre", "mètres", "metri", "metr",
+                                    "meetri"), "m"),
+                   **dict.fromkeys(("pie", "pies", "pied", "pieds", "fuss", "fuß", "voet",
+                                    "piedi", "pé", "pés"), "ft")}
 
 # Header items shown by describe_las when present (~Well and ~Parameter).
 _INTERESTING_ITEMS = ("WELL", "COMP", "FLD", "LOC", "CTRY", "STAT", "PROV", "CNTY", "SRVC",
@@ -84,21 +92,34 @@ def _to_float(column: np.ndarray, mnemonic: str, path: Path, warnings: list[str]
     return values
 
 
-def _index_unit(path: Path, mnemonic: str, curve_unit: str, strt_unit: str) -> str:
-    """``"m"`` or ``"ft"`` from the index curve unit, else the STRT unit."""
+def _index_unit(path: Path, mnemonic: str, curve_unit: str, strt_unit: str,
+                warnings: list[str]) -> str:
+    """``"m"``, ``"ft"`` or ``".1in"`` from the index curve unit, else the STRT unit
+    (with a note); a metre or foot written in another language is read with a note."""
     given = curve_unit.strip() or strt_unit.strip()
     u = units.normalise_unit(given)
+    if u and not curve_unit.strip():
+        warnings.append(f"{path}: the depth index {mnemonic!r} has no unit in ~Curve; the unit "
+                        f"of STRT ({given!r}) is used")
+    if u in _OTHER_LANGUAGE:
+        warnings.append(f"{path}: depth unit {given!r} read as "
+                        f"{'metres' if _OTHER_LANGUAGE[u] == 'm' else 'feet'}")
+        u = _OTHER_LANGUAGE[u]
     if u in _METRE_UNITS:
         return "m"
     if u in _FOOT_UNITS:
         return "ft"
+    if u in _TENTH_INCH_UNITS:
+        return ".1in"
     if not u:
         raise InputFileError(f"the depth index {mnemonic!r} has no unit (neither the ~Curve line "
                              "nor STRT in ~Well gives one)", where=str(path),
                              hint=f"write the unit after the dot, e.g. '{mnemonic}.M' or "
                                   f"'{mnemonic}.FT' in the ~Curve section")
     raise InputFileError(f"unknown depth unit {given!r} of index curve {mnemonic!r}",
-                         where=str(path), hint="the depth index must be in M (metres) or FT (feet)")
+                         where=str(path),
+                         hint="the depth index must be in M (metres), FT (feet) or .1IN (tenths "
+                              "of an inch)")
 
 
 def _header_lookup(items: Iterable[HeaderItem], mnemonic: str) -> HeaderItem | None:
@@ -232,7 +253,8 @@ def _build_well(path: Path, raw: RawLas) -> Well:
     columns = [_to_float(c, m, path, warnings, raw.owned) for c, m in zip(raw.columns, names)]
     index_mnemonic, index_curve_unit = raw.curve_defs[0][0], raw.curve_defs[0][1]
     strt = _header_lookup(raw.well_items, "STRT")
-    depth_unit = _index_unit(path, index_mnemonic, index_curve_unit, strt.unit if strt else "")
+    depth_unit = _index_unit(path, index_mnemonic, index_curve_unit, strt.unit if strt else "",
+                             warnings)
 
     header_null = _null_of(_header_lookup(raw.well_items, "NULL"))
     rest = columns[1:]
