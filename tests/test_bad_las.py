@@ -79,7 +79,9 @@ CASES = {
     "depth_out_of_order": (BASE.replace("1000.2 0.21", "999.0 0.21"), (ERR, DepthError, "data row 3")),
     "missing_depth": (BASE.replace("1000.2 0.21", "-999.25 0.21"), (ERR, DepthError, "data row 3")),
     "las_1_2": (BASE.replace("VERS. 2.0", "VERS. 1.2"), (OK, None, lambda w: w.n_samples == 4)),
-    "las_3_0": (BASE.replace("VERS. 2.0", "VERS. 3.0"), (ERR, InputFileError, "line 2")),
+    # LAS 3.0 with ~Curve/~A titles (they stand for the log set) and blank-delimited data
+    "las_3_0": (BASE.replace("VERS. 2.0", "VERS. 3.0"), (OK, "LAS 3.0: read the data set LOG", lambda w: w.curves["PERM"].data[3] == 13)),
+    "las_3_0_wrapped": (BASE.replace("VERS. 2.0", "VERS. 3.0").replace("WRAP. NO", "WRAP. YES"), (ERR, InputFileError, "WRAP YES")),
     "binary": (BASE.replace("0.21", "\x00"), (ERR, InputFileError, "binary")),
     "not_las": ("hello\n", (ERR, InputFileError, "cannot read as LAS")),
     "empty_file": ("", (ERR, InputFileError, "cannot read as LAS")),
@@ -200,3 +202,96 @@ def test_symlink_loop_is_a_clean_error(tmp_path):
     with pytest.raises(InputFileError) as e:
         read_las(a)
     assert "a.las" in str(e.value) and "link loop" in str(e.value)
+
+
+# ---------------------------------------------------------------------------
+# LAS 3.0: the depth-indexed data set, comma, blank or tab delimited
+# ---------------------------------------------------------------------------
+
+LAS3 = """~Version
+VERS.   3.0 : CWLS LOG ASCII STANDARD - VERSION 3.0
+WRAP.   NO  : one line per depth step
+DLM .   COMMA : delimiting character
+~Well
+STRT.M  1500.0 : first depth
+STOP.M  1501.0 : last depth
+STEP.M  0.5 : step
+NULL.   -999.25 : null value
+WELL.   TEST 3-0 : well
+~Parameter
+EKB .M  25.0 : kelly bushing {F}
+~Log_Definition
+DEPT .M    : depth {F}
+PHIE .V/V  : effective porosity {F}
+KLOGH.mD   : horizontal permeability {F}
+LITH .     : lithology {S}
+~Log_Data | Log_Definition
+1500.0, 0.20, 10.5, "sand stone"
+1500.5, -999.25, 11.0, shale
+1501.0, 0.22, 12.0, sand
+~Core_Definition
+CORET.M : core top {F}
+CPOR .% : core porosity {F}
+~Core_Data | Core_Definition
+1500.2, 21.0
+"""
+
+
+@pytest.mark.parametrize("dlm,sep", [("COMMA", ", "), ("SPACE", " "), ("TAB", "\t")])
+def test_las3_log_data_read_with_roles_nulls_and_a_note(tmp_path, dlm, sep):
+    """Values as written in the file above; -999.25 is the file's NULL."""
+    from satheight.io.las import describe_las
+    from satheight.roles import detect_roles
+
+    text = LAS3.replace("COMMA", dlm).replace(", ", sep).replace('"sand stone"', '"sandstone"'
+                                                                  if dlm != "COMMA" else '"sand stone"')
+    p = tmp_path / "v3.las"
+    p.write_text(text)
+    well = read_las(p)
+    assert well.version == "3.0" and well.name == "TEST 3-0"
+    np.testing.assert_array_equal(well.md, [1500.0, 1500.5, 1501.0])
+    np.testing.assert_array_equal(well.curves["PHIE"].data, [0.20, np.nan, 0.22])
+    np.testing.assert_array_equal(well.curves["KLOGH"].data, [10.5, 11.0, 12.0])
+    assert detect_roles(well)["permeability"] == "KLOGH"          # same role detection as 2.0
+    note = next(w for w in well.warnings if "LAS 3.0" in w)
+    assert "~Core_Definition" in note and "~Core_Data" in note and dlm in note
+    assert any("'LITH'" in w and "not numbers" in w for w in well.warnings)
+    assert describe_las(p)["datum"]["elevation_m"] == 25.0         # EKB in ~Parameter
+
+
+def test_las3_short_data_line_names_the_line(tmp_path):
+    p = tmp_path / "v3.las"
+    p.write_text(LAS3.replace("1500.5, -999.25, 11.0, shale", "1500.5, -999.25, 11.0"))
+    with pytest.raises(InputFileError) as e:
+        read_las(p)
+    assert "v3.las, line 20" in str(e.value) and "~Log_Definition" in str(e.value)
+
+
+def test_las3_without_depth_indexed_set_is_refused(tmp_path):
+    p = tmp_path / "v3.las"
+    p.write_text(LAS3.replace("DEPT .M    : depth", "TIME .S    : time").replace("CORET.M", "CORET.S"))
+    with pytest.raises(InputFileError, match="no depth-indexed data set"):
+        read_las(p)
+
+
+def test_las3_core_set_used_when_no_log_set(tmp_path):
+    """Only a core set (depth-indexed): it is read, with CPOR in percent as written."""
+    start = LAS3.index("~Log_Definition")
+    end = LAS3.index("~Core_Definition")
+    p = tmp_path / "v3.las"
+    p.write_text(LAS3[:start] + LAS3[end:])
+    well = read_las(p)
+    assert list(well.curves) == ["CORET", "CPOR"] and well.curves["CPOR"].data[0] == 21.0
+
+
+def test_las3_second_log_run_is_named_as_not_read(tmp_path):
+    runs = LAS3.replace("~Log_Definition", "~Log_Definition[1]").replace(
+        "~Log_Data | Log_Definition", "~Log_Data[1] | Log_Definition[1]")
+    start, end = runs.index("~Log_Definition[1]"), runs.index("~Core_Definition")
+    second = runs[start:end].replace("[1]", "[2]").replace("1500.", "1600.").replace("1501.", "1601.")
+    p = tmp_path / "v3.las"
+    p.write_text(runs[:end] + second + runs[end:])
+    well = read_las(p)
+    np.testing.assert_array_equal(well.md, [1500.0, 1500.5, 1501.0])      # the first run
+    note = next(w for w in well.warnings if "LAS 3.0" in w)
+    assert "~Log_Definition[2]" in note and "~Log_Data[2]" in note

@@ -41,6 +41,7 @@ from ..datum import datum_from_header
 from ..roles import ROLE_ALIASES, explain_roles
 from ..well import Curve, HeaderItem, Well
 from . import las_fast
+from .las3 import declares_las3, parse_las3
 from .las_checks import check_data_rows, check_header_lines
 from .las_header import (HINT_LAS, RawLas, check_structure, decode, lasio_messages, num, plain,
                          raw_from_lasio, read_bytes, parse_with_lasio, text_warning)
@@ -289,7 +290,10 @@ def _build_well(path: Path, raw: RawLas) -> Well:
     )
 
 def read_las(path, engine: str = "auto") -> Well:
-    """Read a LAS 1.2 or 2.0 file into a :class:`~satheight.well.Well`.
+    """Read a LAS 1.2, 2.0 or 3.0 file into a :class:`~satheight.well.Well`.
+
+    LAS 3.0 files (``VERS 3.0``) are read by :mod:`satheight.io.las3` (the depth-indexed
+    data set; a note names what was not read), then the same rules apply.
 
     Parameters
     ----------
@@ -326,6 +330,10 @@ def read_las(path, engine: str = "auto") -> Well:
     data = read_bytes(path)
     found = las_fast.split_data_section(data)
     check_header_lines(path, data, found[1] if found else len(data))
+    if declares_las3(decode(data[:_VERSION_HEAD])):
+        text = decode(data)
+        del data
+        return _build_well(path, parse_las3(path, text))
     parsed = _parse_fast(path, data) if engine == "auto" else None
     if parsed is None:
         text = decode(data)
@@ -357,6 +365,9 @@ def _curves_and_wrap(text: str) -> tuple[int, bool]:
     wrap = next((plain(it.value) for it in las.version if it.mnemonic.upper() == "WRAP"), "NO")
     return len(las.curves), str(wrap).strip().upper() in ("YES", "Y", "TRUE")
 
+
+#: Bytes at the start of a file searched for its VERS item (the ~Version section comes first).
+_VERSION_HEAD = 1 << 16
 
 # Header items that make the fast path step aside (lasio handles them).
 _FAST_VERSIONS = (1.2, 2.0)

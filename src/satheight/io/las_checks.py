@@ -32,7 +32,8 @@ import numpy as np
 
 from ..errors import InputFileError
 
-__all__ = ["check_regular_file", "check_header_lines", "check_data_rows", "MAX_HEADER_LINE"]
+__all__ = ["check_regular_file", "check_header_lines", "check_data_rows", "check_data_lines",
+           "MAX_HEADER_LINE"]
 
 #: Longest header line accepted [characters]. LAS 2.0 header lines are short (a
 #: mnemonic, a unit, a value and a description); 64 Ki characters leaves room for any
@@ -133,6 +134,33 @@ def _token_at(data: str, pos: int) -> str:
             + re.match(r"\S*", data[pos + 1:]).group(0))
 
 
+def _fields_per_line(data: str, delimiter: str) -> np.ndarray:
+    """Fields between ``delimiter`` on each line (quoted text one field); -1 for blank or
+    comment lines."""
+    raw = data.encode("utf-8", "surrogateescape")
+    b = np.frombuffer(raw, dtype=np.uint8)
+    n_lines = int(np.count_nonzero(b == 10)) + 1
+    if b.size == 0:
+        return np.full(n_lines, -1, dtype=np.int64)
+    line = np.concatenate(([0], np.cumsum(b == 10)[:-1]))
+    counts = np.bincount(line[b == ord(delimiter)], minlength=n_lines).astype(np.int64) + 1
+    word = (b > 32) & (b != ord(delimiter))
+    has_word = np.bincount(line[word], minlength=n_lines) > 0
+    starts = np.flatnonzero(word)
+    first_line, first_at = np.unique(line[starts], return_index=True)
+    comment = np.zeros(n_lines, dtype=bool)
+    comment[first_line] = b[starts[first_at]] == ord("#")
+    counts[~has_word & (counts == 1)] = -1                  # blank line
+    counts[comment] = -1
+    if b'"' in raw:
+        import csv
+
+        lines = data.split("\n")
+        for i in np.flatnonzero(np.array(['"' in t for t in lines]) & (counts > 0)):
+            counts[i] = len(next(csv.reader([lines[i]], delimiter=delimiter, quotechar='"')))
+    return counts
+
+
 def _data_span(text: str) -> tuple[int, int] | None:
     """Character offsets (first data character, end) of the ``~A`` section's data."""
     m = re.search(r"^[ \t]*~A[^\n]*(\n|$)", text, re.M)
@@ -165,9 +193,16 @@ def check_data_rows(path: Path, text: str, n_curves: int, wrapped: bool) -> None
     if span is None:
         return
     start, end = span
-    data = text[start:end]
-    first_line = _line_of(text, start)
-    comma = _DECIMAL_COMMA.search(data)
+    check_data_lines(path, text[start:end], _line_of(text, start), n_curves, wrapped)
+
+
+def check_data_lines(path: Path, data: str, first_line: int, n_curves: int, wrapped: bool,
+                     delimiter: str = " ", definition: str = "~Curve") -> None:
+    """:func:`check_data_rows` on the data lines themselves, ``first_line`` the file line of
+    the first; ``definition`` the section that defines the curves (named in errors);
+    ``delimiter`` ``","`` or ``"\\t"`` for LAS 3.0 delimited data (fields counted
+    between delimiters, quoted text one field; commas then not refused)."""
+    comma = _DECIMAL_COMMA.search(data) if delimiter != "," else None
     if comma:
         line = first_line + data.count("\n", 0, comma.start())
         token = _token_at(data, comma.start())
@@ -184,31 +219,34 @@ def check_data_rows(path: Path, text: str, n_curves: int, wrapped: bool) -> None
                              hint="put a blank between the values, or correct the number")
     if n_curves <= 0:
         return
-    counts = _tokens_per_line(data)
+    counts = _tokens_per_line(data) if delimiter == " " else _fields_per_line(data, delimiter)
     lines = np.flatnonzero(counts > 0)
     c = counts[lines]
     if not wrapped:
-        _check_unwrapped(path, c, lines + first_line, n_curves)
+        _check_unwrapped(path, c, lines + first_line, n_curves, definition)
     else:
         _check_wrapped(path, c, lines + first_line, n_curves)
 
 
-def _check_unwrapped(path: Path, c: np.ndarray, line_no: np.ndarray, n: int) -> None:
+def _check_unwrapped(path: Path, c: np.ndarray, line_no: np.ndarray, n: int,
+                     definition: str = "~Curve") -> None:
     bad = np.flatnonzero(c != n)
     if bad.size == 0:
         return
     k = int(bad[0])
     if bad.size == c.size and np.all(c == c[0]) and c.size > 1:
         raise InputFileError(
-            f"every data line has {int(c[0])} values but the ~Curve section defines {n} curves: "
-            f"a ~Curve line is {'missing' if c[0] > n else 'extra'} and the columns would shift",
-            where=f"{path}, line {int(line_no[0])}",
-            hint="give the ~Curve section one line per data column, in the order of the columns")
+            f"every data line has {int(c[0])} values but the {definition} section defines {n} "
+            f"curves: a {definition} line is {'missing' if c[0] > n else 'extra'} and the columns "
+            "would shift", where=f"{path}, line {int(line_no[0])}",
+            hint=f"give the {definition} section one line per data column, in the order of the "
+                 "columns")
     raise InputFileError(
-        f"data line has {int(c[k])} values but the ~Curve section defines {n} curves",
+        f"data line has {int(c[k])} values but the {definition} section defines {n} curves",
         where=f"{path}, line {int(line_no[k])}",
-        hint="every ~A row needs one value per ~Curve line; fix or remove that row (a truncated "
-             "file ends in a short row); the file is not read by re-flowing values into other rows")
+        hint=f"every data row needs one value per {definition} line; fix or remove that row (a "
+             "truncated file ends in a short row); the file is not read by re-flowing values into "
+             "other rows")
 
 
 def _check_wrapped(path: Path, c: np.ndarray, line_no: np.ndarray, n: int) -> None:
