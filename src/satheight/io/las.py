@@ -237,6 +237,36 @@ def _check_plausible_md(md: np.ndarray, index: np.ndarray, mnemonic: str, depth_
                                                "(M or FT); a depth this large is a damaged value")
 
 
+_DUPLICATE = re.compile(r"^(.*):(\d+)$")
+
+
+def _reader_notes(path: Path, raw: RawLas, name: str) -> list[str]:
+    """Notes for what the reader filled in: repeated or empty mnemonics renamed, the well
+    name from the file name, no usable NULL, no VERS item."""
+    notes = []
+    names = [d[0] for d in raw.curve_defs]
+    repeated: dict[str, list[str]] = {}
+    for n in names:
+        m = _DUPLICATE.match(n)
+        if m:
+            repeated.setdefault(m.group(1), []).append(n)
+    for base, keys in repeated.items():
+        if len(keys) > 1:
+            what = ("~Curve lines have no mnemonic" if base == "UNKNOWN"
+                    else f"curve mnemonic {base!r} appears {len(keys)} times")
+            notes.append(f"{path}: {what}; read as {', '.join(keys)} (name the one to use in "
+                         "the project file)")
+    if "UNKNOWN" in names:
+        notes.append(f"{path}: a ~Curve line has no mnemonic; read as 'UNKNOWN'")
+    if not name:
+        notes.append(f"{path}: no WELL name in ~Well; the file name {path.stem!r} is used")
+    null_item = _header_lookup(raw.well_items, "NULL")
+    if _null_of(null_item) is None:
+        given = "no NULL item" if null_item is None else f"NULL is {str(null_item.value)!r}"
+        notes.append(f"{path}: {given} in ~Well: only the common null codes are read as missing")
+    return notes
+
+
 def _build_well(path: Path, raw: RawLas) -> Well:
     """Apply the tool's rules (units, nulls, depth order) to parsed LAS content."""
     if not raw.curve_defs or not raw.columns:
@@ -274,6 +304,7 @@ def _build_well(path: Path, raw: RawLas) -> Well:
               for (name, unit, descr, value), col in zip(raw.curve_defs, columns)}
     well_item = _header_lookup(raw.well_items, "WELL")
     name = str(well_item.value).strip() if well_item is not None else ""
+    warnings += _reader_notes(path, raw, name)
     return Well(
         name=name or path.stem,
         source=path,

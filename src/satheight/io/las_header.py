@@ -146,11 +146,14 @@ def raw_from_lasio(path: Path, las, columns: list[np.ndarray], messages: list[st
                            str(it.descr or ""))
                 for it in section]
 
-    version = "2.0"
+    version = ""
     for it in las.version:
         if it.mnemonic.upper() == "VERS":
             v = plain(it.value)
             version = str(float(v)) if isinstance(v, (int, float)) else str(v)
+    if not version:
+        version = "2.0"
+        messages = [*messages, "no VERS item in ~Version: read as LAS 2.0"]
     curve_defs = [(c.mnemonic, str(c.unit or ""), str(c.descr or ""),
                    "" if c.value is None else str(c.value)) for c in las.curves]
     other = las.other if isinstance(las.other, str) else ""
