@@ -808,3 +808,11 @@ def test_depth_unit_from_strt_is_a_visible_note(tmp_path):
     well = read_las(write(tmp_path, las_text([("DEPT", "", ""), ("PHIE", "V/V", "")],
                                              [[100.0, 0.2], [101.0, 0.21]], strt_unit="FT"), "s.las"))
     assert well.depth_unit == "ft" and any("unit of STRT" in w for w in well.warnings)
+
+
+def test_datum_overflowing_after_unit_conversion_is_refused(tmp_path):
+    """1e308 km is 1e311 m: beyond the largest float (about 1.8e308), inf after conversion."""
+    well = _datum_well(tmp_path, extra_well=[("EKB", "KM", "1e308", "kb")])
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "EKB" in str(e.value) and "plausible" in str(e.value)

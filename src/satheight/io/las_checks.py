@@ -99,7 +99,7 @@ def check_header_lines(path: Path, raw: bytes, end: int) -> None:
     if long.size:
         k = int(long[0])
         line = int(np.count_nonzero(b[:bounds[k] + 1] == 10)) + 1 if k else 1
-        raise InputFileError(f"header line {line} is {int(lengths[k]):,} characters long "
+        raise InputFileError(f"line {line} is {int(lengths[k]):,} characters long "
                              f"(at most {MAX_HEADER_LINE:,} are read)",
                              where=f"{path}, line {line}",
                              hint="a LAS header line holds one item (MNEM.UNIT VALUE : "
@@ -110,7 +110,8 @@ def check_header_lines(path: Path, raw: bytes, end: int) -> None:
 def _tokens_per_line(data: str) -> np.ndarray:
     """Whitespace-separated tokens on each line of ``data`` (quoted text one token);
     lines whose first token starts with ``#`` (comments) count -1."""
-    b = np.frombuffer(data.encode("utf-8", "surrogateescape"), dtype=np.uint8)
+    raw = data.encode("utf-8", "surrogateescape")
+    b = np.frombuffer(raw, dtype=np.uint8)
     n_lines = int(np.count_nonzero(b == 10)) + 1
     if b.size == 0:
         return np.zeros(n_lines, dtype=np.int64)
@@ -121,7 +122,7 @@ def _tokens_per_line(data: str) -> np.ndarray:
     first_line, first_at = np.unique(line[starts], return_index=True)
     comment = b[starts[first_at]] == ord("#")
     counts[first_line[comment]] = -1
-    if b'"' in data.encode("utf-8", "surrogateescape"):
+    if b'"' in raw:
         lines = data.split("\n")
         for i in np.flatnonzero(np.array(['"' in s for s in lines]) & (counts > 0)):
             counts[i] = len(_TOKEN.findall(lines[i]))
