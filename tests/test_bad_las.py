@@ -296,3 +296,11 @@ def test_las3_second_log_run_is_named_as_not_read(tmp_path):
     np.testing.assert_array_equal(well.md, [1500.0, 1500.5, 1501.0])      # the first run
     note = next(w for w in well.warnings if "LAS 3.0" in w)
     assert "~Log_Definition[2]" in note and "~Log_Data[2]" in note
+
+
+def test_las3_quoted_text_with_the_delimiter_is_one_value(tmp_path):
+    p = tmp_path / "v3.las"
+    p.write_text(LAS3.replace('"sand stone"', '"sand, stone"'))
+    well = read_las(p)
+    np.testing.assert_array_equal(well.curves["KLOGH"].data, [10.5, 11.0, 12.0])
+    assert np.isnan(well.curves["LITH"].data).all()

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import io
 import re
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
@@ -61,29 +61,35 @@ class _Section:
     name: str                   # title without "~", e.g. "Log_Data"
     association: str            # text after "|" in the title, e.g. "Log_Definition"
     line: int                   # 1-based line of the title
-    body: list[str] = field(default_factory=list)
-    start: int = 0              # character offset of the first body line
+    body: str = ""              # the lines after the title, up to the next title
+
+
+_TITLE_LINE = re.compile(r"^[ \t]*~[^\n]*", re.M)
 
 
 def _sections(text: str, path: Path) -> list[_Section]:
+    """The file's sections in order; titles found by one regular-expression pass (the
+    data lines are not looked at one by one)."""
     out: list[_Section] = []
     seen: dict[str, int] = {}
+    titles = list(_TITLE_LINE.finditer(text))
+    line = 1
     pos = 0
-    for i, line in enumerate(text.split("\n")):
-        m = _TITLE.match(line) if line.lstrip().startswith("~") else None
-        if m:
-            name = m.group(1).strip()
-            key = name.upper()
-            if key in seen:
-                raise InputFileError(f"section ~{name} appears twice (lines {seen[key]} and "
-                                     f"{i + 1}); the second would hide the first",
-                                     where=f"{path}, line {i + 1}",
-                                     hint="keep one section of each kind; merge or remove the other")
-            seen[key] = i + 1
-            out.append(_Section(name, (m.group(2) or "").strip(), i + 1, start=pos + len(line) + 1))
-        elif out:
-            out[-1].body.append(line)
-        pos += len(line) + 1
+    for i, t in enumerate(titles):
+        line += text.count("\n", pos, t.start())
+        pos = t.start()
+        m = _TITLE.match(t.group(0))
+        name = m.group(1).strip()
+        key = name.upper()
+        if key in seen:
+            raise InputFileError(f"section ~{name} appears twice (lines {seen[key]} and "
+                                 f"{line}); the second would hide the first",
+                                 where=f"{path}, line {line}",
+                                 hint="keep one section of each kind; merge or remove the other")
+        seen[key] = line
+        end = titles[i + 1].start() if i + 1 < len(titles) else len(text)
+        body = text[t.end() + 1:end] if t.end() < end else ""
+        out.append(_Section(name, (m.group(2) or "").strip(), line, body.rstrip("\n")))
     return out
 
 
@@ -121,7 +127,7 @@ def _value(mnemonic: str, text: str):
 def _items(section: _Section) -> list[tuple[str, str, str, str]]:
     """(mnemonic, unit, value text, description) of each item line of a section."""
     rows = []
-    for line in section.body:
+    for line in section.body.split("\n"):
         if not line.strip() or line.lstrip().startswith("#"):
             continue
         m = _ITEM.match(line)
@@ -178,7 +184,7 @@ def _read_data(path: Path, data: _Section, n: int, delimiter: str,
     """The data section's columns (float64, or object where some entries are text)."""
     import pandas as pd
 
-    body = "\n".join(data.body)
+    body = data.body
     check_data_lines(path, body, data.line + 1, n, wrapped=False, delimiter=delimiter,
                      definition=definition)
     rows = re.sub(r"^[ \t]*(#[^\n]*)?\n", "", body + "\n", flags=re.M).rstrip("\n")
@@ -238,7 +244,7 @@ def parse_las3(path: Path, text: str) -> RawLas:
             f"~{sets[chosen]['data'].name}, delimiter {_name_of(delimiter)})")
     if not_read:
         note += "; not read: " + ", ".join(not_read)
-    other = "\n".join("\n".join(sec.body).strip("\n") for sec in by_kind.get("other", []))
+    other = "\n".join(sec.body.strip("\n") for sec in by_kind.get("other", []))
     return RawLas("3.0", header("well"), header("parameter", log_params), curve_defs, columns,
                   other, [note])
 

@@ -124,7 +124,8 @@ def _tokens_per_line(data: str) -> np.ndarray:
     counts[first_line[comment]] = -1
     if b'"' in raw:
         lines = data.split("\n")
-        for i in np.flatnonzero(np.array(['"' in s for s in lines]) & (counts > 0)):
+        quoted = np.unique(line[b == ord('"')])
+        for i in quoted[counts[quoted] > 0].tolist():        # only the lines holding quotes
             counts[i] = len(_TOKEN.findall(lines[i]))
     return counts
 
@@ -157,8 +158,10 @@ def _fields_per_line(data: str, delimiter: str) -> np.ndarray:
         import csv
 
         lines = data.split("\n")
-        for i in np.flatnonzero(np.array(['"' in t for t in lines]) & (counts > 0)):
-            counts[i] = len(next(csv.reader([lines[i]], delimiter=delimiter, quotechar='"')))
+        quoted = np.unique(line[b == ord('"')])
+        for i in quoted[counts[quoted] > 0].tolist():        # only the lines holding quotes
+            counts[i] = len(next(csv.reader([lines[i]], delimiter=delimiter, quotechar='"',
+                                               skipinitialspace=True)))
     return counts
 
 
