@@ -1,15 +1,19 @@
 """LAS well-log files: read into a :class:`~satheight.well.Well`, write LAS 2.0.
 
-Reading goes through the ``lasio`` library, kept behind this module: nothing
+Before any parser sees a file, :mod:`satheight.io.las_checks` refuses what would be
+read wrongly without a word or for minutes (a device or pipe as the path, an overlong
+header line, data rows that do not match ``~Curve``, decimal commas, numbers run
+together). LAS 3.0 files are read by :mod:`satheight.io.las3`. LAS 1.2/2.0 reading goes through the ``lasio`` library, kept behind this module: nothing
 outside :mod:`satheight.io` imports it. For speed on large files lasio parses only
 the header sections of a plain LAS 1.2/2.0 unwrapped file and the ``~A`` section is
 read by pandas' C parser (:mod:`satheight.io.las_fast`); any other file is read by
 lasio as a whole, with the same result. The reader turns what was parsed into the
 tool's own :class:`~satheight.well.Well` and applies the tool's rules:
 
-* the depth index unit must be metres or feet (from the index curve's unit, else
-  the unit of the ``~Well`` item ``STRT``); ``Well.md`` is in metres
-  (1 ft = 0.3048 m, NIST SP 811);
+* the depth index unit must be metres, feet or tenths of an inch (from the index
+  curve's unit, else, with a note, the unit of the ``~Well`` item ``STRT``);
+  ``Well.md`` is in metres (1 ft = 0.3048 m, 1 in = 0.0254 m, NIST SP 811) and
+  within :data:`MAX_MD`;
 * the header NULL value and common null codes (-999.25, -999, -9999, -99999, and
   any magnitude >= 1e30) become NaN in every curve except the index; replacing a
   code other than the header NULL is reported in ``Well.warnings``;
@@ -17,7 +21,9 @@ tool's own :class:`~satheight.well.Well` and applies the tool's rules:
   (reported in ``Well.warnings``); missing, repeated or out-of-order depths raise
   :class:`~satheight.errors.DepthError` naming the data row;
 * every problem with the file raises :class:`~satheight.errors.InputFileError`
-  naming the file; no lasio or OS exception escapes.
+  naming the file (and line where one is at fault); no lasio or OS exception escapes;
+* whatever the reader fills in (a unit, a name, a renamed mnemonic) is a note in
+  ``Well.warnings``.
 
 Writing (:func:`write_las`, imported here from :mod:`satheight.io.las_write`) uses the
 tool's own LAS 2.0 writer through :mod:`satheight.io.atomic`. Every input curve is
@@ -349,10 +355,12 @@ def read_las(path, engine: str = "auto") -> Well:
     Raises
     ------
     InputFileError
-        If the file is missing, unreadable, not LAS, has no curves or data, or its
-        depth unit is not metres or feet.
+        If the file is missing, not a regular file, unreadable, not LAS, has no
+        curves or data, a data line that does not match ``~Curve`` (names the line),
+        or its depth unit is not metres, feet or tenths of an inch.
     DepthError
-        If a depth is missing, repeated or out of order (names the data row).
+        If a depth is missing, repeated or out of order (names the data row), or
+        beyond :data:`MAX_MD`.
     """
     path = Path(path)
     if engine not in ("auto", "lasio"):
@@ -361,7 +369,7 @@ def read_las(path, engine: str = "auto") -> Well:
     data = read_bytes(path)
     found = las_fast.split_data_section(data)
     check_header_lines(path, data, found[1] if found else len(data))
-    if declares_las3(decode(data[:_VERSION_HEAD])):
+    if declares_las3(decode(data[:found[1]] if found else data)):
         text = decode(data)
         del data
         return _build_well(path, parse_las3(path, text))
@@ -396,9 +404,6 @@ def _curves_and_wrap(text: str) -> tuple[int, bool]:
     wrap = next((plain(it.value) for it in las.version if it.mnemonic.upper() == "WRAP"), "NO")
     return len(las.curves), str(wrap).strip().upper() in ("YES", "Y", "TRUE")
 
-
-#: Bytes at the start of a file searched for its VERS item (the ~Version section comes first).
-_VERSION_HEAD = 1 << 16
 
 # Header items that make the fast path step aside (lasio handles them).
 _FAST_VERSIONS = (1.2, 2.0)
