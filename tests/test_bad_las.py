@@ -304,3 +304,11 @@ def test_las3_quoted_text_with_the_delimiter_is_one_value(tmp_path):
     well = read_las(p)
     np.testing.assert_array_equal(well.curves["KLOGH"].data, [10.5, 11.0, 12.0])
     assert np.isnan(well.curves["LITH"].data).all()
+
+
+def test_las3_quote_left_open_is_a_clean_error(tmp_path):
+    p = tmp_path / "v3.las"
+    p.write_text(LAS3.replace('"sand stone"', '"sand stone'))
+    with pytest.raises(InputFileError) as e:
+        read_las(p)
+    assert "v3.las" in str(e.value) and "\n" not in str(e.value)

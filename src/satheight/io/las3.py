@@ -191,13 +191,21 @@ def _read_data(path: Path, data: _Section, n: int, delimiter: str,
     if not rows.strip():
         return [np.empty(0) for _ in range(n)]
     kwargs = dict(header=None, names=list(range(n)), na_filter=False, quotechar='"',
-                  engine="c")
-    if delimiter == " ":
-        frame = pd.read_csv(io.StringIO(rows), sep=r"\s+", **kwargs)
-    else:
+                  engine="c", skip_blank_lines=False)
+    if delimiter != " ":
         rows = re.sub(rf"[ ]*{re.escape(delimiter)}[ ]*", delimiter, rows)
         rows = re.sub(r"^[ ]+|[ \t]+$", "", rows, flags=re.M)
-        frame = pd.read_csv(io.StringIO(rows), sep=delimiter, **kwargs)
+    try:
+        frame = pd.read_csv(io.StringIO(rows), sep=r"\s+" if delimiter == " " else delimiter,
+                            **kwargs)
+    except (ValueError, pd.errors.ParserError) as exc:
+        frame, why = None, str(exc).strip().splitlines()[-1:] or [""]
+    if frame is None or len(frame) != rows.count("\n") + 1:
+        raise InputFileError("the data section cannot be split into one row per line (a quote "
+                             "left open runs over the line end?)"
+                             + (f": {why[0]}" if frame is None and why[0] else ""),
+                             where=f"{path}, line {data.line + 1}",
+                             hint="close every quoted text on its own line, or remove the quote")
     return [frame[i].to_numpy() for i in range(n)]
 
 
