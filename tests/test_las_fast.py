@@ -210,13 +210,15 @@ def test_wrapped_file_goes_to_lasio(tmp_path):
 
 
 def test_version_3_and_delimiter_go_to_lasio(tmp_path):
-    # LAS 3.0 is refused on both paths (lasio would read its delimited data as 2.0)
-    from satheight.errors import InputFileError
-
+    # LAS 3.0 goes to its own reader on both engines (lasio would read its delimited data as
+    # 2.0); the values equal those of the same file as LAS 2.0
     v3 = las(PLAIN).replace("VERS.   2.0", "VERS.   3.0")
+    v2 = read_las(write(tmp_path, las(PLAIN), name="v2.las"))
     for engine in ("auto", "lasio"):
-        with pytest.raises(InputFileError, match="LAS version 3.0 is not supported"):
-            read_las(write(tmp_path, v3, name="v3.las"), engine=engine)
+        w3 = read_las(write(tmp_path, v3, name="v3.las"), engine=engine)
+        assert w3.version == "3.0"
+        for key, c in v2.curves.items():
+            np.testing.assert_array_equal(w3.curves[key].data, c.data)
     dlm = las(PLAIN).replace(" WRAP.   NO  : wrap mode\n", " WRAP.   NO  : wrap mode\n DLM . SPACE : d\n")
     check(write(tmp_path, dlm, name="dlm.las"), False)
 

@@ -16,9 +16,11 @@ import lasio
 import numpy as np
 import pytest
 
+from satheight.datum import datum_from_header
 from satheight.errors import (DepthError, InputFileError, MissingCurveError, ProjectFileError,
                               UnitError)
 from satheight.io import las as las_mod
+from satheight.io import las_write
 from satheight.io.atomic import atomic_open, atomic_write_bytes, atomic_write_text
 from satheight.io.las import describe_las, read_las, write_las
 from satheight.roles import ROLE_ALIASES, detect_roles, require_role, role_values
@@ -521,7 +523,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
     out = tmp_path / "result.las"
     out.write_text("old content\n")
     temps_at_failure = []
-    real = las_mod._format_column
+    real = las_write._format_column
     calls = {"n": 0}
 
     def failing(values, decimals, null_text):
@@ -532,7 +534,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
             raise RuntimeError("simulated failure")
         return real(values, decimals, null_text)
 
-    monkeypatch.setattr(las_mod, "_format_column", failing)
+    monkeypatch.setattr(las_write, "_format_column", failing)
     with pytest.raises(RuntimeError):
         write_las(out, well)
     assert len(temps_at_failure) == 1         # failed mid-way, with the temporary file open
@@ -641,3 +643,176 @@ GR  .GAPI 07 310 01 00 : gamma ray
     write_las(tmp_path / "out.las", w)
     back = lasio.read(tmp_path / "out.las")
     assert back.curves["GR"].value == "07 310 01 00"
+
+
+# ---------------------------------------------------------------------------
+# datum elevation from the header (~Well and ~Parameter)
+# ---------------------------------------------------------------------------
+
+def _datum_well(tmp_path, extra_well=(), params=(), name="d.las"):
+    p = tmp_path / name
+    p.write_text(las_text([("DEPT", "M", "depth"), ("PHIE", "V/V", "por")],
+                          [[1000.0, 0.2], [1000.5, 0.21]], extra_well=extra_well, params=params))
+    return read_las(p)
+
+
+def test_datum_found_in_parameter_section(tmp_path):
+    well = _datum_well(tmp_path, params=[("EKB", "M", "31.2", "kelly bushing")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(31.2, abs=1e-12)            # as written, metres
+    assert "EKB" in source and "~Parameter" in source and notes == []
+
+
+def test_datum_in_feet_converted_to_metres(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "FT", "100", "kb")])
+    assert datum_from_header(well)[0] == pytest.approx(100 * FOOT_M, rel=1e-12)   # NIST SP 811
+
+
+def test_datum_same_item_in_both_sections_disagreeing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb")],
+                       params=[("EKB", "M", "30.0", "kb")])
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "disagree" in str(e.value) and "28.5" in str(e.value) and "30" in str(e.value)
+
+
+def test_datum_kb_and_ekb_disagreeing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb")],
+                       params=[("KB", "M", "25.0", "kb")])
+    with pytest.raises(InputFileError, match="disagree"):
+        datum_from_header(well)
+
+
+def test_datum_depth_reference_disagreeing_with_kelly_bushing_is_refused(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb"), ("EREF", "M", "20", "ref")])
+    with pytest.raises(InputFileError, match="EREF"):
+        datum_from_header(well)
+
+
+def test_datum_ground_level_fallback_is_a_visible_note(tmp_path):
+    well = _datum_well(tmp_path, extra_well=[("EGL", "M", "12.0", "ground")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(12.0, abs=1e-12) and "ground level" in source
+    assert any("ground level" in n for n in notes)
+
+
+def test_datum_lmf_names_the_point_used(tmp_path):
+    """LMF = DF: the log depths are measured from the drill floor, so EDF is used, and the
+    kelly bushing item is listed as present but not used."""
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28.5", "kb"), ("EDF", "M", "28.1", "df")],
+                       params=[("LMF", "", "DF", "log measured from")])
+    value, source, notes = datum_from_header(well)
+    assert value == pytest.approx(28.1, abs=1e-12) and "EDF" in source and "LMF" in source
+    assert any("EKB" in n and "not used" in n for n in notes)
+
+
+def test_datum_missing_is_refused_with_hint(tmp_path):
+    well = _datum_well(tmp_path)
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "datum_elevation" in str(e.value) and "~Parameter" in str(e.value)
+
+
+def test_datum_implausible_elevation_is_refused(tmp_path):
+    # 28.5 m written in centimetres: beyond any drilled ground elevation (recalled from memory)
+    well = _datum_well(tmp_path, extra_well=[("EKB", "M", "28500", "kb")])
+    with pytest.raises(InputFileError, match="plausible"):
+        datum_from_header(well)
+
+
+# ---------------------------------------------------------------------------
+# permeability curves by pattern (K*, PERM*) with a permeability unit as evidence
+# ---------------------------------------------------------------------------
+
+def _perm_well(tmp_path, curves, name="k.las"):
+    p = tmp_path / name
+    rows = [[1000.0] + [0.2] * len(curves), [1000.5] + [0.3] * len(curves)]
+    p.write_text(las_text([("DEPT", "M", "depth")] + curves, rows))
+    return p
+
+
+@pytest.mark.parametrize("mnemonic,unit", [("KLOGH", "mD"), ("PERM_H", "md"), ("KHOR", "D"),
+                                           ("KINT_CORE", "darcy")])
+def test_suffixed_permeability_curve_found_with_reason(tmp_path, mnemonic, unit):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), (mnemonic, unit, "k")])
+    assert detect_roles(read_las(p))["permeability"] == mnemonic
+    info = describe_las(p)["roles"]["permeability"]
+    assert info["mnemonic"] == mnemonic and "K*/PERM*" in info["reason"] and unit in info["reason"]
+
+
+def test_potassium_curve_is_not_taken_for_permeability(tmp_path):
+    """K in % is potassium from spectral gamma ray (common practice), KTH a gamma-ray curve:
+    neither carries a permeability unit, so neither is permeability."""
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("K", "%", "potassium"), ("KTH", "gAPI", "gr")])
+    assert detect_roles(read_las(p))["permeability"] is None
+    reason = describe_las(p)["roles"]["permeability"]["reason"]
+    assert "none named K*/PERM*" in reason and "K skipped: unit '%'" in reason
+
+
+def test_two_permeability_pattern_candidates_are_refused_not_guessed(tmp_path):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("KLOGH", "mD", "kh"), ("KLOGV", "mD", "kv")])
+    with pytest.raises(MissingCurveError) as e:
+        detect_roles(read_las(p))
+    msg = str(e.value)
+    assert "KLOGH" in msg and "KLOGV" in msg and "curves = { permeability" in msg
+    info = describe_las(p)["roles"]["permeability"]       # inspect shows the choice, no error
+    assert info["mnemonic"] is None and info["candidates"] == ["KLOGH", "KLOGV"]
+    # naming one in the project file settles it
+    assert detect_roles(read_las(p), {"permeability": "KLOGV"})["permeability"] == "KLOGV"
+
+
+def test_alias_choice_names_the_other_curves_present(tmp_path):
+    p = _perm_well(tmp_path, [("PHIE", "V/V", "por"), ("PERM", "mD", "k"), ("KH", "mD", "kh")])
+    info = describe_las(p)["roles"]["permeability"]
+    assert info["mnemonic"] == "PERM" and "KH" in info["reason"]
+
+
+def test_permeability_without_unit_read_as_md_with_a_note(tmp_path):
+    p = _perm_well(tmp_path, [("PERM", "", "k")])
+    values, notes = role_values(read_las(p), "permeability", "PERM")
+    # 1 mD = 9.869233e-16 m^2 (NIST SP 811 darcy / 1000)
+    assert values[0] == pytest.approx(0.2 * DARCY_M2 / 1000, rel=1e-9)
+    assert any("no unit; read as mD" in n for n in notes)
+
+
+def test_describe_las_reports_the_datum_item_used(tmp_path):
+    p = tmp_path / "d.las"
+    p.write_text(las_text([("DEPT", "M", "depth"), ("PHIE", "V/V", "por")], [[1000.0, 0.2], [1001, 0.2]],
+                          params=[("EKB", "M", "28.5", "kb")]))
+    datum = describe_las(p)["datum"]
+    assert datum["elevation_m"] == pytest.approx(28.5, abs=1e-12) and "~Parameter" in datum["source"]
+
+
+# ---------------------------------------------------------------------------
+# depth units of older files and other languages
+# ---------------------------------------------------------------------------
+
+def test_tenth_inch_depth_unit_read_in_metres(tmp_path):
+    """.1IN: tenths of an inch; 1 in = 0.0254 m exactly (NIST SP 811), so 393700.8 tenths of an
+    inch = 999.998 + 0.8 x 0.00254 = 1000.000032 m, and 393706.8 gives 999.998 + 6.8 x 0.00254
+    = 1000.015272 m (worked by hand)."""
+    well = make_well(tmp_path, [("DEPT", ".1IN", ""), ("PHIE", "V/V", "")],
+                     [[393700.8, 0.2], [393706.8, 0.21]])
+    assert well.depth_unit == ".1in"
+    np.testing.assert_allclose(well.md, [1000.000032, 1000.015272], rtol=0, atol=1e-9)
+
+
+@pytest.mark.parametrize("unit,factor", [("METROS", 1.0), ("PIEDS", FOOT_M)])
+def test_depth_unit_in_another_language_read_with_a_note(tmp_path, unit, factor):
+    well = make_well(tmp_path, [("DEPT", unit, ""), ("PHIE", "V/V", "")], [[100.0, 0.2], [101.0, 0.21]])
+    np.testing.assert_allclose(well.md, [100.0 * factor, 101.0 * factor], rtol=1e-12)
+    assert any(unit in w and "read as" in w for w in well.warnings)
+
+
+def test_depth_unit_from_strt_is_a_visible_note(tmp_path):
+    well = read_las(write(tmp_path, las_text([("DEPT", "", ""), ("PHIE", "V/V", "")],
+                                             [[100.0, 0.2], [101.0, 0.21]], strt_unit="FT"), "s.las"))
+    assert well.depth_unit == "ft" and any("unit of STRT" in w for w in well.warnings)
+
+
+def test_datum_overflowing_after_unit_conversion_is_refused(tmp_path):
+    """1e308 km is 1e311 m: beyond the largest float (about 1.8e308), inf after conversion."""
+    well = _datum_well(tmp_path, extra_well=[("EKB", "KM", "1e308", "kb")])
+    with pytest.raises(InputFileError) as e:
+        datum_from_header(well)
+    assert "EKB" in str(e.value) and "plausible" in str(e.value)

@@ -10,11 +10,16 @@ A saturation-height run needs up to four log curves, named here by *role*:
 A role's curve is either named by the user (``curves = { porosity = "PHIE" }`` in
 the well's entry of the project file) or found by trying the mnemonics of
 :data:`ROLE_ALIASES` in order, case-insensitively. The mnemonics are common
-LAS usage (common practice), not a standard.
+LAS usage (common practice), not a standard. When no alias names a permeability
+curve, a curve named ``K...`` or ``PERM...`` (a direction or method suffix: ``KH``,
+``KLOGH``, ``PERM_H``) is taken if its unit is a permeability unit (mD, D, darcy)
+and it is the only such curve; two such curves are refused, never guessed between.
+:func:`explain_roles` gives, per role, the curve taken and why (shown by ``inspect``).
 """
 
 from __future__ import annotations
 
+import re
 from typing import Mapping
 
 import numpy as np
@@ -23,7 +28,8 @@ from . import units
 from .errors import MissingCurveError, ProjectFileError, UnitError
 from .well import Well
 
-__all__ = ["ROLE_ALIASES", "ROLES", "detect_roles", "require_role", "role_values", "find_curve"]
+__all__ = ["ROLE_ALIASES", "ROLES", "detect_roles", "explain_roles", "require_role",
+           "role_values", "find_curve", "PERMEABILITY_PATTERN"]
 
 #: Curve mnemonics tried for each role, most preferred first, compared
 #: case-insensitively with the curves of a well (the index curve is never picked).
@@ -35,6 +41,10 @@ ROLE_ALIASES: dict[str, tuple[str, ...]] = {
     "resistivity": ("RT", "RDEEP", "RD", "RDEP", "RES_DEEP", "ILD", "LLD"),
     "sw": ("SW", "SW_LOG", "SWLOG", "SWE", "SWT", "SWA"),
 }
+
+#: Mnemonics of permeability curves with a direction or method suffix (KH, KLOGH, PERM_H),
+#: taken only with a permeability unit as evidence (K alone with unit % is potassium).
+PERMEABILITY_PATTERN = re.compile(r"^(K|PERM)[A-Z0-9_]*$", re.I)
 
 #: The roles, in the order they are reported.
 ROLES: tuple[str, ...] = tuple(ROLE_ALIASES)
@@ -74,18 +84,94 @@ def find_curve(well: Well, mnemonic: str) -> str | None:
     return None
 
 
-def _auto_detect(well: Well, aliases: tuple[str, ...]) -> str | None:
-    """First alias (in preference order) that names a non-index curve of ``well``."""
+def _by_lower(well: Well) -> dict[str, str]:
+    """Lower-case mnemonic -> key of the non-index curves (first in file order wins)."""
     by_lower: dict[str, str] = {}
     for key in well.curves:
-        if key == well.index_mnemonic:
+        if key != well.index_mnemonic:
+            by_lower.setdefault(key.lower(), key)
+    return by_lower
+
+
+def _is_permeability_unit(unit: str) -> bool:
+    if not units.normalise_unit(unit):
+        return False
+    try:
+        units.factor(unit, "permeability")
+    except UnitError:
+        return False
+    return True
+
+
+def _pattern_candidates(well: Well, aliases: tuple[str, ...]) -> list[str]:
+    """Non-index curves named K*/PERM* with a permeability unit, not in ``aliases``."""
+    tried = {a.lower() for a in aliases}
+    return [key for key in _by_lower(well).values()
+            if key.lower() not in tried and PERMEABILITY_PATTERN.match(key.split(":")[0])
+            and _is_permeability_unit(well.curves[key].unit)]
+
+
+def _auto_detect(well: Well, role: str, aliases: tuple[str, ...]) -> tuple[str | None, str, list[str]]:
+    """(curve, reason, ambiguous candidates) for one role without a user choice."""
+    by_lower = _by_lower(well)
+    hits = [by_lower[a.lower()] for a in aliases if a.lower() in by_lower]
+    skipped = ""
+    if role == "permeability":
+        # K in % is potassium (spectral gamma ray): an alias needs no unit or a permeability unit
+        wrong = [k for k in hits if units.normalise_unit(well.curves[k].unit)
+                 and not _is_permeability_unit(well.curves[k].unit)]
+        hits = [k for k in hits if k not in wrong]
+        skipped = "".join(f"; {k} skipped: unit {well.curves[k].unit!r} is not a permeability "
+                          "unit" for k in wrong)
+    if hits:
+        reason = f"{hits[0]} is the first of the {role} aliases ({', '.join(aliases)}) in the file"
+        if len(hits) > 1:
+            reason += f"; also present, later in that list: {', '.join(hits[1:])}"
+        return hits[0], reason + skipped, []
+    if role != "permeability":
+        return None, f"no curve named {', '.join(aliases)}", []
+    cands = _pattern_candidates(well, aliases)
+    if len(cands) == 1:
+        key = cands[0]
+        return key, (f"{key} matches K*/PERM* and its unit {well.curves[key].unit!r} is a "
+                     "permeability unit (the only such curve)"), []
+    if cands:
+        return None, (f"{len(cands)} curves match K*/PERM* with a permeability unit: "
+                      f"{', '.join(cands)}; not guessed"), cands
+    return None, (f"no curve named {', '.join(aliases)}, and none named K*/PERM* with a "
+                  f"permeability unit (mD, D, darcy){skipped}"), []
+
+
+def explain_roles(well: Well, overrides: Mapping[str, str | None] | None = None,
+                  aliases: Mapping[str, tuple[str, ...]] = ROLE_ALIASES
+                  ) -> dict[str, tuple[str | None, str, list[str]]]:
+    """Per role: the curve taken (or None), the reason in words, and the candidates
+    when the choice was refused as ambiguous (else an empty list).
+
+    Never raises for an ambiguous choice (``inspect`` shows it); :func:`detect_roles`
+    does. Raises as :func:`detect_roles` for an override naming no curve.
+    """
+    where = str(well.source)
+    overrides = dict(overrides or {})
+    for role in overrides:
+        _check_role(role, where)
+    out: dict[str, tuple[str | None, str, list[str]]] = {}
+    for role in aliases:
+        chosen = overrides.get(role)
+        if chosen is None:
+            out[role] = _auto_detect(well, role, tuple(aliases[role]))
             continue
-        by_lower.setdefault(key.lower(), key)   # first curve in file order wins
-    for alias in aliases:
-        hit = by_lower.get(alias.lower())
-        if hit is not None:
-            return hit
-    return None
+        key = find_curve(well, str(chosen))
+        if key is None:
+            raise MissingCurveError(
+                f"curve {chosen!r} given for {role} is not in the file "
+                f"(curves present: {_curves_present(well)})",
+                where=where,
+                hint=f"correct curves = {{ {role} = \"MNEMONIC\" }} in this well's entry "
+                     "of the project file",
+            )
+        out[role] = (key, f"{key} is named for {role} in the project file", [])
+    return out
 
 
 def detect_roles(well: Well, overrides: Mapping[str, str | None] | None = None,
@@ -99,7 +185,8 @@ def detect_roles(well: Well, overrides: Mapping[str, str | None] | None = None,
         Role -> mnemonic chosen by the user (from the project file). A ``None``
         value means "detect it". Matching is case-insensitive.
     aliases : dict[str, tuple[str, ...]]
-        Mnemonics to try per role, in preference order (default :data:`ROLE_ALIASES`).
+        Mnemonics to try per role, in preference order (default :data:`ROLE_ALIASES`);
+        then, for permeability only, :data:`PERMEABILITY_PATTERN` with a permeability unit.
 
     Returns
     -------
@@ -109,30 +196,20 @@ def detect_roles(well: Well, overrides: Mapping[str, str | None] | None = None,
     Raises
     ------
     MissingCurveError
-        If an override names a curve the well does not have (lists the curves present).
+        If an override names a curve the well does not have (lists the curves
+        present), or two curves match the permeability pattern and none is named
+        (lists them and how to choose).
     ProjectFileError
         If an override names an unknown role.
     """
-    where = str(well.source)
-    overrides = dict(overrides or {})
-    for role in overrides:
-        _check_role(role, where)
     found: dict[str, str | None] = {}
-    for role in aliases:
-        chosen = overrides.get(role)
-        if chosen is not None:
-            key = find_curve(well, str(chosen))
-            if key is None:
-                raise MissingCurveError(
-                    f"curve {chosen!r} given for {role} is not in the file "
-                    f"(curves present: {_curves_present(well)})",
-                    where=where,
-                    hint=f"correct curves = {{ {role} = \"MNEMONIC\" }} in this well's entry "
-                         "of the project file",
-                )
-            found[role] = key
-        else:
-            found[role] = _auto_detect(well, tuple(aliases[role]))
+    for role, (key, reason, cands) in explain_roles(well, overrides, aliases).items():
+        if cands:
+            raise MissingCurveError(
+                f"which curve is {role} is ambiguous: {reason}", where=str(well.source),
+                hint=f"name it in this well's entry of the project file, e.g. "
+                     f"curves = {{ {role} = \"{cands[0]}\" }}")
+        found[role] = key
     return found
 
 
@@ -171,6 +248,8 @@ def require_role(well: Well, role: str, mnemonic: str | None,
                 f"(curves present: {_curves_present(well)})")
     else:
         tried = ", ".join(aliases.get(role, ())) or "(none)"
+        if role == "permeability":
+            tried += " and K*/PERM* with a permeability unit"
         what = (f"no {role} curve found: tried {tried}; "
                 f"curves present: {_curves_present(well)}")
     raise MissingCurveError(
@@ -218,10 +297,11 @@ def role_values(well: Well, role: str, mnemonic: str) -> tuple[np.ndarray, list[
     kind = _ROLE_KIND[role]
     unit = curve.unit
     lookup = unit
-    if kind == "permeability" and units.normalise_unit(unit) == "":
-        lookup = "mD"                       # usual unit of log permeability (common practice)
-    elif kind == "resistivity" and units.normalise_unit(unit) == "":
-        lookup = "ohm.m"
+    warnings: list[str] = []
+    if kind in _EMPTY_UNIT_MEANS and units.normalise_unit(unit) == "":
+        lookup = _EMPTY_UNIT_MEANS[kind]    # usual unit of such logs (common practice)
+        warnings.append(f"{where}: {role} curve {key!r} has no unit; read as {lookup} "
+                        f"(give the unit in the ~Curve line to silence this)")
     try:
         f = units.factor(lookup, kind)
     except UnitError as exc:
@@ -229,33 +309,41 @@ def role_values(well: Well, role: str, mnemonic: str) -> tuple[np.ndarray, list[
                         where=where, hint=exc.hint) from exc
     data = np.asarray(curve.data, dtype=np.float64)
     out = data * f                         # always a new array
+    if kind == "fraction":
+        out, more = _fraction_fixups(data, out, f, f"{where}: {role} curve {key!r}", unit)
+        warnings += more
+    return out, warnings
+
+
+# Unit read for a curve without one, by kind (common practice for log curves).
+_EMPTY_UNIT_MEANS = {"permeability": "mD", "resistivity": "ohm.m"}
+
+
+def _fraction_fixups(data: np.ndarray, out: np.ndarray, f: float, label: str,
+                     unit: str) -> tuple[np.ndarray, list[str]]:
+    """Percent read from the value range, or a unit of percent whose values look like
+    fractions: the values (new array when divided) and the notes."""
     warnings: list[str] = []
-    if kind == "fraction" and f == 1.0:
-        finite = data[np.isfinite(data)]
-        share_above_one = float(np.mean(finite > 1.0)) if finite.size else 0.0
-        if (finite.size and float(finite.max()) > 1.0
-                and not (float(finite.max()) > _PERCENT_THRESHOLD
-                         and share_above_one >= _PERCENT_MIN_SHARE)):
+    finite = data[np.isfinite(data)]
+    if not finite.size:
+        return out, warnings
+    top = float(finite.max())
+    if f == 1.0 and top > 1.0:
+        share_above_one = float(np.mean(finite > 1.0))
+        if not (top > _PERCENT_THRESHOLD and share_above_one >= _PERCENT_MIN_SHARE):
             # a fraction curve with a few spikes: keep it; the spikes are flagged downstream
             warnings.append(
-                f"{where}: {role} curve {key!r} has unit {unit or '(none)'!r} and "
-                f"{int(np.sum(finite > 1.0))} of {finite.size} values above 1 (up to "
-                f"{float(finite.max()):g}); read as fractions, the values above 1 are unusable "
-                "(give the curve unit % if it is in percent)"
-            )
-        elif finite.size and float(finite.max()) > _PERCENT_THRESHOLD:
+                f"{label} has unit {unit or '(none)'!r} and {int(np.sum(finite > 1.0))} of "
+                f"{finite.size} values above 1 (up to {top:g}); read as fractions, the values "
+                "above 1 are unusable (give the curve unit % if it is in percent)")
+        elif top > _PERCENT_THRESHOLD:
             out = out / 100.0
             warnings.append(
-                f"{where}: {role} curve {key!r} has unit {unit or '(none)'!r} but values up to "
-                f"{float(finite.max()):g}; read as percent and divided by 100 "
-                "(give the curve unit % in the LAS file to silence this)"
-            )
-    elif kind == "fraction" and f == 0.01:
-        finite = data[np.isfinite(data)]
-        if finite.size and 0.0 < float(finite.max()) <= 1.0:
-            warnings.append(
-                f"{where}: {role} curve {key!r} has unit {unit!r} (percent) but no value above "
-                f"1 (largest {float(finite.max()):g}); read as percent as the unit says "
-                "(if the values are fractions, give the curve unit V/V)"
-            )
+                f"{label} has unit {unit or '(none)'!r} but values up to {top:g}; read as "
+                "percent and divided by 100 (give the curve unit % in the LAS file to silence "
+                "this)")
+    elif f == 0.01 and 0.0 < top <= 1.0:
+        warnings.append(
+            f"{label} has unit {unit!r} (percent) but no value above 1 (largest {top:g}); read "
+            "as percent as the unit says (if the values are fractions, give the curve unit V/V)")
     return out, warnings

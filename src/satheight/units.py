@@ -27,7 +27,8 @@ _LENGTH = {"m": 1.0, "meter": 1.0, "meters": 1.0, "metre": 1.0, "metres": 1.0,
            # US survey foot (1200/3937 m): never taken for the international foot
            "usft": C.US_SURVEY_FOOT, "us ft": C.US_SURVEY_FOOT, "ftus": C.US_SURVEY_FOOT,
            "us-ft": C.US_SURVEY_FOOT, "survey ft": C.US_SURVEY_FOOT,
-           "us survey ft": C.US_SURVEY_FOOT, "us survey foot": C.US_SURVEY_FOOT}
+           "us survey ft": C.US_SURVEY_FOOT, "us survey foot": C.US_SURVEY_FOOT,
+           ".1in": 0.00254}                # tenths of an inch: depth unit of older LAS files
 # Absolute pressures. "psi" and "bar" without a suffix are taken as absolute.
 _PRESSURE = {"pa": 1.0, "kpa": 1e3, "mpa": 1e6, "bar": 1e5, "bara": 1e5, "psi": C.PSI,
              "psia": C.PSI, "atm": C.STANDARD_ATMOSPHERE, "kgf/cm2": C.KGF_PER_CM2,

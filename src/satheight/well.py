@@ -63,7 +63,8 @@ class Well:
     md : numpy.ndarray
         Measured depth of each sample [m], strictly increasing.
     depth_unit : str
-        Unit of the depth index in the file, normalised to ``"m"`` or ``"ft"``.
+        Unit of the depth index in the file, normalised to ``"m"``, ``"ft"`` or ``".1in"``
+        (tenths of an inch, older files).
     index_mnemonic : str
         Mnemonic of the depth curve in the file (``"DEPT"``, ``"DEPTH"``, ``"MD"``).
     curves : dict[str, Curve]
