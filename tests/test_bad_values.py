@@ -97,7 +97,7 @@ def test_rt_not_positive_gives_no_archie_sw(tmp_path):
     result, _ = make(tmp_path, [0.2] * 5, [100.0] * 5, rt=rt)
     assert result.sw_log_source == "archie"
     assert np.isnan(result.sw_log[[1, 2, 3]]).all()
-    # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (REFERENCES.md, computed)
+    # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (archie1942; computed by hand)
     np.testing.assert_allclose(result.sw_log[[0, 4]], np.sqrt(0.05 / (0.04 * np.array([20, 5]))))
     assert np.isnan(archie_sw(np.array([0.0, -2.0]), np.array([0.2, 0.2]), 0.05)).all()
 

@@ -33,7 +33,7 @@ def test_sw_one_below_fwl_and_decreasing_above():
 
 
 def test_pc_over_height_is_delta_rho_g():
-    # Pc = (rho_w - rho_h) g h (hydrostatics; REFERENCES.md #7 form)
+    # Pc = (rho_w - rho_h) g h (hydrostatics, tiab2004; common practice)
     z = np.linspace(1000, 1149, 50)
     r = compute_shm(z, np.full(50, 0.2), np.full(50, 1e-13), [zone()])
     assert r.pc / r.hafwl == pytest.approx(np.full(50, 300.0 * C.STANDARD_GRAVITY), rel=1e-12)

@@ -1,7 +1,7 @@
 """Fluid densities from correlations (satheight.fluids) and their project-file keys.
 
-Outside values come from ../shared/REFERENCES.md ("Fluid densities"), which names
-their sources, and from two general-purpose reference libraries: iapws (IAPWS-95
+Outside values come from the published correlations (keys of docs/references.md:
+batzle1992, sutton1985, dranchuk1975, hall1973, standing1942, standing1947), and from two general-purpose reference libraries: iapws (IAPWS-95
 water) and CoolProp (methane equation of state; Melinder NaCl brine tables).
 """
 
@@ -29,7 +29,7 @@ METHANE_GRAVITY = 16.043 / 28.9647
 # brine (Batzle & Wang 1992)
 # ----------------------------------------------------------------------------------
 @pytest.mark.parametrize("t_c, p_mpa, expected", [
-    (80.0, 30.0, 985.675),     # REFERENCES.md: Batzle & Wang 1992 eq. 27a
+    (80.0, 30.0, 985.675),     # batzle1992 eq. 27a, computed
     (20.0, 0.1, 997.14),
     (150.0, 50.0, 943.33),
     (200.0, 100.0, 921.17),
@@ -41,7 +41,7 @@ def test_batzle_wang_pure_water_reference_values(t_c, p_mpa, expected):
 
 @pytest.mark.parametrize("t_c, p_mpa", [(80.0, 30.0), (20.0, 0.1), (150.0, 50.0), (200.0, 100.0)])
 def test_batzle_wang_pure_water_against_iapws95(t_c, p_mpa):
-    # library: iapws IAPWS-95; bound +-3 kg/m3 as stated in REFERENCES.md
+    # library: iapws IAPWS-95; bound +-3 kg/m3 (batzle1992 accuracy)
     ref = iapws.IAPWS95(T=t_c + K0, P=p_mpa).rho
     rho = float(fluids.water_density_batzle_wang(p_mpa * MPA, t_c + K0))
     assert abs(rho - ref) <= 3.0
@@ -49,7 +49,7 @@ def test_batzle_wang_pure_water_against_iapws95(t_c, p_mpa):
 
 @pytest.mark.parametrize("s, expected", [(0.1, 1054.983), (0.2, 1128.627)])
 def test_batzle_wang_brine_reference_values(s, expected):
-    # REFERENCES.md: eq. 27b at 80 degC, 30 MPa (memory + computed)
+    # batzle1992 eq. 27b at 80 degC, 30 MPa (one term recalled from memory; computed)
     rho = float(fluids.brine_density_batzle_wang(30 * MPA, 80 + K0, s))
     assert rho == pytest.approx(expected, abs=0.01)
 
@@ -58,7 +58,7 @@ def test_batzle_wang_brine_reference_values(s, expected):
 @pytest.mark.parametrize("s", [0.05, 0.1, 0.2])
 def test_batzle_wang_brine_against_independent_nacl_model(t_c, s):
     # library: CoolProp incompressible NaCl(aq) (Melinder tables, valid to 40 degC);
-    # bound +-5 kg/m3 as stated in REFERENCES.md
+    # (melinder2010); bound +-5 kg/m3 (batzle1992 accuracy)
     ref = CP.PropsSI("D", "T", t_c + K0, "P", 1e6, f"INCOMP::MNA[{s}]")
     rho = float(fluids.brine_density_batzle_wang(1e6, t_c + K0, s))
     assert abs(rho - ref) <= 5.0
@@ -81,8 +81,8 @@ def test_brine_rejects_salinity_outside_fraction():
 # gas (Sutton pseudo-criticals, DAK and Hall-Yarborough z)
 # ----------------------------------------------------------------------------------
 def test_dak_standing_katz_chart_point():
-    # REFERENCES.md: Standing-Katz chart at Ppr 2, Tpr 1.5 reads z ~ 0.82 (from memory);
-    # DAK 0.8215 (computed there)
+    # standing1942: Standing-Katz chart at Ppr 2, Tpr 1.5 reads z ~ 0.82 (from memory);
+    # dranchuk1975: DAK 0.8215 (computed)
     assert float(fluids.z_factor_dak(2.0, 1.5)) == pytest.approx(0.8215, abs=5e-4)
     assert float(fluids.z_factor_dak(2.0, 1.5)) == pytest.approx(0.82, abs=0.01)
     assert float(fluids.z_factor_hall_yarborough(2.0, 1.5)) == pytest.approx(0.82, abs=0.01)
@@ -95,7 +95,8 @@ def test_z_factor_tends_to_one_at_low_pressure():
 
 
 def test_methane_density_reference_values():
-    # REFERENCES.md: methane 100 degC, 30 MPa: DAK z 0.9931, rho 156.21; HY 156.55;
+    # dranchuk1975 + sutton1985 (computed): methane 100 degC, 30 MPa: z 0.9931, rho 156.21;
+    # hall1973: 156.55;
     # 60 degC, 10 MPa: DAK 64.16
     rho, z = fluids.gas_density(30 * MPA, 100 + K0, METHANE_GRAVITY, "dak")
     assert float(z) == pytest.approx(0.9931, abs=1e-4)
@@ -109,7 +110,7 @@ def test_methane_density_reference_values():
 @pytest.mark.parametrize("method", ["dak", "hall_yarborough"])
 @pytest.mark.parametrize("t_c, p_mpa", [(100.0, 30.0), (60.0, 10.0), (80.0, 20.0)])
 def test_methane_density_against_coolprop(method, t_c, p_mpa):
-    # library: CoolProp methane reference equation of state; bound +-2 % (REFERENCES.md)
+    # library: CoolProp methane reference equation of state; (setzmann1991); bound +-2 %
     ref = CP.PropsSI("D", "T", t_c + K0, "P", p_mpa * MPA, "Methane")
     rho, _ = fluids.gas_density(p_mpa * MPA, t_c + K0, METHANE_GRAVITY, method)
     assert abs(float(rho) / ref - 1) <= 0.02
@@ -134,7 +135,7 @@ def test_air_density_ideal_gas():
 # oil (Standing)
 # ----------------------------------------------------------------------------------
 def test_standing_oil_reference_values():
-    # REFERENCES.md: 35 API, Rs 500 scf/STB, gas gravity 0.75, 200 degF:
+    # standing1947: 35 API, Rs 500 scf/STB, gas gravity 0.75, 200 degF:
     # Bo 1.29784, rho 717.5 kg/m3 (44.790 lb/ft3) (Standing, from memory; computed)
     rs = 500 * FOOT**3 / 0.158987294928          # scf/STB -> m3/m3 (1 bbl = 0.158987 m3)
     t = (200 - 32) / 1.8 + K0
@@ -201,7 +202,7 @@ def test_project_correlation_densities(tmp_path, las):
         conditions = { pressure = "30 MPa", temperature = "80 degC" }
         """)
     z = load_project(p).zones[0]
-    # REFERENCES.md: Batzle & Wang brine S = 0.1 at 80 degC, 30 MPa: 1054.983 kg/m3
+    # batzle1992 eq. 27b (computed): brine S = 0.1 at 80 degC, 30 MPa: 1054.983 kg/m3
     assert z.water_density == pytest.approx(1054.983, abs=0.01)
     rho_o, _ = fluids.oil_density_standing(35, 500 * FOOT**3 / 0.158987294928, 0.75, 80 + K0)
     assert z.hydrocarbon_density == pytest.approx(float(rho_o), rel=1e-12)
@@ -287,7 +288,7 @@ def test_project_fluid_errors_name_the_key(tmp_path, las, zone, key, words):
 
 
 def test_hydrostatic_gradient_round_trip():
-    # 1 g/cc fresh water: 0.433528 psi/ft (REFERENCES.md #6, computed)
+    # 1 g/cc fresh water: 0.433528 psi/ft (nist2008 + cgpm1901, computed: 1000 * 9.80665 * 0.3048 / 6894.757)
     g = float(fluids.hydrostatic_gradient(1000.0))
     assert g / (PSI / FOOT) == pytest.approx(0.433528, abs=1e-6)
     assert g == pytest.approx(1000.0 * STANDARD_GRAVITY)

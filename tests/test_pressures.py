@@ -1,7 +1,7 @@
 """FWL from formation pressures: reader, gradient fits, intersections, command.
 
-The worked example is ../shared/REFERENCES.md "Free-water level from pressures"
-(computed there): water line p = 14.7 + 0.45 D psia, oil line through 4400 psia at
+The worked example is a closed form worked by hand (pressure lines linear in depth,
+dake1978; units nist2008): water line p = 14.7 + 0.45 D psia, oil line through 4400 psia at
 9500 ft with 0.33 psi/ft -> FWL 10,419.17 ft, Pc at 9500 ft 110.30 psi,
 densities 0.7612 and 1.0380 g/cc.
 """
@@ -25,7 +25,7 @@ ROOT = Path(__file__).resolve().parents[1]
 
 
 def reference_csv(tmp_path, extra_rows=()):
-    rows = ["# the REFERENCES.md example", "well,tvdss [ft],pressure [psia],fluid,quality"]
+    rows = ["# the worked example of the module docstring", "well,tvdss [ft],pressure [psia],fluid,quality"]
     for d in (10450, 10550, 10650, 10750):
         rows.append(f"A,{d},{14.7 + 0.45 * d:.6f},water,good")
     for d in (9200, 9400, 9500, 9700, 9900):
@@ -39,13 +39,13 @@ def reference_csv(tmp_path, extra_rows=()):
 def test_reference_example_exactly(tmp_path):
     pts = read_pressure_points(reference_csv(tmp_path))
     res = analyse_pressures(pts)[""]
-    # REFERENCES.md: FWL 10,419.17 ft
+    # closed form (docstring): FWL 10,419.17 ft
     assert res.fwl.depth / FOOT == pytest.approx(10419.1667, abs=1e-3)
     assert round(res.fwl.depth / FOOT, 2) == 10419.17
     # exact data: no uncertainty, no rejection
     assert res.fwl.se == pytest.approx(0.0, abs=1e-6)
     assert res.lines["water"].rejected.size == 0 and res.lines["oil"].rejected.size == 0
-    # REFERENCES.md: Pc at 9500 ft = 110.30 psi; densities 1.0380 and 0.7612 g/cc
+    # closed form (docstring): Pc at 9500 ft = 110.30 psi; densities 1.0380 and 0.7612 g/cc
     assert float(res.capillary_pressure_at(9500 * FOOT)) / PSI == pytest.approx(110.30, abs=1e-6)
     assert res.lines["water"].density / 1000 == pytest.approx(1.0380, abs=5e-5)
     assert res.lines["oil"].density / 1000 == pytest.approx(0.7612, abs=5e-5)

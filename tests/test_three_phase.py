@@ -91,7 +91,7 @@ def test_column_pc_j_broadcasts_over_candidates():
 
 
 def test_existing_two_phase_behaviour_unchanged():
-    # a zone without the new fields: Pc = drho g h and Sw = 1 below the FWL (DESIGN.md)
+    # a zone without the new fields: Pc = drho g h and Sw = 1 below the FWL (tiab2004 hydrostatics; common practice)
     zn = zone(False)
     z = np.array([2050.0, 2100.0, 2110.0])
     res = profile(zn, z)

@@ -1,7 +1,6 @@
 """Minimum-curvature trajectory against closed-form cases.
 
-Reference values: ../shared/REFERENCES.md "Well trajectory" (Sawaryn & Thorogood 2005,
-SPE 84246; equations from memory) and circle geometry computed here from first principles.
+Reference values: sawaryn2005 (Sawaryn & Thorogood 2005, SPE 84246; equations from memory) and circle geometry computed here from first principles.
 """
 
 import math
@@ -15,7 +14,7 @@ from satheight.trajectory import (direction_vectors, dogleg, interpolate, minimu
                                   ratio_factor, vertical)
 
 FT = 0.3048  # international foot [m], NIST SP 811
-R_BUILD_FT = 1909.859  # radius of a 3 deg/100 ft build: 100 / (3 pi/180) ft (REFERENCES.md, computed)
+R_BUILD_FT = 1909.859  # radius of a 3 deg/100 ft build: 100 / (3 pi/180) ft (sawaryn2005; circle geometry, computed by hand)
 
 
 def _build_survey(step_ft):
@@ -25,7 +24,7 @@ def _build_survey(step_ft):
 
 
 def test_vertical_well():
-    # REFERENCES.md: vertical well, TVD = MD
+    # sawaryn2005 / closed form: vertical well, TVD = MD
     md = np.array([0.0, 250.0, 1000.0, 2500.0])
     tr = minimum_curvature(md, np.zeros(4), np.zeros(4))
     np.testing.assert_allclose(tr.tvd, md, atol=1e-12)
@@ -41,13 +40,13 @@ def test_vertical_well():
 
 @pytest.mark.parametrize("step_ft", [3000.0, 1000.0, 100.0, 30.0, 7.0])
 def test_constant_build_any_spacing(step_ft):
-    # REFERENCES.md: 3 deg/100 ft from 0 to 90 deg over 3000 ft: TVD = displacement = 1909.859 ft
+    # closed form (circle of radius R_BUILD_FT): 3 deg/100 ft from 0 to 90 deg over 3000 ft: TVD = displacement = 1909.859 ft
     md, inc, azi = _build_survey(step_ft)
     tr = minimum_curvature(md, inc, azi)
     assert tr.tvd[-1] / FT == pytest.approx(R_BUILD_FT, abs=1e-3)
     assert tr.north[-1] / FT == pytest.approx(R_BUILD_FT, abs=1e-3)
     assert abs(tr.east[-1]) < 1e-9
-    # REFERENCES.md: at MD 1000 ft (30 deg): TVD 954.930, displacement 255.873 ft,
+    # closed form: R sin 30, R (1 - cos 30): at MD 1000 ft (30 deg): TVD 954.930, displacement 255.873 ft,
     # here between stations (interpolated on the arc) whenever 1000 ft is not a station
     tvd, n, _ = tr.at(np.array([1000.0 * FT]))
     assert tvd[0] / FT == pytest.approx(954.930, abs=1e-3)
@@ -55,7 +54,7 @@ def test_constant_build_any_spacing(step_ft):
 
 
 def test_build_tells_minimum_curvature_from_balanced_tangential():
-    # REFERENCES.md: balanced tangential with 100 ft stations gives TVD 1909.423 ft at 90 deg
+    # computed by hand (sawaryn2005 methods): balanced tangential with 100 ft stations gives TVD 1909.423 ft at 90 deg
     md, inc, azi = _build_survey(100.0)
     bt = np.sum(0.5 * np.diff(md) * (np.cos(inc[:-1]) + np.cos(inc[1:]))) / FT
     assert bt == pytest.approx(1909.423, abs=1e-3)
@@ -65,7 +64,7 @@ def test_build_tells_minimum_curvature_from_balanced_tangential():
 
 
 def test_horizontal_turn():
-    # REFERENCES.md: I = 90 deg, azimuth 0 -> 90 deg over MD 1570.796 ft: N = E = 1000, dTVD = 0
+    # closed form (quarter circle of radius 1000 ft): I = 90 deg, azimuth 0 -> 90 deg over MD 1570.796 ft: N = E = 1000, dTVD = 0
     L = 1000.0 * math.pi / 2
     tr = minimum_curvature([0.0, L], np.radians([90.0, 90.0]), np.radians([0.0, 90.0]))
     assert tr.north[-1] == pytest.approx(1000.0, abs=1e-6)
@@ -80,7 +79,7 @@ def test_horizontal_turn():
 
 
 def test_hold_45():
-    # REFERENCES.md: hold 45 deg, dTVD = 707.107 per 1000 ft
+    # closed form (1000 cos 45): hold 45 deg, dTVD = 707.107 per 1000 ft
     tr = minimum_curvature([0.0, 1000.0, 3000.0], np.radians([45.0] * 3), np.radians([30.0] * 3))
     assert tr.tvd[1] == pytest.approx(707.107, abs=1e-3)
     assert tr.tvd[2] - tr.tvd[1] == pytest.approx(2 * 707.107, abs=2e-3)
@@ -124,7 +123,7 @@ def test_arc_in_3d_independent_of_spacing_between_stations(station_step):
 
 def test_not_linear_interpolation_between_stations():
     # one 3000 ft build interval: linear interpolation of TVD at 1000 ft would give 636.6 ft,
-    # the arc gives 954.930 ft (REFERENCES.md)
+    # the arc gives 954.930 ft (closed form R sin 30)
     md, inc, azi = _build_survey(3000.0)
     tr = minimum_curvature(md, inc, azi)
     lin = np.interp(1000.0 * FT, tr.md, tr.tvd) / FT

@@ -417,7 +417,7 @@ def _build_well(path: Path, raw: _RawLas) -> Well:
     )
 
 
-# --- robustness checks (issue 6): small, local, run before lasio -----------------
+# --- robustness checks: damaged files fail here with a line number, before lasio --
 
 # A section title line: "~" as the first non-blank character of a line.
 _SECTION_LINE = re.compile(r"^[ \t]*~(\S?)", re.M)
@@ -766,7 +766,7 @@ def _description(text: str) -> str:
     A LAS 2.0 header line splits value and description at its last colon, so a
     colon inside a description is written as a semicolon.
     """
-    # robustness (issue 6): inner blanks are kept as read; only line breaks are joined
+    # inner blanks are kept as read (they are the user's text); only line breaks are joined
     return " ".join(str(text).splitlines()).strip().replace(":", ";")
 
 

@@ -711,7 +711,7 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
 
 
 # --------------------------------------------------------------------------------------
-# reliability (issue 6): what was read, and not overwriting earlier results by accident
+# what was read, and never overwriting earlier results by accident
 
 #: Files whose presence marks a folder as holding the results of an earlier run.
 OUTPUT_MARKERS = ("run_summary.json",)
