@@ -34,6 +34,17 @@ def _zone(fn, **kw):
                      function=fn, **kw)
 
 
+def _j_by_hand(z, phi, k):
+    """J in _zone() written out: h = 1090 - z; Pc = (1100 - 800) kg/m3 * 9.80665 * h
+    (hydrostatics, tiab2004; cgpm1901); J = Pc sqrt(k / phi) / 0.026 N/m (leverett1941)."""
+    return 300.0 * 9.80665 * (1090.0 - np.asarray(z, float)) * np.sqrt(k / phi) / 0.026
+
+
+def _power_law_by_hand(j, swirr, a, b):
+    """swirr + (1 - swirr) a J^-b clipped to [0, 1] (the power law of satheight.models.power_law)."""
+    return np.clip(swirr + (1 - swirr) * a * np.power(j, -b), 0.0, 1.0)
+
+
 def test_engine_per_rock_type_functions():
     fa = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 1.2})
     fb = build_function("brooks_corey", {"swirr": 0.2, "jd": 0.3, "lam": 2.0})
@@ -44,14 +55,18 @@ def test_engine_per_rock_type_functions():
     k = np.array([1, 5, 50, 500, 5000, 100]) * MD
     res = compute_shm(z, phi, k, [zone])
     tight, good, none = k < 10 * MD, (k >= 10 * MD) & (k < 1000 * MD), k >= 1000 * MD
-    np.testing.assert_allclose(res.sw[tight], fb.predict(res.j[tight]))
-    np.testing.assert_allclose(res.sw[good], fa.predict(res.j[good]))
+    # closed forms (_j_by_hand): brooks1964 with jd 0.3, lam 2 on tight rock, the power law on good
+    j = _j_by_hand(z, phi, k)
+    bc = np.where(j >= 0.3, 0.2 + 0.8 * (j / 0.3) ** -2.0, 1.0)
+    np.testing.assert_allclose(res.sw[tight], bc[tight], rtol=1e-12)
+    np.testing.assert_allclose(res.sw[good], _power_law_by_hand(j, 0.1, 0.3, 1.2)[good], rtol=1e-12)
     assert np.all(np.isnan(res.sw[none]))
     assert np.all(res.flag[none] & FLAG_NO_ROCK_FUNCTION)
     assert not np.any(res.flag[~none] & FLAG_NO_ROCK_FUNCTION)
     # same samples with one function: the single-function path is unchanged
     single = compute_shm(z, phi, k, [_zone(fa)])
-    np.testing.assert_allclose(single.sw, fa.predict(single.j))
+    # closed form: the power law everywhere (_power_law_by_hand, _j_by_hand)
+    np.testing.assert_allclose(single.sw, _power_law_by_hand(j, 0.1, 0.3, 1.2), rtol=1e-12)
 
 
 def test_engine_height_function_gets_height():
@@ -63,6 +78,7 @@ def test_engine_height_function_gets_height():
     above = h > 0
     # Sw = 1 - a exp(-(b/h)^d) at the height above the FWL (Skelt & Harrison form)
     np.testing.assert_allclose(res.sw[above], 1 - 0.85 * np.exp(-(10.0 / h[above]) ** 1.5))
+    # closed form: Sw = 1 below the FWL; flags 16/8 = above/below the calibrated range (results.py)
     assert res.sw[3] == 1.0
     # range flags use the height range: 90 m above, 0.5 m below
     assert res.flag[0] & 16 and res.flag[2] & 8 and not res.flag[1] & 24
@@ -105,8 +121,10 @@ def test_project_function_from_model_file(tmp_path):
     f = p.zones[0].function
     assert f.family == "power_law" and f.rock_type == "B" and f.file == path.resolve()
     assert f.params == fits["B"]["fits"]["power_law"].params
-    assert f.j_range == pytest.approx(fits["B"]["fits"]["power_law"].j_range)
+    # the J range of the fitted data: geomspace(0.1, 50) in _model_file (closed form)
+    assert f.j_range == pytest.approx((0.1, 50.0), rel=1e-12)
     p = _project(tmp_path, {"file": "models.json", "rock_type": "A", "j_min": 0.5, "j_max": 9})
+    # the values given (j_min, j_max)
     assert p.zones[0].function.j_range == (0.5, 9.0)
 
 
@@ -138,9 +156,12 @@ def test_project_per_depth_rock_typing(tmp_path):
     phi = np.full(2, 0.2)
     k = np.array([1.0, 500.0]) * MD          # FZI 0.50 -> A, 11.2 -> B (Amaefule form)
     res = compute_shm(np.full(2, 1050.0), phi, k, [zm])
-    fa = build_function("power_law", fits["A"]["fits"]["power_law"].params)
-    fb = build_function("power_law", fits["B"]["fits"]["power_law"].params)
-    np.testing.assert_allclose(res.sw, [fa.predict(res.j[0]), fb.predict(res.j[1])])
+    # closed form: rock A's fitted power law at sample 0, rock B's at sample 1 (parameters as
+    # written to the model file; _power_law_by_hand, _j_by_hand with the FWL at 1090 m)
+    pa, pb = (fits[r]["fits"]["power_law"].params for r in ("A", "B"))
+    j = _j_by_hand(np.full(2, 1050.0), phi, k)
+    np.testing.assert_allclose(res.sw, [_power_law_by_hand(j[0], **pa), _power_law_by_hand(j[1], **pb)],
+                               rtol=1e-12)
     # the ROCK_ID output curve numbers the rock types in the zone's table order
     import types
 
@@ -173,7 +194,7 @@ def test_fit_command_recovers_generator_functions(fitted):
     _, out = fitted
     mf = load_models(out / "models.json")
     assert set(mf.rock_types) == {"Upper Sand", "Lower Sand"}
-    # demo_wells/make_core_demo.py made the curves from the demo zone functions
+    # known generating parameters: demo_wells/make_core_demo.py made the curves from the demo zone functions
     # (Upper Sand power law 0.10/0.30/1.20, Lower Sand Brooks-Corey 0.12/0.20/2.5)
     # with 5 % plug-to-plug spread and noise; the fit must land near them.
     up = mf.function("Upper Sand", "power_law").params_
@@ -232,6 +253,8 @@ def _same_fit(old, new, where):
     standard errors and correlations agree within 1 % and 0.01, and the goodness-of-fit numbers,
     which are well conditioned, within a relative 1e-6.
     """
+    # reproducibility of the shipped demo (common practice: shipped example files can be made
+    # again); tolerances from the conditioning, as the docstring says
     assert old.keys() == new.keys(), where
     for p, se in old["stderr"].items():
         assert abs(new["params"][p] - old["params"][p]) <= 0.01 * se + 1e-12, (where, p)
@@ -259,6 +282,7 @@ def test_core_demo_files_up_to_date(tmp_path):
     assert r.returncode == 0, r.stderr
     for f in CORE_FILES:
         assert (tmp_path / f.name).read_bytes() == f.read_bytes(), f.name
+    # reproducibility of the shipped demo (common practice), within the fit's conditioning
     old = json.loads((DEMO / "core_models.json").read_text())
     new = json.loads((tmp_path / "core_models.json").read_text())
     assert old["rock_typing"] == new["rock_typing"]
@@ -298,6 +322,7 @@ def test_fit_option_parsing():
 
     name, s = parse_lab_override("mercury_air=485 mN/m,130 deg", LAB_SYSTEMS)
     assert name == "mercury_air"
+    # closed form: sigma |cos theta| of the option's text; 26 mN/m = 0.026 N/m
     assert s.sigma_cos_theta == pytest.approx(0.485 * abs(math.cos(math.radians(130))))
     assert parse_lab_override("oil_brine=26", LAB_SYSTEMS)[1].sigma_cos_theta == pytest.approx(0.026)
     rt, f = parse_reservoir("Upper Sand=26 mN/m,0.13 psi/ft")
@@ -322,6 +347,8 @@ def test_fixed_closure_pressure_used_for_every_mercury_curve(tmp_path):
     ds = read_core_files(CORE_FILES[:2])
     pts = core_points(ds, closure=50 * 6894.757293168)
     hg = pts.system == "mercury_air"
+    # the closure given (50 psi, nist2008); closed form: Sw = 1 at and below it, no correction
+    # without one
     assert set(pts.closure.values()) == {50 * 6894.757293168}
     # at and below the closure pressure the corrected mercury saturation is 0 (Sw = 1)
     assert np.all(pts.sw[hg & (pts.pc_lab <= 50 * 6894.757293168)] == 1.0)

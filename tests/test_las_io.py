@@ -96,12 +96,15 @@ def test_read_metres_file(basic_file):
     assert well.depth_unit == "m"
     assert well.index_mnemonic == "DEPT"
     assert list(well.curves) == [c[0] for c in BASIC_CURVES]
+    # the file's own values (BASIC_ROWS; cwls1992 layout); decimal text parses to the nearest
+    # double on every CPU, so equality is exact
     np.testing.assert_array_equal(well.md, data[:, 0])
     for i, (m, unit, descr) in enumerate(BASIC_CURVES):
         c = well.curves[m]
         assert c.data.dtype == np.float64
         assert (c.unit, c.description) == (unit, descr)
         np.testing.assert_array_equal(c.data, data[:, i])
+    # the file's NULL and ~Parameter items as written above (cwls1992)
     assert well.null_value == -999.25
     assert well.parameters["EKB"].value == 25.5
     assert well.parameters["EKB"].unit == "M"
@@ -129,6 +132,7 @@ def test_index_unit_taken_from_strt_when_curve_unit_empty(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "", "depth"), ("GR", "GAPI", "")], rows, strt_unit="FT"))
     well = read_las(p)
     assert well.depth_unit == "ft"
+    # nist2008: 1 ft = 0.3048 m
     np.testing.assert_allclose(well.md, [100.0 * FOOT_M, 101.0 * FOOT_M])
 
 
@@ -156,6 +160,7 @@ def test_nulls_become_nan_except_in_index(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", ""), ("PHIE", "V/V", ""),
                                   ("X", "", "")], rows, null="-1234.5"))
     well = read_las(p)
+    # the file's values; the declared NULL (cwls1992) replaces only its own value, by curve
     np.testing.assert_array_equal(well.md, [-1000.0, -999.25, -998.5, -998.0])
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, True, False])
     np.testing.assert_array_equal(np.isnan(well.curves["PHIE"].data), [True, False, False, True])
@@ -172,6 +177,7 @@ def test_other_common_null_codes(tmp_path, code):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")],
                                  [[1.0, 5.0], [2.0, code], [3.0, 7.0]], null="-1"))
     well = read_las(p)
+    # the file's values with the NULL read as missing (cwls1992)
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, False])
     assert any("GR 1" in w for w in well.warnings)
 
@@ -180,6 +186,7 @@ def test_decreasing_depths_are_reversed_with_warning(tmp_path):
     rows = [[1002.0, 3.0], [1001.0, 2.0], [1000.0, 1.0]]
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     well = read_las(p)
+    # the file's values, in increasing depth (common practice)
     np.testing.assert_array_equal(well.md, [1000.0, 1001.0, 1002.0])
     np.testing.assert_array_equal(well.curves["GR"].data, [1.0, 2.0, 3.0])
     np.testing.assert_array_equal(well.curves["DEPT"].data, [1000.0, 1001.0, 1002.0])
@@ -304,6 +311,7 @@ def test_missing_permeability_message(tmp_path):
 def test_percent_porosity_by_unit(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("PHIE", unit, "")], [[1.0, 20.0], [2.0, 5.0]])
     values, warns = role_values(well, "porosity", "PHIE")
+    # closed form: percent / 100 (the file's 20 and 5); one IEEE division, exact to 1 ulp
     np.testing.assert_allclose(values, [0.20, 0.05], rtol=1e-15)
     assert warns == []
 
@@ -313,9 +321,11 @@ def test_percent_porosity_by_range_warns(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("PHIE", unit, ""), ("SW", unit, "")],
                      [[1.0, 20.0, 0.5], [2.0, 5.0, 0.9]])
     values, warns = role_values(well, "porosity", "PHIE")
+    # closed form: percent / 100, found by range (porosity > 1 is percent: common practice)
     np.testing.assert_allclose(values, [0.20, 0.05], rtol=1e-15)
     assert len(warns) == 1 and "percent" in warns[0] and "PHIE" in warns[0]
     sw, warns_sw = role_values(well, "sw", "SW")           # already a fraction: unchanged
+    # the file's values, already fractions
     np.testing.assert_array_equal(sw, [0.5, 0.9])
     assert warns_sw == []
 
@@ -323,6 +333,7 @@ def test_percent_porosity_by_range_warns(tmp_path, unit):
 def test_sw_percent_by_range(tmp_path):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("SW", "", "")], [[1.0, 35.0], [2.0, 100.0]])
     sw, warns = role_values(well, "sw", "SW")
+    # closed form: percent / 100 of the file's 35 and 100
     np.testing.assert_allclose(sw, [0.35, 1.0], rtol=1e-15)
     assert len(warns) == 1
 
@@ -349,6 +360,7 @@ def test_unknown_permeability_unit(tmp_path):
 def test_resistivity_units(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("RT", unit, "")], [[1.0, 12.5], [2.0, 3.0]])
     rt, _ = role_values(well, "resistivity", "RT")
+    # the file's values: ohm.m in every spelling needs no conversion
     np.testing.assert_array_equal(rt, [12.5, 3.0])
 
 
@@ -357,6 +369,7 @@ def test_role_values_do_not_modify_well(tmp_path):
     before = well.curves["PHIE"].data.copy()
     values, _ = role_values(well, "porosity", "PHIE")
     values[:] = -1.0
+    # common practice (the project's rule): inputs are never modified
     np.testing.assert_array_equal(well.curves["PHIE"].data, before)
     rt_well = make_well(tmp_path, [("DEPT", "M", ""), ("RT", "OHMM", "")], [[1.0, 2.0], [2.0, 3.0]],
                         name="rt.las")
@@ -382,6 +395,7 @@ def test_write_round_trip_with_lasio(basic_file, tmp_path):
     write_las(out, well, new_curves=new, parameters=params, null_value=-9999.0,
               extra_other="written by the test")
 
+    # library: lasio reads what we wrote; expected values are the test's inputs
     ref = lasio.read(str(out))                  # independent reader (library: lasio)
     data = np.array(BASIC_ROWS)
     for i, (m, unit, descr) in enumerate(BASIC_CURVES):
@@ -409,8 +423,9 @@ def test_write_round_trip_with_lasio(basic_file, tmp_path):
     assert str(ref.version["WRAP"].value).upper() == "NO"
 
     again = read_las(out)                       # and our own reader
-    for m in well.curves:
-        np.testing.assert_array_equal(again.curves[m].data, well.curves[m].data)
+    # the file's values as the test wrote them (BASIC_ROWS), not a second read
+    for i, (m, _, _) in enumerate(BASIC_CURVES):
+        np.testing.assert_array_equal(again.curves[m].data, data[:, i])
 
 
 def test_write_preserves_many_decimals_and_nulls(tmp_path):
@@ -429,11 +444,13 @@ def test_write_preserves_many_decimals_and_nulls(tmp_path):
     out = tmp_path / "copy.las"
     write_las(out, well)
     ref = lasio.read(str(out))
+    # library: lasio; expected: the values the test wrote (rounded text, exact doubles)
     np.testing.assert_array_equal(ref["DEPT"], depth)
     for k, v in cols.items():
         expected = np.where(v == -999.25, np.nan, v)
         np.testing.assert_array_equal(ref[k], expected)
     assert ref.well["STRT"].unit == "FT"
+    # the step the test wrote (0.1524 ft), exact in text
     assert float(ref.well["STEP"].value) == 0.1524
     data_lines = out.read_text().split("~A", 1)[1].splitlines()[1:]
     assert len(data_lines) == n
@@ -447,6 +464,7 @@ def test_write_large_values_fixed_point(tmp_path):
     write_las(out, well, new_curves=[Curve("BIG", "", "", big)])
     data_lines = out.read_text().split("~A", 1)[1].splitlines()[1:]
     assert not any(re.search(r"\d[eE][-+]?\d", ln) for ln in data_lines)
+    # library: lasio; the values given (1.5e25 and -2e20 are integers, exact in fixed point)
     np.testing.assert_array_equal(lasio.read(str(out))["BIG"], big)
 
 
@@ -455,6 +473,7 @@ def test_write_decimals_argument(tmp_path):
     out = tmp_path / "dec.las"
     write_las(out, well, new_curves=[Curve("X", "", "", np.array([1 / 3, 2 / 3]))],
               decimals={"X": 2})
+    # library: lasio; 1/3 and 2/3 rounded to 2 decimals (closed form)
     np.testing.assert_array_equal(lasio.read(str(out))["X"], [0.33, 0.67])
     with pytest.raises(InputFileError):
         write_las(out, well, new_curves=[Curve("X", "", "", np.array([1.0, 2.0]))],
@@ -467,6 +486,7 @@ def test_write_reversed_input_increasing(tmp_path):
     out = tmp_path / "inc.las"
     write_las(out, well)
     ref = lasio.read(str(out))
+    # library: lasio; the input rows sorted by depth (closed form)
     np.testing.assert_array_equal(ref["DEPT"], [1000.0, 1001.0, 1002.0])
     np.testing.assert_array_equal(ref["GR"], [1.0, 2.0, 3.0])
     assert float(ref.well["STRT"].value) == 1000.0 and float(ref.well["STEP"].value) == 1.0
@@ -594,6 +614,7 @@ def test_describe_las(tmp_path):
     data = np.array(rows)
     data[:, 1:][data[:, 1:] == -999.25] = np.nan
     assert info["well"] == "TEST-1" and info["n_samples"] == 4
+    # the file's values (rows above); min/max/null counts by numpy on the same rows
     assert info["depth"]["start"] == 1000.0 and info["depth"]["stop"] == 1001.5
     assert info["depth"]["step"] == 0.5 and info["depth"]["unit"] == "m"
     by = {c["mnemonic"]: c for c in info["curves"]}
@@ -606,6 +627,7 @@ def test_describe_las(tmp_path):
     assert info["roles"]["permeability"]["mnemonic"] is None
     assert info["roles"]["permeability"]["aliases_tried"] == list(ROLE_ALIASES["permeability"])
     assert info["path"] == str(p)
+    # the file's ~Parameter and ~Well items
     assert info["header"]["EKB"]["value"] == 30.0
     assert info["header"]["WELL"]["value"] == "TEST-1"
     assert isinstance(info["warnings"], list)

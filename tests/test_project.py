@@ -181,6 +181,7 @@ def test_valid_metric_file(proj):
     assert p.path == proj.resolve() and p.path.is_absolute()
     assert p.name == "Example field"
     assert p.unit_system == "metric"
+    # the file's values (METRIC_TOML); defaults a = 1, m = n = 2 are archie1942's
     assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=pytest.approx(0.045))
 
     (w,) = p.wells
@@ -188,6 +189,7 @@ def test_valid_metric_file(proj):
     assert w.name == "A-1"
     assert w.las == (proj.parent / "wells" / "A-1.las").resolve()
     assert w.las.is_absolute()
+    # the file's values in metres (METRIC_TOML)
     assert w.datum_elevation == pytest.approx(25.0)
     assert w.curves == {"porosity": "PHIE", "permeability": "PERM", "resistivity": "RT", "sw": "SW"}
     assert w.tops == {"Upper": (pytest.approx(2010.0), pytest.approx(2120.0))}
@@ -195,6 +197,7 @@ def test_valid_metric_file(proj):
     (z,) = p.zones
     assert isinstance(z, ZoneSpec)
     assert z.name == "Upper"
+    # the file's values; unit factors nist2008 (g/cm3, mN/m) as defined at the top
     assert (z.top, z.base, z.fwl) == (pytest.approx(1980.0), pytest.approx(2100.0),
                                       pytest.approx(2060.0))
     assert z.hydrocarbon == "oil"
@@ -203,6 +206,7 @@ def test_valid_metric_file(proj):
     assert z.sigma_cos_theta == pytest.approx(26 * DYN_CM)          # 26 mN/m = 0.026 N/m
     assert isinstance(z.function, FunctionSpec)
     assert z.function.family == "power_law"
+    # the file's values (METRIC_TOML), as typed
     assert z.function.params == {"swirr": 0.1, "a": 0.2, "b": 1.5}
     assert z.function.j_range == (0.02, 12.0)
 
@@ -211,6 +215,7 @@ def test_valid_metric_dict_bare_numbers_and_gradient(proj):
     p = parse_project(metric_data(), proj)
     lower = p.zones[1]
     # bare numbers are metric: m, kg/m3, mN/m
+    # the file's values (metric_data())
     assert (lower.top, lower.base, lower.fwl) == (2100.0, 2250.0, 2200.0)
     assert lower.hydrocarbon_density == pytest.approx(250.0)
     assert lower.sigma_cos_theta == pytest.approx(50 * DYN_CM)
@@ -231,16 +236,19 @@ def test_valid_field_file(tmp_path):
     assert p.name == "north_field"               # default: file stem
     assert p.unit_system == "field"
     assert p.log_sw.method == "archie"
+    # the file's values (FIELD_TOML; winsauer1952 constants as typed)
     assert (p.log_sw.a, p.log_sw.m, p.log_sw.n) == (0.62, 2.15, 2.0)
     assert p.log_sw.rw == pytest.approx(0.05)    # ohm.m in both systems
 
     (w,) = p.wells
     assert w.name is None
+    # the file's values, ft -> m by nist2008 (FT above)
     assert w.datum_elevation == pytest.approx(-12 * FT)         # may be negative
     assert w.tops["Gas"] == (pytest.approx(6600 * FT), pytest.approx(6900 * FT))
 
     gas, oil = p.zones
     assert gas.top is None and gas.base is None                 # tops come from the well
+    # the file's value, ft -> m (nist2008)
     assert gas.fwl == pytest.approx(6760 * FT)
     # 0.433 psi/ft -> kg/m3 = psi/ft / g. The trade rule "0.433 psi/ft is fresh water"
     # (common practice) gives about 998.8 kg/m3 with these exact factors.
@@ -252,6 +260,7 @@ def test_valid_field_file(tmp_path):
     assert gas.function.family == "brooks_corey"
     assert gas.function.params == {"swirr": 0.15, "jd": 0.3, "lam": 1.2}
 
+    # the file's values; ft -> m, psi/ft / g -> kg/m3 (nist2008, cgpm1901), dyn/cm -> N/m
     assert oil.top == pytest.approx(6900 * FT) and oil.base == pytest.approx(7300 * FT)
     assert oil.fwl == pytest.approx(2250.0)                     # explicit unit wins
     assert oil.hydrocarbon == "oil"                             # choices case-insensitive
@@ -265,6 +274,7 @@ def test_defaults_when_optional_tables_missing(proj):
     del data["log_sw"]
     del data["project"]["name"]
     p = parse_project(data, proj)
+    # defaults of the README: a = 1, m = n = 2 (archie1942), no Rw
     assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=None)
     assert p.name == "project"
 
@@ -281,6 +291,7 @@ def test_fwl_outside_zone_window_is_allowed(proj):
     zone(data)["fwl"] = "1900 m"      # whole zone below its FWL
     zone(data, "Lower")["fwl"] = 3000  # whole zone above its FWL
     p = parse_project(data, proj)
+    # the values given above (metres)
     assert p.zones[0].fwl == 1900.0 and p.zones[1].fwl == 3000.0
 
 
@@ -540,6 +551,7 @@ def test_zone_without_window_but_with_tops_is_fine(proj):
     del lower["top"], lower["base"]
     data["wells"][1]["tops"] = {"Lower": [2150, 2300]}
     p = parse_project(data, proj)
+    # the values given above (metres)
     assert p.zones[1].top is None and p.wells[1].tops == {"Lower": (2150.0, 2300.0)}
 
 
@@ -685,6 +697,7 @@ def test_comparison_cutoffs_parsed(tmp_path):
     from satheight.project import load_project
 
     p = load_project(_with_comparison(tmp_path, 'min_porosity = "8 %"\nmin_permeability = 0.5'))
+    # the file's values: 8 % = 0.08 (closed form)
     assert p.comparison.min_porosity == pytest.approx(0.08)
     # bare permeability is mD in both unit systems; 1 mD = 9.869233e-16 m^2 (NIST SP 811)
     assert p.comparison.min_permeability == pytest.approx(0.5 * 9.869233e-16)
