@@ -76,7 +76,7 @@ def test_engine_height_function_gets_height():
     res = compute_shm(z, np.full(4, 0.2), np.full(4, 100 * MD), [_zone(fn)])
     h = 1090.0 - z
     above = h > 0
-    # Sw = 1 - a exp(-(b/h)^d) at the height above the FWL (Skelt & Harrison form)
+    # closed form (skelt1995 form): Sw = 1 - a exp(-(b/h)^d) at the height above the FWL
     np.testing.assert_allclose(res.sw[above], 1 - 0.85 * np.exp(-(10.0 / h[above]) ** 1.5))
     # closed form: Sw = 1 below the FWL; flags 16/8 = above/below the calibrated range (results.py)
     assert res.sw[3] == 1.0
