@@ -183,6 +183,7 @@ def test_input_not_modified(tmp_path):
     md_before = res.well.md.copy()
     plots.track_plot(res, tmp_path / "w.png")
     for k, v in before.items():
+        # common practice (the project's rule): inputs are never modified (exact copies)
         np.testing.assert_array_equal(getattr(res, k), v)
     for k, v in shm_before.items():
         np.testing.assert_array_equal(getattr(res.shm, k), v)
@@ -288,6 +289,7 @@ def test_both_depth_axes(tmp_path, depth_axis):
     ax = fig.axes[0]
     depth = res.well.md if depth_axis == "md" else res.tvdss
     lo, hi = ax.get_ylim()
+    # common practice: depth increases downwards on a log track; limits = the data's range
     assert lo == pytest.approx(depth.max()) and hi == pytest.approx(depth.min())  # depth down
     assert ax.get_ylabel() == ("MD [m]" if depth_axis == "md" else "TVDSS [m]")
     other = [c for c in ax.child_axes]
@@ -300,6 +302,7 @@ def test_field_units_in_feet():
     fig = plots._track_figure(res, units="field")
     ax = fig.axes[0]
     lo, hi = ax.get_ylim()
+    # nist2008: m -> ft (FOOT_M); common practice: depth down
     assert lo == pytest.approx(res.well.md.max() / FOOT_M)
     assert hi == pytest.approx(res.well.md.min() / FOOT_M)
     assert ax.get_ylabel() == "MD [ft]"
@@ -313,6 +316,7 @@ def test_secondary_axis_maps_md_to_tvdss():
     main_ax = fig.axes[0]
     sec = main_ax.child_axes[0]
     lo, hi = main_ax.get_ylim()
+    # closed form: vertical well, TVDSS = MD - datum (40 m given)
     np.testing.assert_allclose(sec.get_ylim(), (lo - 40.0, hi - 40.0))
 
 
@@ -329,13 +333,14 @@ def test_bad_arguments():
 
 def test_zone_intervals_vertical_and_deviated():
     md = np.linspace(1000.0, 2000.0, 1001)
-    # vertical: TVDSS = MD - 30 (computed)
+    # closed form: vertical, TVDSS = MD - 30
     ivs = plots._zone_intervals(md, md - 30.0, 1200.0, 1300.5)
     assert ivs == [pytest.approx((1230.0, 1330.5))]
-    # constant 60 deg inclination: TVDSS = MD cos 60 = MD / 2 (computed)
+    # closed form: constant 60 deg inclination, TVDSS = MD cos 60 = MD / 2
     ivs = plots._zone_intervals(md, md * 0.5, 600.0, 700.0)
     assert ivs == [pytest.approx((1200.0, 1400.0))]
     # window running past the log stops at the log ends
+    # closed form: the window clipped to the log's 1000-2000 m; none outside it
     assert plots._zone_intervals(md, md, 500.0, 1100.0) == [pytest.approx((1000.0, 1100.0))]
     # window outside the log
     assert plots._zone_intervals(md, md, 2500.0, 2600.0) == []
@@ -345,6 +350,7 @@ def test_zone_intervals_well_passing_window_twice():
     md = np.linspace(0.0, 400.0, 401)
     tv = np.where(md <= 200.0, md, 400.0 - md)  # down to 200 then back up (invented)
     ivs = plots._zone_intervals(md, tv, 150.0, 250.0)
+    # closed form: down to 200 m and back up; a window crossed twice gives two MD intervals
     assert ivs == [pytest.approx((150.0, 250.0))]
     ivs = plots._zone_intervals(md, tv, 100.0, 150.0)
     assert ivs == [pytest.approx((100.0, 150.0)), pytest.approx((250.0, 300.0))]
@@ -361,6 +367,7 @@ def test_fwl_line_and_zone_name_drawn_at_md_of_fwl():
     for ax in fig.axes[:1]:
         ys = [ln.get_ydata()[0] for ln in ax.get_lines()
               if len(ln.get_ydata()) == 2 and ln.get_ydata()[0] == ln.get_ydata()[1]]
+        # closed form worked above: MD = TVDSS + datum
         assert any(y == pytest.approx(fwl_md) for y in ys)
 
 
@@ -373,7 +380,7 @@ def test_free_oil_level_drawn_for_gas_cap_zone():
     assert "Free-oil level Cap" in all_texts(fig)
     ys = [ln.get_ydata()[0] for ln in fig.axes[0].get_lines()
           if len(ln.get_ydata()) == 2 and ln.get_ydata()[0] == ln.get_ydata()[1]]
-    assert any(y == pytest.approx(1680.0 + datum) for y in ys)  # vertical: MD = TVDSS + datum
+    assert any(y == pytest.approx(1680.0 + datum) for y in ys)  # closed form: MD = TVDSS + datum
 
 
 def test_fwl_below_log_gets_a_note():
@@ -402,6 +409,7 @@ def test_permeability_plotted_in_millidarcy():
     lines = [ln for ax in fig.axes for ln in ax.get_lines() if ln.get_label() == "Permeability"]
     assert len(lines) == 1
     k_md = np.asarray(lines[0].get_xdata(), dtype=float)
+    # nist2008: m^2 -> mD (MD_IN_M2)
     np.testing.assert_allclose(k_md, res.k / MD_IN_M2, rtol=1e-12)
 
 
