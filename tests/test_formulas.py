@@ -56,10 +56,14 @@ def test_j_same_in_si_and_field_units():
 
 
 def test_pc_from_j_inverts_j():
-    # identity of the Leverett definition (Leverett 1941)
+    # leverett1941 + nist2008 (computed): J 1.86283 at k 100 mD, phi 0.2, 26 dyn/cm is Pc 10 psi
+    # (the worked value above, read backwards; rel 3e-6: J is given to 6 digits)
+    pc = pc_from_j(1.86283, 100 * C.MILLIDARCY, 0.2, 26 * C.DYNE_PER_CM)
+    assert pc / C.PSI == pytest.approx(10.0, rel=3e-6)
+    # closed form: Pc = J sigma cos theta / sqrt(k / phi), written out for other values
     k, phi, sct = 250 * C.MILLIDARCY, 0.23, 0.026
-    pc = np.array([1e3, 5e4, 2e5])
-    assert pc_from_j(leverett_j(pc, k, phi, sct), k, phi, sct) == pytest.approx(pc, rel=1e-12)
+    j = np.array([0.05, 1.0, 7.5])
+    assert pc_from_j(j, k, phi, sct) == pytest.approx(j * sct / np.sqrt(k / phi), rel=1e-12)
 
 
 def test_pc_from_height_reference_value():
@@ -114,6 +118,7 @@ def test_archie_winsauer_constants():
 
 def test_archie_bad_values_give_nan():
     sw = archie_sw(np.array([0.0, -1.0, np.nan, 10.0]), np.array([0.2, 0.2, 0.2, 0.0]), 0.05)
+    # closed form: Rt <= 0, NaN or phi <= 0 have no Archie saturation (archie1942 needs Rt, phi > 0)
     assert np.isnan(sw).all()
 
 
@@ -126,6 +131,7 @@ def test_brooks_corey_reference():
     assert f.predict([20.0]) == pytest.approx([0.25], abs=1e-12)
     assert f.predict([8.16497]) == pytest.approx([0.5], abs=1e-5)
     # below entry the rock stays water-full
+    # brooks1964: Se = 1 below the displacement value
     assert f.predict([4.9, 1.0]) == pytest.approx([1.0, 1.0])
 
 
@@ -134,6 +140,8 @@ def test_power_law_shape():
     f = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 2.0})
     sw = f.predict(np.array([1.0, math.sqrt(2.0), 1e6, 0.0, -3.0]))
     se = (sw - 0.1) / 0.9
+    # closed form: Se = a J^-b = 0.3 at J = 1, 0.15 at J = sqrt(2) (b = 2), -> 0 at J = 1e6;
+    # Sw = 1 at and below the FWL (J <= 0)
     assert se[0] == pytest.approx(0.3)
     assert se[1] == pytest.approx(0.15)
     assert sw[2] == pytest.approx(0.1, abs=1e-9)
@@ -151,7 +159,9 @@ def test_fit_recovers_parameters(cls, params):
     sw = np.clip(cls.equation(j, **params), 0, 1) + rng.normal(0, 0.01, j.size)
     f = cls().fit(j, sw)
     for p, v in params.items():
+        # known generating parameters (params), within 4 standard errors (normal theory)
         assert abs(f.params_[p] - v) < 4 * f.stderr_[p] + 1e-9, (p, f.params_, f.stderr_)
+    # known noise sd 0.01 put in; the J range of the data given (geomspace(0.2, 20))
     assert f.rmse_ == pytest.approx(0.01, rel=0.3)
     assert f.j_range_ == (pytest.approx(0.2), pytest.approx(20.0))
 
