@@ -73,6 +73,7 @@ def test_porosity_outside_0_1_is_flagged_nan(tmp_path):
 def test_percent_looking_porosity_is_divided_by_100_with_a_note(tmp_path):
     phi = np.linspace(5.0, 30.0, 20)                                  # clearly percent
     result, msgs = make(tmp_path, phi, [100.0] * 20)
+    # closed form: percent / 100 (values 5-30 can only be percent: common practice)
     np.testing.assert_allclose(result.phi, phi / 100.0)
     assert any("read as percent" in m for m in msgs)
 
@@ -80,6 +81,7 @@ def test_percent_looking_porosity_is_divided_by_100_with_a_note(tmp_path):
 def test_percent_unit_with_fraction_values_keeps_the_unit_with_a_note(tmp_path):
     phi = [0.2] * 10
     result, msgs = make(tmp_path, phi, [100.0] * 10, phi_unit="%")
+    # closed form: 0.2 % = 0.002 as the declared unit says
     np.testing.assert_allclose(result.phi, 0.002)                    # the unit wins
     assert any("no value above 1" in m and "V/V" in m for m in msgs)
 
@@ -117,6 +119,7 @@ def test_nan_runs_stay_nan_and_a_zone_without_usable_samples_is_noted(tmp_path):
 def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
                         zones=[dict(name="Z", top=990, base=1100, fwl=900)])
+    # closed form: the whole zone lies below its FWL, so Sw = 1 (hydrostatics, tiab2004)
     assert np.all(result.shm.sw == 1.0)
     assert any("at or above its shallowest sample" in m for m in msgs)
 
@@ -124,6 +127,7 @@ def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
 def test_fwl_below_the_well_is_noted(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
                         zones=[dict(name="Z", top=990, base=1100, fwl=3000)])
+    # closed form: the whole zone lies far above its FWL: h > 0, Sw < 1
     assert np.all(result.shm.hafwl > 0) and np.all(result.shm.sw < 1.0)
     assert any("below its deepest sample" in m for m in msgs)
 

@@ -79,5 +79,7 @@ def test_floor_is_the_engine_formula(bench):
     fn = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 1.2}, None)
     res = compute_shm(z, phi, k, [ZoneModel("A", 900, 1100, 1050, 1080, 780, "oil", 0.026, fn)])
     h, pc, j, sw = bench.floor_numpy(z, phi, k, 1050.0, 300.0, 0.026, 0.1, 0.3, 1.2)
+    # closed form written in bench/run.py's floor_numpy (hydrostatics, leverett1941, the power
+    # law), plain numpy; rel 1e-12: the same formula in another order
     np.testing.assert_allclose(res.sw, sw, rtol=1e-12)
     np.testing.assert_allclose(res.j, j, rtol=1e-12)

@@ -76,6 +76,7 @@ def test_output_las_keeps_input_curves(demo_run):
         src = by_name[w["name"]]
         for c in src.curves:
             got = las[c.mnemonic]
+            # library: lasio reads input and output: the input file's values come back exactly
             np.testing.assert_array_equal(np.isnan(got), np.isnan(c.data), err_msg=c.mnemonic)
             np.testing.assert_allclose(got, c.data, rtol=0, atol=0, equal_nan=True, err_msg=c.mnemonic)
             assert las.curves[c.mnemonic].unit == c.unit
@@ -106,13 +107,17 @@ def test_output_physics(demo_run):
                 above = m & (hafwl > 0.5)
                 # PC_RES / HAFWL = delta rho * g in each zone (hydrostatics)
                 ratio = pc[above] / hafwl[above]
+                # closed form (hydrostatics, tiab2004; library: scipy.constants.g); rtol 2e-3: PC_RES and
+                # HAFWL are written with a few decimals
                 np.testing.assert_allclose(ratio, drho * sc.g, rtol=2e-3)
                 # at and below the FWL: Sw = 1
                 below = m & (hafwl <= 0)
+                # closed form: Sw = 1 at and below the FWL
                 assert np.all(sw[below] == 1.0)
                 # Sw non-increasing with J within a zone (one function per zone)
                 ok = m & np.isfinite(j) & np.isfinite(sw) & (hafwl > 0)
                 order = np.argsort(j[ok], kind="stable")
+                # closed form: every family's Sw falls with J; 2e-5: Sw written with 5 decimals
                 assert np.all(np.diff(sw[ok][order]) <= 2e-5)
                 n_checked += int(ok.sum())
             i += 1

@@ -71,6 +71,8 @@ def assert_same_well(a, b):
         assert (x.mnemonic, x.unit, x.description, x.value) == (y.mnemonic, y.unit, y.description,
                                                                  y.value)
         assert x.data.dtype == y.data.dtype == np.float64
+        # library: lasio reads the same file on the reference path; decimal text parses to the
+        # nearest double in both readers, so the values are equal bit for bit (-0.0 included)
         np.testing.assert_array_equal(np.isnan(x.data), np.isnan(y.data), err_msg=key)
         np.testing.assert_array_equal(bits(x.data), bits(y.data), err_msg=key)   # -0.0 too
     np.testing.assert_array_equal(a.md, b.md)
@@ -115,6 +117,7 @@ PLAIN = ("1000.0 45.5 0.21 150.0\n"
 @pytest.mark.parametrize("newline", ["\n", "\r\n"])
 def test_plain_file_and_crlf(tmp_path, newline):
     well = check(write(tmp_path, las(PLAIN), newline=newline), True)
+    # the file's values (PLAIN): one NULL in GR
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, False, False])
 
 
@@ -178,6 +181,8 @@ def test_written_file_reads_back_on_fast_path(tmp_path):
     write_las(out, src, new_curves=[Curve("SW_NEW", "v/v", "new", sw)], decimals={"SW_NEW": 5})
     well = check(out, True)
     for key, c in src.curves.items():
+        # round trip: the input curves read back as they were read (their text has fewer decimals
+        # than the writer keeps)
         np.testing.assert_array_equal(well.curves[key].data, c.data)
 
 

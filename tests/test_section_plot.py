@@ -23,7 +23,7 @@ def well(name, tvdss, north=None, east=None, zones=()):
 
 
 def test_map_positions_on_line_of_best_fit():
-    # two vertical wells 500 m apart (3-4-5 triangle, computed) and a deviated one on the line
+    # closed form: two vertical wells 500 m apart (3-4-5 triangle) and a deviated one on the line
     z = np.linspace(1000, 1100, 11)
     a = well("A", z)
     b = well("B", z)
@@ -33,9 +33,10 @@ def test_map_positions_on_line_of_best_fit():
     assert mapped
     np.testing.assert_allclose(np.abs(u), [0.6, 0.8], atol=1e-9)
     np.testing.assert_allclose(d[1] - d[0], 500.0, atol=1e-9)
-    # C starts halfway and moves 100 m along the line (computed: hypot(60, 80))
+    # closed form: C starts halfway and moves 100 m along the line (hypot(60, 80))
     np.testing.assert_allclose(d[2][0] - d[0][0], 250.0, atol=1e-9)
     np.testing.assert_allclose(d[2][-1] - d[2][0], 100.0, atol=1e-9)
+    # closed form: distances are measured from the first point on the line
     assert min(x.min() for x in d) == 0.0
 
 
@@ -51,7 +52,7 @@ def test_schematic_without_locations():
     d, mapped, _ = section_positions([well("V", z), dev], {"V": (0.0, 0.0)})
     assert not mapped
     assert np.all(d[0] == d[0][0])              # a vertical well stays a vertical line
-    # the deviated well keeps its reach towards its last position: 50 m (computed)
+    # closed form: the deviated well keeps its reach towards its last position: hypot(30, 40) = 50 m
     assert d[1][-1] - d[1][0] == pytest.approx(50.0)
     assert d[1][0] > d[0][0]                    # set beside the first well
 
