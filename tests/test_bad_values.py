@@ -65,6 +65,7 @@ def test_porosity_outside_0_1_is_flagged_nan(tmp_path):
     result, msgs = make(tmp_path, phi, [100.0] * 26)
     flag, sw = result.shm.flag, result.shm.sw
     for i in (1, 2, 3, 4):
+        # README (Bad input, Values): porosity missing, <= 0 or > 1 flagged 2, Sw NaN, with a note
         assert flag[i] & FLAG_BAD_POROSITY and np.isnan(sw[i]), i
     assert np.isfinite(sw[[0, 5]]).all() and not (flag[[0, 5]] & FLAG_BAD_POROSITY).any()
     assert any("values above 1" in m and "PHIE" in m for m in msgs)
@@ -90,6 +91,7 @@ def test_permeability_not_positive_is_flagged_nan(tmp_path):
     k = [100.0, 0.0, -3.0, np.nan, 50.0]
     result, _ = make(tmp_path, [0.2] * 5, k)
     flag, sw = result.shm.flag, result.shm.sw
+    # README (Bad input, Values): permeability missing or <= 0 flagged 4, Sw NaN
     assert all(flag[i] & FLAG_BAD_PERMEABILITY and np.isnan(sw[i]) for i in (1, 2, 3))
     assert np.isfinite(sw[[0, 4]]).all()
 
@@ -97,6 +99,7 @@ def test_permeability_not_positive_is_flagged_nan(tmp_path):
 def test_rt_not_positive_gives_no_archie_sw(tmp_path):
     rt = [20.0, 0.0, -1.0, np.nan, 5.0]
     result, _ = make(tmp_path, [0.2] * 5, [100.0] * 5, rt=rt)
+    # README (Bad input, Values): Rt <= 0 or missing gives Archie log Sw NaN there
     assert result.sw_log_source == "archie"
     assert np.isnan(result.sw_log[[1, 2, 3]]).all()
     # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (archie1942; computed by hand)
@@ -111,6 +114,8 @@ def test_nan_runs_stay_nan_and_a_zone_without_usable_samples_is_noted(tmp_path):
              dict(name="Low", top=1035, base=1050, fwl=1060)]
     result, msgs = make(tmp_path, phi, [100.0] * 40, zones=zones)
     sw = result.shm.sw
+    # README (Bad input, Values): runs of missing values: each sample NaN; a zone with no usable
+    # sample gives a note
     assert np.isnan(sw[5:35]).all() and np.isfinite(sw[:5]).all() and np.isfinite(sw[35:]).all()
     assert any("'Mid'" in m and "no SHM Sw" in m for m in msgs)
     assert not any("'Up'" in m and "no SHM Sw" in m for m in msgs)
@@ -137,6 +142,8 @@ def test_zone_gap_samples_are_outside_every_zone(tmp_path):
              dict(name="B", top=1010, base=1030, fwl=1060)]
     result, _ = make(tmp_path, [0.2] * 40, [100.0] * 40, zones=zones)
     gap = (result.tvdss >= 1005) & (result.tvdss < 1010)
+    # README (Bad input, Values): gaps between zones flagged 1, no SHM values; closed form:
+    # 5 one-metre samples lie in the 1005-1010 m gap
     assert gap.sum() == 5
     assert np.all(result.shm.flag[gap] & FLAG_NO_ZONE)
     assert np.isnan(result.shm.sw[gap]).all() and np.isnan(result.shm.j[gap]).all()
@@ -155,6 +162,8 @@ def test_j_outside_calibrated_range_is_flagged_and_sw_kept(tmp_path):
                      zones=[dict(name="Z", top=990, base=1100, fwl=1050, j_min=0.5, j_max=5.0)])
     j, flag, sw = result.shm.j, result.shm.flag, result.shm.sw
     lo, hi = (j > 0) & (j < 0.5), j > 5.0
+    # README (Bad input, Values): J outside j_min..j_max flagged 8 or 16, Sw kept; closed form:
+    # J is proportional to sqrt(k) (leverett1941): k from 0.001 mD to 1e6 mD spans both sides
     assert lo.any() and hi.any()
     assert np.all(flag[lo] & FLAG_J_BELOW_RANGE) and np.all(flag[hi] & FLAG_J_ABOVE_RANGE)
     assert np.isfinite(sw[lo | hi]).all()

@@ -91,6 +91,7 @@ def sha256(path):
 def test_read_metres_file(basic_file):
     well = read_las(basic_file)
     data = np.array(BASIC_ROWS)
+    # the file's values (las_text above): header items as written (cwls1992 layout)
     assert well.name == "TEST-1"
     assert well.source == basic_file
     assert well.depth_unit == "m"
@@ -120,6 +121,7 @@ def test_read_feet_file_gives_metres(tmp_path, unit):
     p = write(tmp_path, las_text([("DEPT", unit, "depth"), ("PHIE", "V/V", "")], rows,
                                  strt_unit=unit))
     well = read_las(p)
+    # the file's depth unit, any spelling of feet; depths in metres by nist2008 below
     assert well.depth_unit == "ft"
     # 1 ft = 0.3048 m exactly (NIST SP 811)
     np.testing.assert_allclose(well.md, np.array([r[0] for r in rows]) * FOOT_M, rtol=0, atol=1e-12)
@@ -131,6 +133,7 @@ def test_index_unit_taken_from_strt_when_curve_unit_empty(tmp_path):
     rows = [[100.0, 1.0], [101.0, 2.0]]
     p = write(tmp_path, las_text([("DEPT", "", "depth"), ("GR", "GAPI", "")], rows, strt_unit="FT"))
     well = read_las(p)
+    # the file's depth unit, any spelling of feet; depths in metres by nist2008 below
     assert well.depth_unit == "ft"
     # nist2008: 1 ft = 0.3048 m
     np.testing.assert_allclose(well.md, [100.0 * FOOT_M, 101.0 * FOOT_M])
@@ -141,6 +144,7 @@ def test_unknown_depth_unit_names_file_and_unit(tmp_path):
                                  [[1.0, 2.0], [2.0, 3.0]], strt_unit="S"))
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input, LAS files): depth unit not metres/feet is an error naming it
     assert str(p) in str(err.value) and "'S'" in str(err.value)
 
 
@@ -199,6 +203,8 @@ def test_duplicated_depth_names_row(tmp_path):
     with pytest.raises(DepthError) as err:
         read_las(p)
     msg = str(err.value)
+    # README (Bad input, LAS files): a repeated, missing or out-of-order depth is an error
+    # naming the data row (row 3 repeats 1000.5 in the rows above)
     assert str(p) in msg and "data row 3" in msg and "1000.5" in msg
 
 
@@ -207,6 +213,7 @@ def test_out_of_order_depth_names_row(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     with pytest.raises(DepthError) as err:
         read_las(p)
+    # README (Bad input, LAS files): out-of-order depth at data row 4 (1001.5 after 1002.0)
     assert "data row 4" in str(err.value) and "1001.5" in str(err.value)
 
 
@@ -215,6 +222,7 @@ def test_missing_depth_value_is_depth_error(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     with pytest.raises(DepthError) as err:
         read_las(p)
+    # README (Bad input, LAS files): a missing depth (text) names the data row
     assert str(p) in str(err.value) and "data row 2" in str(err.value)
 
 
@@ -222,6 +230,7 @@ def test_missing_file_names_path(tmp_path):
     p = tmp_path / "nowhere" / "missing.las"
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input): errors name the file
     assert str(p) in str(err.value)
     with pytest.raises(InputFileError):
         read_las(tmp_path)          # a folder
@@ -240,6 +249,7 @@ def test_garbage_file_is_input_file_error(tmp_path, content):
     p.write_bytes(content)
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input, LAS files): binary content or not LAS text is an error
     assert type(err.value) is InputFileError
     assert str(p) in str(err.value)
 
@@ -258,6 +268,8 @@ def test_duplicate_mnemonics_made_unique(tmp_path):
 def test_reading_does_not_print(basic_file, capfd):
     read_las(basic_file)
     out, err = capfd.readouterr()
+    # README (Bad input): notes are kept with the well (printed under it by the run); the reader
+    # itself prints nothing
     assert out == "" and err == ""
 
 
@@ -274,6 +286,7 @@ def test_detect_roles_by_preference_and_case(tmp_path):
               ("ILD", "OHMM", ""), ("RT", "OHMM", "")]
     well = make_well(tmp_path, curves, [[1.0, 0.2, 0.18, 10, 5, 6], [2.0, 0.2, 0.18, 10, 5, 6]])
     roles = detect_roles(well)
+    # README (Curve roles): aliases in the table's order, any letter case
     assert roles == {"porosity": "phie", "permeability": "perm", "resistivity": "RT", "sw": None}
 
 
@@ -281,6 +294,7 @@ def test_role_overrides(tmp_path):
     curves = [("DEPT", "M", ""), ("PHIT", "V/V", ""), ("PHIE", "V/V", ""), ("MYK", "MD", "")]
     well = make_well(tmp_path, curves, [[1.0, 0.2, 0.18, 10], [2.0, 0.2, 0.18, 10]])
     roles = detect_roles(well, {"porosity": "phit", "permeability": "MYK"})
+    # README (Curve roles): the project's curves table overrides the aliases
     assert roles["porosity"] == "PHIT" and roles["permeability"] == "MYK"
     with pytest.raises(MissingCurveError) as err:
         detect_roles(well, {"porosity": "NOPE"})
@@ -353,6 +367,7 @@ def test_unknown_permeability_unit(tmp_path):
     with pytest.raises(UnitError) as err:
         role_values(well, "permeability", "PERM")
     msg = str(err.value)
+    # README (Bad input): an unknown unit names the file, curve and unit
     assert str(well.source) in msg and "'PERM'" in msg and "'FT'" in msg
 
 
@@ -463,6 +478,7 @@ def test_write_large_values_fixed_point(tmp_path):
     big = np.array([1.5e25, -2.0e20])
     write_las(out, well, new_curves=[Curve("BIG", "", "", big)])
     data_lines = out.read_text().split("~A", 1)[1].splitlines()[1:]
+    # README (Bad input, LAS files): numbers are written in fixed point (no exponent)
     assert not any(re.search(r"\d[eE][-+]?\d", ln) for ln in data_lines)
     # library: lasio; the values given (1.5e25 and -2e20 are integers, exact in fixed point)
     np.testing.assert_array_equal(lasio.read(str(out))["BIG"], big)
@@ -499,6 +515,7 @@ def test_write_keeps_duplicate_mnemonics(tmp_path):
     out = tmp_path / "dup.las"
     write_las(out, well)
     ref, src = lasio.read(str(out)), lasio.read(str(p))
+    # README (Bad input, LAS files): repeated mnemonics are written back as given; library: lasio
     assert [c.mnemonic for c in ref.curves] == [c.mnemonic for c in src.curves]
     assert [c.original_mnemonic for c in ref.curves] == ["DEPT", "GR", "GR"]
 
@@ -508,6 +525,8 @@ def test_new_curve_clash_is_error(basic_file, tmp_path):
     out = tmp_path / "x.las"
     with pytest.raises(InputFileError) as err:
         write_las(out, well, new_curves=[Curve("phie", "", "", np.zeros(well.n_samples))])
+    # README (Outputs): every input curve unchanged, so a new curve may not take an input
+    # curve's name (any letter case)
     assert "phie" in str(err.value)
     with pytest.raises(InputFileError):
         write_las(out, well, parameters=[HeaderItem("BAD NAME", "", 1.0, "")])
@@ -532,6 +551,7 @@ def test_input_unchanged_after_read_and_write(basic_file, tmp_path):
     well = read_las(basic_file)
     write_las(tmp_path / "other.las", well,
               new_curves=[Curve("NEW", "", "", np.ones(well.n_samples))])
+    # README (Outputs): inputs are only read, never written (SHA-256 before and after)
     assert sha256(basic_file) == before
     assert basic_file.stat().st_mtime_ns == mtime
 
@@ -555,6 +575,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
     monkeypatch.setattr(las_mod, "_format_column", failing)
     with pytest.raises(RuntimeError):
         write_las(out, well)
+    # README (Outputs): written to a temporary file, then renamed; a failure leaves the old file
     assert len(temps_at_failure) == 1         # failed mid-way, with the temporary file open
     assert out.read_text() == "old content\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == sorted([basic_file.name, "result.las"])
@@ -569,6 +590,7 @@ def test_atomic_open_replaces_on_success(tmp_path):
     target.write_text("old")
     with atomic_open(target) as f:
         temps = [p.name for p in tmp_path.iterdir() if p.name != "a.txt"]
+        # README (Outputs): the temporary file is .<name>.<random>.tmp in the output folder
         assert len(temps) == 1 and temps[0].startswith(".") and temps[0].endswith(".tmp")
         f.write("new")
         assert target.read_text() == "old"           # not visible before the block ends
@@ -583,12 +605,14 @@ def test_atomic_open_keeps_old_file_on_error(tmp_path):
         with atomic_open(target) as f:
             f.write("half")
             1 / 0
+    # README (Outputs): a failed write keeps the old complete file and no temporary file
     assert target.read_text() == "old"
     assert [p.name for p in tmp_path.iterdir()] == ["a.txt"]
 
 
 def test_atomic_write_text_and_bytes(tmp_path):
     atomic_write_text(tmp_path / "t.txt", "line1\nline2\n")
+    # README (Bad input, LAS files): outputs are UTF-8 with LF line ends; the text given
     assert (tmp_path / "t.txt").read_bytes() == b"line1\nline2\n"
     atomic_write_bytes(tmp_path / "b.bin", b"\x00\x01\xff")
     assert (tmp_path / "b.bin").read_bytes() == b"\x00\x01\xff"
@@ -597,6 +621,7 @@ def test_atomic_write_text_and_bytes(tmp_path):
 def test_atomic_write_missing_folder(tmp_path):
     with pytest.raises(InputFileError) as err:
         atomic_write_text(tmp_path / "no" / "such" / "f.txt", "x")
+    # README (Bad input): errors name the file
     assert "f.txt" in str(err.value)
 
 
@@ -613,6 +638,7 @@ def test_describe_las(tmp_path):
     info = describe_las(p)
     data = np.array(rows)
     data[:, 1:][data[:, 1:] == -999.25] = np.nan
+    # the file's values (rows above)
     assert info["well"] == "TEST-1" and info["n_samples"] == 4
     # the file's values (rows above); min/max/null counts by numpy on the same rows
     assert info["depth"]["start"] == 1000.0 and info["depth"]["stop"] == 1001.5
@@ -659,6 +685,7 @@ GR  .GAPI 07 310 01 00 : gamma ray
     src = tmp_path / "in.las"
     src.write_text(text)
     w = read_las(src)
+    # cwls1992: the value field of a ~Curve line (an API log code) survives export
     assert w.curve("GR").value == "07 310 01 00"
     write_las(tmp_path / "out.las", w)
     back = lasio.read(tmp_path / "out.las")
