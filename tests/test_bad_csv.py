@@ -37,6 +37,7 @@ def refused(load, path, *where):
     with pytest.raises(SatHeightError) as info:
         load(path)
     msg = str(info.value)
+    # README (Bad input, CSV files): one line naming the file
     assert path.name in msg and "\n" not in msg
     for w in where:
         assert w in msg, msg

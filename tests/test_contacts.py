@@ -259,6 +259,7 @@ def test_fwl_command_unknown_zone(tmp_path):
                         str(ROOT / "demo_wells" / "demo_project.toml"), "--out",
                         str(tmp_path / "o"), "--zone", "Nowhere"],
                        capture_output=True, text=True, timeout=60)
+    # README (Contacts): an unknown zone is an error naming it (exit code 2)
     assert r.returncode == 2 and "Nowhere" in r.stderr
 
 

@@ -191,6 +191,7 @@ def _write(tmp_path, name, text):
 def test_read_steps_and_plugs(tmp_path):
     steps = _write(tmp_path, "steps.csv", STEPS)
     plugs = _write(tmp_path, "plugs.csv", PLUGS)
+    # README (Core-data files): the layout of each file is told by its columns
     assert file_kind(steps) == "steps" and file_kind(plugs) == "plugs"
     curves = read_pressure_steps(steps)
     c1 = curves[0]
@@ -226,6 +227,7 @@ def test_single_plug_file(tmp_path):
     p = _write(tmp_path, "one.csv", "# plug = S1\n# well = W-2\n# depth = 2000 m\n"
                                     "# porosity = 0.2\n# permeability = 0.05 D\n"
                                     "# system = air_brine\npc [kPa],sw [%]\n10,100\n50,45\n200,20\n")
+    # README (Core-data files): a single-plug file with # key = value lines
     assert file_kind(p) == "single"
     plug, curve = read_single_plug(p)
     # nist2008: 0.05 D = 50 mD; kPa -> Pa; % -> fraction (the file's values)
@@ -250,6 +252,7 @@ def test_step_errors_name_file_and_row(tmp_path, text, match, row):
     p = _write(tmp_path, "bad.csv", text)
     with pytest.raises(SatHeightError, match=match) as e:
         read_pressure_steps(p, default_system="air_brine")
+    # README (Bad input, CSV files): core steps errors name the file and row
     assert f"{p}, row {row}" in str(e.value)
 
 
@@ -258,6 +261,7 @@ def test_missing_plug_names_file_and_row(tmp_path):
     plugs = _write(tmp_path, "plugs.csv", PLUGS.replace("P2,W-1", "P9,W-1"))
     with pytest.raises(SatHeightError, match="'P2' has pressure steps but is not in any plug table") as e:
         read_core_files([steps, plugs])
+    # README (Bad input, CSV files): the row of the first step of the missing plug (P2, row 7)
     assert f"{steps}, row 7" in str(e.value)
 
 
@@ -265,6 +269,8 @@ def test_plug_table_errors(tmp_path):
     p = _write(tmp_path, "plugs.csv", PLUGS.replace("21.0", "210"))
     with pytest.raises(SatHeightError, match=r"porosity 210 is outside \(0, 1\)") as e:
         read_plug_table(p)
+    # README (Bad input, CSV files): core plugs: porosity outside (0, 1), a plug listed twice:
+    # error naming the row
     assert f"{p}, row 2" in str(e.value)
     p = _write(tmp_path, "plugs2.csv", PLUGS + "P1,W-1,6520,20,10,,A,x\n")
     with pytest.raises(SatHeightError, match="listed twice") as e:
@@ -284,6 +290,7 @@ def test_unknown_system_and_missing_file(tmp_path):
     plugs = _write(tmp_path, "p.csv", PLUGS)
     with pytest.raises(SatHeightError, match="unknown lab fluid system 'kerosene'") as e:
         read_core_files([steps, plugs])
+    # README (Bad input, CSV files): an unknown fluid system names the row
     assert f"{steps}, row 2" in str(e.value)
     with pytest.raises(InputFileError, match="not found"):
         read_core_files([tmp_path / "nope.csv"])
@@ -302,6 +309,7 @@ def test_inputs_untouched(tmp_path):
     before = (steps.read_bytes(), plugs.read_bytes())
     ds = read_core_files([steps, plugs])
     core_points(ds)
+    # common practice (the project's rule): inputs are never modified
     assert (steps.read_bytes(), plugs.read_bytes()) == before
 
 
@@ -312,4 +320,5 @@ def test_make_curve_needs_two_steps():
 
 def test_dataset_warns_about_plugs_without_curves():
     ds = CoreDataset(plugs={"P": Plug("P", "W", 0, 0.2, 1e-13, source="p.csv, row 2")}, curves=[])
+    # README (Fitting): a plug without a curve is noted
     assert "has no capillary-pressure curve" in ds.validate()[0]

@@ -119,6 +119,7 @@ def test_project_function_from_model_file(tmp_path):
     path, fits = _model_file(tmp_path, RockTypeRule("column", "rock_type"))
     p = _project(tmp_path, {"file": "models.json", "rock_type": "B"})
     f = p.zones[0].function
+    # round trip through the model file: the values written by _model_file come back
     assert f.family == "power_law" and f.rock_type == "B" and f.file == path.resolve()
     assert f.params == fits["B"]["fits"]["power_law"].params
     # the J range of the fitted data: geomspace(0.1, 50) in _model_file (closed form)
@@ -141,6 +142,7 @@ def test_project_model_file_errors(tmp_path, function, key, match):
     _model_file(tmp_path, RockTypeRule("column", "rock_type"))
     with pytest.raises(ProjectFileError, match=match) as e:
         _project(tmp_path, function)
+    # README (Bad input, Project file): every bad value names the key
     assert f"key {key}" in str(e.value)
 
 
@@ -149,6 +151,7 @@ def test_project_per_depth_rock_typing(tmp_path):
     _, fits = _model_file(tmp_path, rule)
     p = _project(tmp_path, {"file": "models.json"})
     f = p.zones[0].function
+    # round trip through the model file: the rule and rock types written
     assert set(f.by_rock_type) == {"A", "B"} and f.rock_rule == rule
     from satheight.pipeline import _zone_model
 
@@ -169,6 +172,7 @@ def test_project_per_depth_rock_typing(tmp_path):
 
     ids = rock_type_ids(types.SimpleNamespace(zones=[zm], shm=res, phi=phi, k=k))
     names = list(zm.rock_functions)
+    # README (Outputs): ROCK_ID numbers the rock types in the zone's table order
     assert [names[int(i) - 1] for i in ids] == ["A", "B"]
 
 
@@ -183,6 +187,7 @@ def fitted(tmp_path_factory):
 
 
 def test_fit_command_writes_files(fitted, capsys):
+    # README (Fitting J-Sw functions): the files fit writes; rfc2083 PNG signature
     code, out = fitted
     assert code == 0
     for name in ("models.json", "core_points.csv", "core_j_sw.png", "core_pc.png"):
@@ -193,6 +198,7 @@ def test_fit_command_writes_files(fitted, capsys):
 def test_fit_command_recovers_generator_functions(fitted):
     _, out = fitted
     mf = load_models(out / "models.json")
+    # known generating values: demo_wells/make_core_demo.py's two rock types
     assert set(mf.rock_types) == {"Upper Sand", "Lower Sand"}
     # known generating parameters: demo_wells/make_core_demo.py made the curves from the demo zone functions
     # (Upper Sand power law 0.10/0.30/1.20, Lower Sand Brooks-Corey 0.12/0.20/2.5)
@@ -209,6 +215,7 @@ def test_fit_command_recovers_generator_functions(fitted):
     import hashlib
 
     for f in CORE_FILES:
+        # library: hashlib (standard library) SHA-256 of each input file
         assert prov["files"][f.name] == hashlib.sha256(f.read_bytes()).hexdigest()
     for rt in mf.rock_types.values():
         assert set(rt["fits"]) >= {"power_law", "brooks_corey", "thomeer", "van_genuchten",
@@ -221,6 +228,7 @@ def test_fit_command_bad_input_is_one_line(tmp_path, capsys):
     bad.write_text("plug,pc [psi],sw\nP1,1,1.0\nP1,10,1.5\n")
     code = main(["fit", str(bad), "--system", "air_brine", "--out", str(tmp_path / "o")])
     err = capsys.readouterr().err
+    # README (Bad input, CSV files): core data errors name the file and row, one line, exit 2
     assert code == 2
     assert f"{bad}, row 3" in err and err.count("\n") == 1
 
@@ -238,6 +246,7 @@ def test_demo_project_uses_core_models():
     p = load_project(DEMO / "demo_project.toml")
     mf = load_models(DEMO / "core_models.json")
     for z in p.zones:
+        # round trip: the demo project names the shipped model file and its rock types
         assert z.function.file == (DEMO / "core_models.json").resolve()
         assert z.function.rock_type == z.name
         assert z.function.params == mf.function(z.name, z.function.family).params_
@@ -304,6 +313,7 @@ def test_core_demo_files_up_to_date(tmp_path):
 def test_demo_run_records_model_file(tmp_path):
     import lasio
 
+    # README (Outputs): ~Parameter records the model file and rock type per zone; library: lasio
     assert main(["demo", "--out", str(tmp_path), "--no-plots"]) == 0
     las = lasio.read(str(tmp_path / "VANTREL-1.las"))
     assert las.params["Z1_MFILE"].value == "core_models.json"
@@ -321,6 +331,7 @@ def test_fit_option_parsing():
     from satheight.errors import SatHeightError
 
     name, s = parse_lab_override("mercury_air=485 mN/m,130 deg", LAB_SYSTEMS)
+    # the option texts given; closed forms below (sigma |cos theta|, psi/ft -> kg/m3 by nist2008)
     assert name == "mercury_air"
     # closed form: sigma |cos theta| of the option's text; 26 mN/m = 0.026 N/m
     assert s.sigma_cos_theta == pytest.approx(0.485 * abs(math.cos(math.radians(130))))

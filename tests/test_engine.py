@@ -49,6 +49,7 @@ def test_bad_porosity_and_permeability_flagged_nan():
     k = np.array([1e-13, 1e-13, 1e-13, 1e-13, 1e-13, 0.0])
     r = compute_shm(z, phi, k, [zone()])
     # the flag rules of satheight.results (porosity in (0, 1], permeability > 0)
+    # README (Bad input, Values): porosity outside (0, 1] flagged 2, permeability <= 0 flagged 4
     assert np.isfinite(r.sw[0]) and r.flag[0] == 0
     assert np.all(np.isnan(r.sw[1:]))
     assert np.all(r.flag[1:5] & FLAG_BAD_POROSITY)

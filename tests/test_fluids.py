@@ -123,6 +123,7 @@ def test_methane_density_against_coolprop(method, t_c, p_mpa):
 def test_gas_density_is_vectorised_and_checks_inputs():
     p = np.array([5, 10, 20, 40]) * MPA
     rho, z = fluids.gas_density(p, 90 + K0, 0.65)
+    # closed form: gas density rises with pressure at fixed temperature (z varies slowly)
     assert rho.shape == (4,) and np.all(np.diff(rho) > 0)
     with pytest.raises(SatHeightError, match="z-factor"):
         fluids.gas_density(1e7, 350.0, 0.65, "nonsense")
@@ -299,6 +300,7 @@ def test_project_fluid_errors_name_the_key(tmp_path, las, zone, key, words):
     with pytest.raises(ProjectFileError) as ei:
         load_project(p)
     msg = str(ei.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert key in msg and str(p) in msg
     assert words in msg
 

@@ -172,6 +172,7 @@ def test_reader_errors_name_file_and_line(tmp_path, text, words):
     path.write_text(text)
     with pytest.raises(InputFileError) as ei:
         read_pressure_points(path)
+    # README (Bad input, CSV files): pressure points errors name the file and line
     assert words in str(ei.value) and str(path) in str(ei.value)
 
 
@@ -216,6 +217,7 @@ def test_pressures_command_bad_file_exit_code(tmp_path):
     r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "pressures",
                         str(tmp_path / "none.csv"), "--out", str(tmp_path / "o")],
                        capture_output=True, text=True, timeout=60)
+    # README (Bad input): a missing file is an error (exit code 2)
     assert r.returncode == 2 and "not found" in r.stderr
 
 
@@ -232,6 +234,7 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
 
     project = load_project(demo / "demo_project.toml")
     conv = _datums(project, {"VANTREL-5"})["VANTREL-5"]
+    # README (Contacts): MD-only points need the well's survey and datum
     assert callable(conv)
     report = run_project(project, tmp_path / "o", plot=False)
     las = lasio.read(next(f for w in report.wells if w.name == "VANTREL-5"

@@ -79,6 +79,7 @@ def expect_error(data: dict, path: Path, key: str, *words: str) -> str:
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, path)
     msg = str(info.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert str(path) in msg, msg
     assert f"key {key}" in msg, msg
     for w in words:
@@ -177,6 +178,7 @@ b = 1.5
 def test_valid_metric_file(proj):
     proj.write_text(METRIC_TOML)
     p = load_project(proj)
+    # the file's values (METRIC_TOML) as typed; paths relative to the project file (README)
     assert isinstance(p, Project)
     assert p.path == proj.resolve() and p.path.is_absolute()
     assert p.name == "Example field"
@@ -185,6 +187,7 @@ def test_valid_metric_file(proj):
     assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=pytest.approx(0.045))
 
     (w,) = p.wells
+    # the file's values (METRIC_TOML); the LAS path resolved beside the project file
     assert isinstance(w, WellSpec)
     assert w.name == "A-1"
     assert w.las == (proj.parent / "wells" / "A-1.las").resolve()
@@ -195,6 +198,7 @@ def test_valid_metric_file(proj):
     assert w.tops == {"Upper": (pytest.approx(2010.0), pytest.approx(2120.0))}
 
     (z,) = p.zones
+    # the file's values (METRIC_TOML)
     assert isinstance(z, ZoneSpec)
     assert z.name == "Upper"
     # the file's values; unit factors nist2008 (g/cm3, mN/m) as defined at the top
@@ -233,6 +237,7 @@ def test_valid_field_file(tmp_path):
     path = tmp_path / "north_field.toml"
     path.write_text(FIELD_TOML)
     p = load_project(path)
+    # the file's values (FIELD_TOML); README (Project file): the name defaults to the file stem
     assert p.name == "north_field"               # default: file stem
     assert p.unit_system == "field"
     assert p.log_sw.method == "archie"
@@ -241,12 +246,14 @@ def test_valid_field_file(tmp_path):
     assert p.log_sw.rw == pytest.approx(0.05)    # ohm.m in both systems
 
     (w,) = p.wells
+    # the file's values (FIELD_TOML)
     assert w.name is None
     # the file's values, ft -> m by nist2008 (FT above)
     assert w.datum_elevation == pytest.approx(-12 * FT)         # may be negative
     assert w.tops["Gas"] == (pytest.approx(6600 * FT), pytest.approx(6900 * FT))
 
     gas, oil = p.zones
+    # the file's values (FIELD_TOML): the zone takes its window from the well's tops
     assert gas.top is None and gas.base is None                 # tops come from the well
     # the file's value, ft -> m (nist2008)
     assert gas.fwl == pytest.approx(6760 * FT)
@@ -283,6 +290,7 @@ def test_input_dict_is_not_modified(proj):
     data = metric_data()
     before = copy.deepcopy(data)
     parse_project(data, proj)
+    # common practice (the project's rule): inputs are never modified
     assert data == before
 
 
@@ -297,6 +305,7 @@ def test_fwl_outside_zone_window_is_allowed(proj):
 
 def test_zones_may_touch(proj):
     data = metric_data()
+    # the values of metric_data(): zones that touch are not an overlap (README: Bad input)
     assert zone(data)["base"] == "2100 m" and zone(data, "Lower")["top"] == 2100
     assert len(parse_project(data, proj).zones) == 2
 
@@ -308,6 +317,7 @@ def test_las_path_relative_to_project_folder(tmp_path, monkeypatch):
     path.write_text(METRIC_TOML.replace("wells/A-1.las", "logs/A-1.las"))
     monkeypatch.chdir(tmp_path)      # current folder differs from the project folder
     p = load_project(Path("proj") / "p.toml")
+    # README (Outputs): paths are relative to the project file, whatever the current folder
     assert p.wells[0].las == (sub / "logs" / "A-1.las").resolve()
     assert p.path == path.resolve()
 
@@ -327,6 +337,7 @@ def test_unreadable_file_is_input_error(tmp_path):
     folder.mkdir()
     with pytest.raises(InputFileError) as info:
         load_project(folder)
+    # README (Bad input): errors name the file
     assert str(folder) in str(info.value)
 
 
@@ -335,6 +346,7 @@ def test_not_utf8_is_input_error(tmp_path):
     path.write_bytes(b'[project]\nname = "Caf\xe9"\nunits = "metric"\n')
     with pytest.raises(InputFileError) as info:
         load_project(path)
+    # README (Bad input, Project file): a file that is not UTF-8 is an error
     assert str(path) in str(info.value) and "UTF-8" in str(info.value)
 
 
@@ -344,6 +356,7 @@ def test_toml_syntax_error_names_line_and_column(tmp_path):
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
     msg = str(info.value)
+    # README (Bad input, Project file): TOML syntax errors name the line and column
     assert str(path) in msg and "line 3, column" in msg, msg
 
 
@@ -352,6 +365,7 @@ def test_toml_syntax_error_at_end_of_file(tmp_path):
     path.write_text('[project]\nunits = "metric"\nname = ')
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
+    # README (Bad input, Project file): TOML syntax errors name the line
     assert str(path) in str(info.value) and "line 3" in str(info.value)
 
 
@@ -376,6 +390,7 @@ def test_unknown_key(proj, where, typo, key, allowed_word):
     data = metric_data()
     _set(data, where, typo, 1)
     msg = expect_error(data, proj, key, "unknown key", allowed_word)
+    # README (Project file): an unknown key is an error listing the allowed keys
     assert "allowed keys" in msg
 
 
@@ -477,6 +492,7 @@ def test_bad_unit_text_is_wrapped(proj, where, name, value, key):
     where(data)[name] = value
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, proj)
+    # README (Bad input, Project file): every bad value names the key (a ProjectFileError)
     assert not isinstance(info.value, UnitError)
     msg = str(info.value)
     bad = value[-1] if isinstance(value, list) else value
@@ -585,6 +601,7 @@ def test_las_file_missing_names_resolved_path(proj):
     data = metric_data()
     data["wells"][0]["las"] = "wells/../wells/C-3.las"
     msg = expect_error(data, proj, "wells[A-1].las", "not found")
+    # README (Bad input): a missing LAS file is named with its resolved path
     assert str((proj.parent / "wells" / "C-3.las").resolve()) in msg
 
 
@@ -610,6 +627,7 @@ def test_function_errors(proj, change, key, word):
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, proj)
     msg = str(info.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert str(proj) in msg and f"key {key}" in msg and word in msg, msg
 
 
@@ -644,6 +662,7 @@ def test_archie_without_rw(proj):
 def test_auto_without_rw_is_fine(proj):
     data = metric_data()
     del data["log_sw"]["rw"]
+    # README (Project file): Rw is optional unless Archie is asked for
     assert parse_project(data, proj).log_sw.rw is None
 
 
@@ -712,4 +731,5 @@ def test_comparison_errors_name_key(tmp_path, table, key):
 
     with pytest.raises(ProjectFileError) as e:
         load_project(_with_comparison(tmp_path, table))
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "c.toml" in str(e.value) and key in str(e.value)

@@ -32,6 +32,8 @@ def _items(section):
 
 
 def assert_same_las(src: lasio.LASFile, out: lasio.LASFile):
+    # library: lasio reads input and output: every input curve comes back with its header items
+    # (README: Outputs)
     assert [c.mnemonic for c in out.curves][:len(src.curves)] == [c.mnemonic for c in src.curves]
     for c in src.curves:
         got = out.curves[c.mnemonic]
@@ -65,6 +67,7 @@ def test_generated_round_trip(tmp_path_factory, spec):
     well = read_las(src)
     write_las(d / "out.las", well)
     back = read_las(d / "out.las")
+    # round trip: the generated file's curves, units and name come back as read
     assert list(back.curves) == list(well.curves)
     # round trip: the generated file's values come back as read
     np.testing.assert_array_equal(back.md, well.md)

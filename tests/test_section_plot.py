@@ -43,6 +43,7 @@ def test_map_positions_on_line_of_best_fit():
 def test_line_runs_west_to_east():
     z = np.linspace(0, 10, 3)
     d, _, u = section_positions([well("E", z), well("W", z)], {"E": (1000.0, 0.0), "W": (0.0, 0.0)})
+    # closed form: a west-east line runs left to right (common practice for sections)
     assert u[0] > 0 and d[1][0] < d[0][0]   # the western well is on the left
 
 
@@ -50,6 +51,7 @@ def test_schematic_without_locations():
     z = np.linspace(0, 10, 3)
     dev = well("D", z, north=np.array([0.0, 30.0, 40.0]), east=np.array([0.0, 40.0, 30.0]))
     d, mapped, _ = section_positions([well("V", z), dev], {"V": (0.0, 0.0)})
+    # closed form: without locations the wells are set side by side (README: Outputs, field_section.png)
     assert not mapped
     assert np.all(d[0] == d[0][0])              # a vertical well stays a vertical line
     # closed form: the deviated well keeps its reach towards its last position: hypot(30, 40) = 50 m
@@ -64,6 +66,7 @@ def test_section_plot_writes_png(tmp_path):
              well("B", z, north=np.linspace(0, 200, 101), east=np.zeros(101), zones=[zone])]
     out = section_plot(wells, tmp_path / "s.png", units="field",
                        locations={"A": (0.0, 0.0), "B": (0.0, 1000.0)})
+    # README (Outputs): field_section.png; $ escaped in names (README: Bad input, Project file)
     assert out == [tmp_path / "s.png"]
     assert (tmp_path / "s.png").read_bytes()[:8] == PNG_SIGNATURE
     assert [p.name for p in tmp_path.iterdir()] == ["s.png"]   # no temp files left

@@ -92,6 +92,7 @@ def test_bad_survey_errors_name_file_and_line(tmp_path, body, match, line):
     p.write_text(body)
     with pytest.raises((InputFileError, DepthError), match=match) as ei:
         read_survey(p)
+    # README (Bad input, CSV files): survey errors name the file and line
     assert f"bad.csv, line {line}" in str(ei.value)
 
 
@@ -99,6 +100,7 @@ def test_unknown_format_and_ending(tmp_path):
     p = _write(tmp_path / "s.dat", "MD [m],INC,AZI\n0,0,0\n")
     with pytest.raises(InputFileError, match="file ending"):
         read_survey(p)
+    # the file's values; the format given explicitly whatever the suffix
     assert read_survey(p, "csv").md[0] == 0
     with pytest.raises(InputFileError, match="unknown survey format"):
         read_survey(p, "xls")
@@ -111,6 +113,8 @@ def test_first_station_below_log_top_is_an_error(tmp_path):
     s = read_survey(p)
     with pytest.raises(DepthError, match="below the first log sample") as ei:
         survey_trajectory(s, 1400.0, "w.las")
+    # README (Deviated wells): a survey starting below the first log sample is an error naming both
+    # files
     assert "s.csv" in str(ei.value) and "w.las" in str(ei.value)
 
 
@@ -153,6 +157,7 @@ def test_read_tops(tmp_path):
         A-2,Upper,6010,6310,
         """)
     rows = read_tops(p)
+    # the file's values (tops.csv above)
     assert [(r.well, r.zone, r.depth_type) for r in rows] == [
         ("A-1", "Upper", "MD"), ("A-1", "Lower", "TVDSS"), ("A-2", "Upper", "MD")]
     # the file's values, ft -> m (nist2008); line numbers of the file as written
@@ -177,6 +182,7 @@ def test_bad_tops(tmp_path, body, match, line):
     p.write_text(body)
     with pytest.raises(InputFileError, match=match) as ei:
         read_tops(p)
+    # README (Bad input, CSV files): tops errors name the file and line
     assert f"t.csv, line {line}" in str(ei.value)
 
 
@@ -236,6 +242,7 @@ def test_project_survey_keys(tmp_path):
     proj = load_project(_project(tmp_path, well_extra='survey = "s.csv"\nsurvey_format = "CSV"\n'
                                                       "location = { east = 100, north = \"2 km\" }"))
     w = proj.wells[0]
+    # the values given in the project file, paths relative to it (README: Outputs)
     assert w.survey == (tmp_path / "s.csv").resolve() and w.survey_format == "csv"
     # the values given in the project file
     assert w.location == (100.0, 2000.0)
@@ -253,6 +260,7 @@ def test_project_survey_key_errors(tmp_path, extra, key):
     (tmp_path / "s.csv").write_text("MD [m],INC,AZI\n0,0,0\n")
     with pytest.raises(ProjectFileError) as ei:
         load_project(_project(tmp_path, well_extra=extra))
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "p.toml" in str(ei.value) and key in str(ei.value)
 
 
@@ -279,10 +287,12 @@ def test_tops_file_errors(tmp_path, rows, extra, match, key):
     with pytest.raises(ProjectFileError, match=match) as ei:
         load_project(_project(tmp_path, project_extra='tops_file = "tops.csv"', well_extra=extra))
     msg = str(ei.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "p.toml" in msg and key in msg
 
 
 def test_tops_file_missing(tmp_path):
     with pytest.raises(ProjectFileError, match="not found") as ei:
         load_project(_project(tmp_path, project_extra='tops_file = "nope.csv"'))
+    # README (Bad input, Project file): a missing file names the key
     assert "project.tops_file" in str(ei.value)

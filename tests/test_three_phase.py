@@ -227,6 +227,7 @@ def test_three_phase_errors(tmp_path, extra, key, words):
     p = project(tmp_path, extra)
     with pytest.raises(ProjectFileError) as ei:
         load_project(p)
+    # README (Bad input, Project file): every bad value names the key
     assert key in str(ei.value) and words in str(ei.value)
 
 
