@@ -41,7 +41,7 @@ def test_synthetic_inputs_are_read_on_the_fast_path(inputs):
 
     folder, paths = inputs
     big = read_las(paths["big"])
-    # the sizes bench/run.py makes the synthetic files with (smoke test of the bench, no timing)
+    # README (Performance): the sizes bench/run.py makes its synthetic files with (smoke test, no timing)
     assert big.n_samples == 300 and len(big.curves) == 13
     assert las_mod._parse_fast(paths["big"], paths["big"].read_bytes()) is not None
     assert len(list((folder / "field").glob("*.las"))) == 3
@@ -51,7 +51,7 @@ def test_synthetic_inputs_are_read_on_the_fast_path(inputs):
 def test_read_and_write_cases(bench, inputs, which, tmp_path):
     _, paths = inputs
     r = bench.case_read(ns(which=which, file=paths["big"], small=paths["small"]))
-    # smoke test of the bench: the case runs and reports its keys (no timing is compared);
+    # README (Performance): smoke test of the bench: the case runs and reports its keys (no timing is compared);
     # the five new curves bench/run.py writes
     assert r["seconds"] > 0 and set(r) == {"seconds", "peak_mb", "base_mb"}
     out = tmp_path / "w.las"
@@ -63,7 +63,7 @@ def test_read_and_write_cases(bench, inputs, which, tmp_path):
 def test_engine_well_and_project_cases(bench, inputs, tmp_path):
     folder, paths = inputs
     e = bench.case_engine(ns(n=2000, repeat=1))
-    # smoke test of the bench cases (no timing is compared); 3 field wells as made above
+    # README (Performance): smoke test of the bench cases (no timing is compared); 3 field wells as made above
     assert e["ours"]["seconds"] > 0 and e["floor"]["seconds"] > 0
     w = bench.case_well(ns(project=paths["one_project"], warm_project=paths["warm_project"],
                            out=tmp_path / "w"))

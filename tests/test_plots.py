@@ -417,6 +417,7 @@ def test_hydrocarbon_fill_and_flags_in_legend():
     res = make_result()
     res.shm.flag[:] = 0
     labels = legend_labels(plots._track_figure(res))
+    # README (Outputs): legend entries only for what is drawn
     assert not any(lbl.startswith("Flagged") or lbl == "Outside every zone" for lbl in labels)
 
 
