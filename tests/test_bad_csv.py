@@ -37,6 +37,7 @@ def refused(load, path, *where):
     with pytest.raises(SatHeightError) as info:
         load(path)
     msg = str(info.value)
+    # README (Bad input, CSV files): one line naming the file
     assert path.name in msg and "\n" not in msg
     for w in where:
         assert w in msg, msg
@@ -45,6 +46,7 @@ def refused(load, path, *where):
 
 def test_survey_tie_in_reads_the_first_row_only(tmp_path):
     s = read_survey(write(tmp_path, SURVEY.replace("100,1,10,", "100,1,10,not computed")))
+    # closed form: the first row's tie-in (a vertical well head at the origin); the file's MDs
     assert s.tie_in == (0.0, 0.0, 0.0)
     np.testing.assert_array_equal(s.md, [0, 100, 200])
 
@@ -84,6 +86,7 @@ def test_any_line_ends_give_the_same_result(tmp_path, load, text, newline):
         a, b = a[1], b[1]
     for key in ("pc", "sw", "md", "inc", "pressure", "tvdss", "porosity", "depth"):
         if hasattr(a, key):
+            # closed form: line ends carry no data (common practice), so both files give the same values
             np.testing.assert_array_equal(getattr(a, key), getattr(b, key))
     for key in ("rows", "labels", "line", "source"):
         if hasattr(a, key):
@@ -126,6 +129,7 @@ def test_digit_separators_are_not_numbers(tmp_path, load, text, old, where):
 def test_valid_files_load_with_the_values_written(tmp_path):
     """The fixtures above are valid: the refusals are caused by the change alone."""
     (plug, curve) = read_single_plug(write(tmp_path, SINGLE))
+    # the file's values (SINGLE) and its line numbers
     assert plug.porosity == 0.2 and curve.rows == (7, 8)
     # NIST SP 811: 1 psi = 6894.757 Pa
     np.testing.assert_allclose(read_pressure_steps(write(tmp_path, STEPS))[0].pc,

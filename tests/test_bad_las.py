@@ -101,10 +101,12 @@ def test_messy_las(tmp_path, name):
         with pytest.raises(expected[1]) as info:
             read_las(path)
         msg = str(info.value)
+        # README (Bad input, LAS files): one line naming the file and the cause
         assert path.name in msg and expected[2] in msg and "\n" not in msg, msg
         return
     well = read_las(path)
     if expected[1] is not None:
+        # README (Bad input, LAS files): read, with the note the table names
         assert any(expected[1] in m for m in well.warnings), well.warnings
     assert expected[2](well)
 
@@ -113,6 +115,7 @@ def test_latin1_text_is_read_and_written_back_as_utf8(tmp_path):
     path = tmp_path / "latin.las"
     path.write_bytes(BASE.replace("well name", "Pozo Ñandú").encode("latin-1"))
     well = read_las(path)
+    # README (Bad input, LAS files): Latin-1 text read; outputs are UTF-8
     assert well.well_header["WELL"].description == "Pozo Ñandú"
     write_las(tmp_path / "out.las", well)
     again = read_las(tmp_path / "out.las")
@@ -124,6 +127,7 @@ def test_leading_zero_identifier_kept_as_written(tmp_path):
     path = tmp_path / "uwi.las"
     path.write_text(BASE.replace("~Curve", "UWI. 0012345 : unique well id\n~Curve"))
     well = read_las(path)
+    # README (Bad input, LAS files): identifiers that look like numbers are kept as written
     assert str(well.well_header["UWI"].value) == "0012345"
     write_las(tmp_path / "out.las", well)
     assert " 0012345 " in (tmp_path / "out.las").read_text()
@@ -139,6 +143,7 @@ def test_curve_named_dlm_is_refused_naming_the_line(tmp_path):
                  "NULL.  -999.25 :\nWELL.  W :\n~Curve\nDEPT.M : depth\nDLM.V/V : \n~A\n0 1\n1 2\n")
     with pytest.raises(InputFileError) as e:
         read_las(p)
+    # README (Bad input): errors name the file and line (line 12 holds DLM in the text above)
     assert "dlm.las, line 12" in str(e.value) and "DLM" in str(e.value)
 
 

@@ -72,6 +72,7 @@ def test_porosity_outside_0_1_is_flagged_nan(tmp_path):
     result, msgs = make(tmp_path, phi, [100.0] * 26)
     flag, sw = result.shm.flag, result.shm.sw
     for i in (1, 2, 3, 4):
+        # README (Bad input, Values): porosity missing, <= 0 or > 1 flagged 2, Sw NaN, with a note
         assert flag[i] & FLAG_BAD_POROSITY and np.isnan(sw[i]), i
     assert np.isfinite(sw[[0, 5]]).all() and not (flag[[0, 5]] & FLAG_BAD_POROSITY).any()
     assert any("values above 1" in m and "PHIE" in m for m in msgs)
@@ -80,6 +81,7 @@ def test_porosity_outside_0_1_is_flagged_nan(tmp_path):
 def test_percent_looking_porosity_is_divided_by_100_with_a_note(tmp_path):
     phi = np.linspace(5.0, 30.0, 20)                                  # clearly percent
     result, msgs = make(tmp_path, phi, [100.0] * 20)
+    # closed form: percent / 100 (values 5-30 can only be percent: common practice)
     np.testing.assert_allclose(result.phi, phi / 100.0)
     assert any("read as percent" in m for m in msgs)
 
@@ -87,6 +89,7 @@ def test_percent_looking_porosity_is_divided_by_100_with_a_note(tmp_path):
 def test_percent_unit_with_fraction_values_keeps_the_unit_with_a_note(tmp_path):
     phi = [0.2] * 10
     result, msgs = make(tmp_path, phi, [100.0] * 10, phi_unit="%")
+    # closed form: 0.2 % = 0.002 as the declared unit says
     np.testing.assert_allclose(result.phi, 0.002)                    # the unit wins
     assert any("no value above 1" in m and "V/V" in m for m in msgs)
 
@@ -95,6 +98,7 @@ def test_permeability_not_positive_is_flagged_nan(tmp_path):
     k = [100.0, 0.0, -3.0, np.nan, 50.0]
     result, _ = make(tmp_path, [0.2] * 5, k)
     flag, sw = result.shm.flag, result.shm.sw
+    # README (Bad input, Values): permeability missing or <= 0 flagged 4, Sw NaN
     assert all(flag[i] & FLAG_BAD_PERMEABILITY and np.isnan(sw[i]) for i in (1, 2, 3))
     assert np.isfinite(sw[[0, 4]]).all()
 
@@ -102,9 +106,10 @@ def test_permeability_not_positive_is_flagged_nan(tmp_path):
 def test_rt_not_positive_gives_no_archie_sw(tmp_path):
     rt = [20.0, 0.0, -1.0, np.nan, 5.0]
     result, _ = make(tmp_path, [0.2] * 5, [100.0] * 5, rt=rt)
+    # README (Bad input, Values): Rt <= 0 or missing gives Archie log Sw NaN there
     assert result.sw_log_source == "archie"
     assert np.isnan(result.sw_log[[1, 2, 3]]).all()
-    # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (REFERENCES.md, computed)
+    # Archie 1942 with a=1, m=2, n=2: Sw = sqrt(Rw / (phi^2 Rt)) (archie1942; computed by hand)
     np.testing.assert_allclose(result.sw_log[[0, 4]], np.sqrt(0.05 / (0.04 * np.array([20, 5]))))
     assert np.isnan(archie_sw(np.array([0.0, -2.0]), np.array([0.2, 0.2]), 0.05)).all()
 
@@ -116,6 +121,8 @@ def test_nan_runs_stay_nan_and_a_zone_without_usable_samples_is_noted(tmp_path):
              dict(name="Low", top=1035, base=1050, fwl=1060)]
     result, msgs = make(tmp_path, phi, [100.0] * 40, zones=zones)
     sw = result.shm.sw
+    # README (Bad input, Values): runs of missing values: each sample NaN; a zone with no usable
+    # sample gives a note
     assert np.isnan(sw[5:35]).all() and np.isfinite(sw[:5]).all() and np.isfinite(sw[35:]).all()
     assert any("'Mid'" in m and "no SHM Sw" in m for m in msgs)
     assert not any("'Up'" in m and "no SHM Sw" in m for m in msgs)
@@ -124,6 +131,7 @@ def test_nan_runs_stay_nan_and_a_zone_without_usable_samples_is_noted(tmp_path):
 def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
                         zones=[dict(name="Z", top=990, base=1100, fwl=900)])
+    # closed form: the whole zone lies below its FWL, so Sw = 1 (hydrostatics, tiab2004)
     assert np.all(result.shm.sw == 1.0)
     assert any("at or above its shallowest sample" in m for m in msgs)
 
@@ -131,6 +139,7 @@ def test_fwl_above_the_zone_gives_sw_one_with_a_note(tmp_path):
 def test_fwl_below_the_well_is_noted(tmp_path):
     result, msgs = make(tmp_path, [0.2] * 20, [100.0] * 20,
                         zones=[dict(name="Z", top=990, base=1100, fwl=1900)])
+    # closed form: the whole zone lies far above its FWL: h > 0, Sw < 1
     assert np.all(result.shm.hafwl > 0) and np.all(result.shm.sw < 1.0)
     assert any("below its deepest sample" in m for m in msgs)
 
@@ -158,6 +167,8 @@ def test_zone_gap_samples_are_outside_every_zone(tmp_path):
              dict(name="B", top=1010, base=1030, fwl=1060)]
     result, _ = make(tmp_path, [0.2] * 40, [100.0] * 40, zones=zones)
     gap = (result.tvdss >= 1005) & (result.tvdss < 1010)
+    # README (Bad input, Values): gaps between zones flagged 1, no SHM values; closed form:
+    # 5 one-metre samples lie in the 1005-1010 m gap
     assert gap.sum() == 5
     assert np.all(result.shm.flag[gap] & FLAG_NO_ZONE)
     assert np.isnan(result.shm.sw[gap]).all() and np.isnan(result.shm.j[gap]).all()
@@ -176,6 +187,8 @@ def test_j_outside_calibrated_range_is_flagged_and_sw_kept(tmp_path):
                      zones=[dict(name="Z", top=990, base=1100, fwl=1050, j_min=0.5, j_max=5.0)])
     j, flag, sw = result.shm.j, result.shm.flag, result.shm.sw
     lo, hi = (j > 0) & (j < 0.5), j > 5.0
+    # README (Bad input, Values): J outside j_min..j_max flagged 8 or 16, Sw kept; closed form:
+    # J is proportional to sqrt(k) (leverett1941): k from 0.001 mD to 1e6 mD spans both sides
     assert lo.any() and hi.any()
     assert np.all(flag[lo] & FLAG_J_BELOW_RANGE) and np.all(flag[hi] & FLAG_J_ABOVE_RANGE)
     assert np.isfinite(sw[lo | hi]).all()

@@ -41,6 +41,7 @@ def test_synthetic_inputs_are_read_on_the_fast_path(inputs):
 
     folder, paths = inputs
     big = read_las(paths["big"])
+    # README (Performance): the sizes bench/run.py makes its synthetic files with (smoke test, no timing)
     assert big.n_samples == 300 and len(big.curves) == 13
     assert las_mod._parse_fast(paths["big"], paths["big"].read_bytes()) is not None
     assert len(list((folder / "field").glob("*.las"))) == 3
@@ -50,6 +51,8 @@ def test_synthetic_inputs_are_read_on_the_fast_path(inputs):
 def test_read_and_write_cases(bench, inputs, which, tmp_path):
     _, paths = inputs
     r = bench.case_read(ns(which=which, file=paths["big"], small=paths["small"]))
+    # README (Performance): smoke test of the bench: the case runs and reports its keys (no timing is compared);
+    # the five new curves bench/run.py writes
     assert r["seconds"] > 0 and set(r) == {"seconds", "peak_mb", "base_mb"}
     out = tmp_path / "w.las"
     bench.case_write(ns(which=which, file=paths["big"], small=paths["small"], out=out))
@@ -60,6 +63,7 @@ def test_read_and_write_cases(bench, inputs, which, tmp_path):
 def test_engine_well_and_project_cases(bench, inputs, tmp_path):
     folder, paths = inputs
     e = bench.case_engine(ns(n=2000, repeat=1))
+    # README (Performance): smoke test of the bench cases (no timing is compared); 3 field wells as made above
     assert e["ours"]["seconds"] > 0 and e["floor"]["seconds"] > 0
     w = bench.case_well(ns(project=paths["one_project"], warm_project=paths["warm_project"],
                            out=tmp_path / "w"))
@@ -79,5 +83,7 @@ def test_floor_is_the_engine_formula(bench):
     fn = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 1.2}, None)
     res = compute_shm(z, phi, k, [ZoneModel("A", 900, 1100, 1050, 1080, 780, "oil", 0.026, fn)])
     h, pc, j, sw = bench.floor_numpy(z, phi, k, 1050.0, 300.0, 0.026, 0.1, 0.3, 1.2)
+    # closed form written in bench/run.py's floor_numpy (hydrostatics, leverett1941, the power
+    # law), plain numpy; rel 1e-12: the same formula in another order
     np.testing.assert_allclose(res.sw, sw, rtol=1e-12)
     np.testing.assert_allclose(res.j, j, rtol=1e-12)

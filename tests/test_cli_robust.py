@@ -66,6 +66,8 @@ def test_program_error_in_one_well_fails_that_well_only(project, tmp_path, monke
 
     monkeypatch.setattr(pipeline, "compute_well", broken)
     code = main(["run", str(project), "--out", str(tmp_path / "o"), "--no-plots"])
+    # README (Bad input, Outputs): a well that fails, even on an internal error, does not stop
+    # the others (exit code 3)
     assert code == EXIT_WELLS_FAILED
     summary = json.loads((tmp_path / "o" / "run_summary.json").read_text())
     ok = {w["name"]: w["ok"] for w in summary["wells"]}
@@ -83,6 +85,7 @@ def test_error_text_with_line_breaks_is_printed_on_one_line(project, tmp_path, m
     monkeypatch.setattr("satheight.workflows.outputs.load_project", bad)
     code = main(["run", str(project), "--out", str(tmp_path / "o")])
     err = capsys.readouterr().err
+    # README (Bad input): a project-file error stops the run, exit code 2, one line
     assert code == EXIT_BAD_INPUT
     assert err.count("\n") == 1 and "first part second part" in err and "(do this)" in err
     assert "Traceback" not in err
@@ -94,6 +97,7 @@ def test_verbose_prints_details_before_or_after_the_command(tmp_path, capsys, wh
     args = ["--verbose", "run", missing] if where == "before" else ["run", missing, "--verbose"]
     code = main(args)
     err = capsys.readouterr().err
+    # README (Usage, --verbose): the traceback only with --verbose; one line otherwise
     assert code == EXIT_BAD_INPUT
     assert "Traceback" in err and "nope.toml" in err.splitlines()[-1]
     code = main(["run", missing])

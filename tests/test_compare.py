@@ -19,12 +19,13 @@ def test_sample_thickness_uniform_and_uneven():
 
 
 def test_hcpt_by_hand():
-    # sum(phi (1 - Sw) dh): 0.2*0.75*1 + 0.1*0.5*2 = 0.15 + 0.10 (NaN sample skipped)
+    # closed form by hand: sum(phi (1 - Sw) dh): 0.2*0.75*1 + 0.1*0.5*2 = 0.15 + 0.10 (NaN sample skipped)
     assert hydrocarbon_pore_thickness([0.2, 0.1, np.nan], [0.25, 0.5, 0.3], [1.0, 2.0, 1.0]) == pytest.approx(0.25)
 
 
 def test_difference_stats_by_hand():
     s = difference_stats(np.array([0.3, 0.5, np.nan]), np.array([0.2, 0.7, 0.1]))
+    # closed form by hand: differences 0.1 and -0.2 (NaN pair skipped): mean -0.05, rms sqrt(0.025)
     assert s["samples_compared"] == 2
     assert s["mean_difference"] == pytest.approx(-0.05)
     assert s["rms_difference"] == pytest.approx(np.sqrt((0.01 + 0.04) / 2))
@@ -48,11 +49,13 @@ def test_cutoffs_leave_out_tight_samples():
     r = _result([0.2, 0.2, 0.05, 0.2], [100, 100, 100, 0.01], [0.3, 0.3, 0.9, 0.9], [0.3, 0.4, 1.0, 1.0])
     s_all = summarise(r)
     s_net = summarise(r, min_porosity=0.1, min_permeability=1 * MILLIDARCY)
+    # closed form by hand: samples 3 (phi 0.05) and 4 (0.01 mD) fail the cutoffs; the net pair
+    # differs by 0 and -0.1: mean -0.05
     assert s_all["zones"]["Z"]["samples_compared"] == 4
     assert s_net["zones"]["Z"]["samples_compared"] == 2
     assert s_net["zones"]["Z"]["samples_net"] == 2
     assert s_net["zones"]["Z"]["mean_difference"] == pytest.approx(-0.05)
-    # HCPT over the net samples only: 0.2*0.7 + 0.2*0.7 (SHM); 0.2*0.7 + 0.2*0.6 (log)
+    # closed form by hand: HCPT over the net samples only: 0.2*0.7 + 0.2*0.7 (SHM); 0.2*0.7 + 0.2*0.6 (log)
     assert s_net["zones"]["Z"]["hcpt_shm"] == pytest.approx(0.28)
     assert s_net["zones"]["Z"]["hcpt_log"] == pytest.approx(0.26)
     assert s_net["whole_well"]["samples"] == 4

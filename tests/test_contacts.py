@@ -57,6 +57,7 @@ def samples_of(seed, fwl=TRUE_FWL, project_fwl=2075.0, **kw):
 def test_recovers_fwl_within_interval_jointly_and_per_well():
     s = [samples_of(i) for i in range(3)]
     r = search_fwl(s, n_boot=60, seed=1)
+    # known FWL of the synthetic wells (TRUE_FWL, the generator's input)
     assert r.low <= TRUE_FWL <= r.high
     assert r.high - r.low < 3.0                     # informative, not the whole window
     assert r.low <= r.best <= r.high
@@ -73,10 +74,13 @@ def test_interval_coverage_over_many_synthetic_wells():
         r = search_fwl([samples_of(100 + seed, n=500)], n_boot=40, seed=seed)
         hits += r.low <= TRUE_FWL <= r.high
         widths.append(r.high - r.low)
+    # known FWL; a nominal 95 % interval holds it in 19 of 20 on average, >= 16 of 20
+    # happens with probability 0.997 (binomial; library: scipy.stats.binom.sf(15, 20, 0.95))
     assert hits >= 16
     joint = search_fwl([samples_of(100 + seed, n=500) for seed in range(6)], n_boot=40, seed=3)
     assert joint.high - joint.low < np.median(widths)
     # the project's (wrong) FWL fits worse than the best one
+    # known truth: the project's 2075 m is 5 m off the generator's FWL
     assert r.misfit_at_project > r.misfit_at_best
     assert r.project_fwl == 2075.0
 
@@ -85,6 +89,7 @@ def test_search_is_repeatable_with_a_seed():
     s = [samples_of(3)]
     a = search_fwl(s, n_boot=30, seed=7)
     b = search_fwl(s, n_boot=30, seed=7)
+    # reproducibility (common practice): a seeded bootstrap repeats exactly on one machine
     assert (a.best, a.low, a.high) == (b.best, b.low, b.high)
 
 
@@ -92,10 +97,23 @@ def test_well_of_another_compartment_is_flagged():
     s = [samples_of(0), samples_of(1), samples_of(2, fwl=2092.0)]
     r = search_fwl(s, n_boot=60, seed=2)
     flagged = r.flagged_wells
+    # known truth: W2 was generated with FWL 2092 m, the others with TRUE_FWL
     assert flagged == ["W2"]
     w2 = next(w for w in r.wells if w.well == "W2")
     assert w2.low <= 2092.0 <= w2.high
     assert any("W2" in m for m in r.warnings)
+
+
+def sw_by_hand(z, phi, k, fwl):
+    """Sw of zone_model() written out (closed form): h = FWL - z (TVDSS positive down);
+    Pc = (1080 - 780) kg/m3 * 9.80665 m/s2 * h (hydrostatics, tiab2004; g cgpm1901);
+    J = Pc sqrt(k / phi) / 0.026 N/m (leverett1941); Sw = 0.1 + 0.9 * 0.3 * J^-1.2 above the
+    FWL, clipped to [0, 1]; Sw = 1 at and below the FWL."""
+    h = fwl - np.asarray(z, float)
+    j = 300.0 * 9.80665 * h * np.sqrt(k / phi) / 0.026
+    with np.errstate(divide="ignore", invalid="ignore"):
+        sw = np.clip(0.1 + 0.9 * 0.3 * np.power(np.where(h > 0, j, 1.0), -1.2), 0.0, 1.0)
+    return np.where(h > 0, sw, 1.0)
 
 
 def test_misfit_matrix_equals_engine_per_candidate():
@@ -103,19 +121,20 @@ def test_misfit_matrix_equals_engine_per_candidate():
     cands = np.array([2050.0, 2070.0, 2079.5])
     m = misfit_matrix(s, cands, misfit="absolute")
     for i, f in enumerate(cands):
-        zn = zone_model(fwl=f)
-        sw = compute_shm(s.tvdss, s.phi, s.k, [zn]).sw
+        # closed form (sw_by_hand's docstring): |Sw_SHM(FWL) - Sw_log| at each candidate FWL;
+        # atol 1e-12: a few roundings of numbers of order 1
+        sw = sw_by_hand(s.tvdss, s.phi, s.k, f)
         np.testing.assert_allclose(m[i], np.abs(sw - s.sw_log), rtol=0, atol=1e-12)
 
 
 def test_huber_is_quadratic_inside_and_linear_outside():
     s = samples_of(4, n=50)
     m = misfit_matrix(s, [TRUE_FWL], misfit="huber", delta=0.05)[0]
-    zn = zone_model()
-    r = compute_shm(s.tvdss, s.phi, s.k, [zn]).sw - s.sw_log
-    # Huber (1964): 0.5 r^2 for |r| <= delta, delta (|r| - delta/2) beyond
+    r = sw_by_hand(s.tvdss, s.phi, s.k, TRUE_FWL) - s.sw_log
+    # huber1964: 0.5 r^2 for |r| <= delta, delta (|r| - delta/2) beyond; r from the closed
+    # form above; atol 1e-13: squares of residuals of order 0.1, a few roundings
     expect = np.where(np.abs(r) <= 0.05, 0.5 * r**2, 0.05 * (np.abs(r) - 0.025))
-    np.testing.assert_allclose(m, expect, atol=1e-15)
+    np.testing.assert_allclose(m, expect, atol=1e-13)
 
 
 def test_cutoffs_and_mask_select_samples():
@@ -127,18 +146,21 @@ def test_cutoffs_and_mask_select_samples():
     masked = zone_samples("W", z, phi, k, sw, zn, mask=mask)
     shale = np.where(z < 2010, 100.0, 20.0)
     noshale = zone_samples("W", z, phi, k, sw, zn, shale=shale, max_shale=60.0)
+    # closed form: the cutoffs and mask counted by numpy on the same arrays
     assert all_.n == 300
     assert cut.n == int((phi >= 0.2).sum()) and np.all(cut.phi >= 0.2)
     assert masked.n == int(mask.sum()) and masked.tvdss.min() > 2020.0
     assert noshale.tvdss.min() >= 2010.0
     sw_in = sw.copy()
     zone_samples("W", z, phi, k, sw, zn, mask=mask)
+    # common practice (the project's rule): inputs are never modified
     np.testing.assert_array_equal(sw, sw_in)           # inputs untouched
 
 
 def test_block_weights_are_blocks_of_consecutive_samples():
     rng = np.random.default_rng(0)
     w = block_weights(23, 5, 40, rng)
+    # closed form (kuensch1989 moving blocks): each resample draws n samples in total
     assert w.shape == (40, 23)
     np.testing.assert_array_equal(w.sum(axis=1), 23)
     assert np.all(w >= 0)
@@ -149,15 +171,18 @@ def test_joint_parameter_fit_recovers_and_reports_tradeoff():
     with np.errstate(all="ignore"):
         p = fit_fwl_with_parameters(s, {"swirr": (0.0, 0.3), "b": (0.5, 3.0)},
                                     fwl_bounds=(2065.0, 2095.0), fwl_start=2078.0)
+    # known generating values: FWL TRUE_FWL, swirr 0.1, b 1.2 (zone_model)
     assert p["fwl"] == pytest.approx(TRUE_FWL, abs=1.5)
     assert p["values"]["swirr"] == pytest.approx(0.1, abs=0.03)
     assert p["values"]["b"] == pytest.approx(1.2, abs=0.2)
     corr = np.array(p["correlation"])
     assert corr.shape == (3, 3)
+    # closed form: a correlation matrix has a unit diagonal and entries in [-1, 1]
     np.testing.assert_allclose(np.diag(corr), 1.0, atol=1e-9)
     assert np.all(np.abs(corr) <= 1 + 1e-9)
     # a deeper FWL (taller column at each sample) must be offset by a steeper decline:
     # b and the FWL trade off positively for this power law
+    # closed form (the power law's algebra above)
     assert corr[0, 2] > 0 and p["per_metre_of_fwl"]["b"] > 0
     with pytest.raises(SatHeightError, match="no parameter"):
         fit_fwl_with_parameters(s, {"lam": (1, 2)}, fwl_bounds=(2070, 2090))
@@ -180,9 +205,11 @@ def test_too_few_samples_and_bad_options():
 def test_entry_j_of_the_families():
     # Brooks-Corey: Sw = 1 below the entry J jd (Brooks & Corey 1964)
     bc = build_function("brooks_corey", {"swirr": 0.12, "jd": 0.2, "lam": 2.5})
+    # brooks1964: the entry J is jd as given
     assert entry_j(bc) == pytest.approx(0.2, rel=1e-6)
     # power law: swirr + (1 - swirr) a J^-b = 1 at J = a^(1/b) (algebra of the form)
     pl = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 1.2})
+    # closed form worked in the comment above
     assert entry_j(pl) == pytest.approx(0.3 ** (1 / 1.2), rel=1e-6)
 
 
@@ -193,12 +220,15 @@ def test_entry_height_and_contact_depth():
     he = float(entry_height(zn, k, phi))
     # h_e = J_e sigma cos theta / (sqrt(k/phi) drho g), from J = Pc sqrt(k/phi)/sct, Pc = drho g h
     expect = 0.2 * 0.050 / (np.sqrt(k / phi) * (1079.5 - 220.0) * STANDARD_GRAVITY)
+    # closed form worked in the comment above (leverett1941, tiab2004 hydrostatics, cgpm1901)
     assert he == pytest.approx(expect, rel=1e-6)
     c = zone_contact(zn, np.full(5, phi), np.full(5, k))
+    # closed form: contact = FWL - entry height (contacts module docstring)
     assert c["contact_tvdss_m"] == pytest.approx(2290.0 - expect, rel=1e-9)
     # at the contact the engine's Sw just reaches 1, a bit above it drops below 1
     res = compute_shm(np.array([c["contact_tvdss_m"] + 1e-3, c["contact_tvdss_m"] - 0.05]),
                       np.full(2, phi), np.full(2, k), [zn])
+    # brooks1964: Sw = 1 below the entry J, < 1 above it
     assert res.sw[0] == pytest.approx(1.0) and res.sw[1] < 1.0
 
 
@@ -223,6 +253,7 @@ def test_fwl_command_on_demo(tmp_path):
     from satheight.project.reader import load_project
 
     assert len(doc["wells"]) == len(load_project(ROOT / "demo_wells" / "demo_project.toml").wells)
+    # the option given (--resamples 40)
     assert doc["bootstrap_resamples"] == 40
     assert (out / "fwl_Lower_Sand_misfit.png").stat().st_size > 10000
     assert "best FWL" in r.stdout
@@ -233,6 +264,7 @@ def test_fwl_command_unknown_zone(tmp_path):
                         str(ROOT / "demo_wells" / "demo_project.toml"), "--out",
                         str(tmp_path / "o"), "--zone", "Nowhere"],
                        capture_output=True, text=True, timeout=60)
+    # README (Contacts): an unknown zone is an error naming it (exit code 2)
     assert r.returncode == 2 and "Nowhere" in r.stderr
 
 
@@ -245,6 +277,7 @@ def test_run_summary_has_contact_per_zone(tmp_path):
     doc = json.loads((tmp_path / "o" / "VANTREL-1_summary.json").read_text())
     c = doc["zones"]["Upper Sand"]["contact"]
     assert c["contact_kind"] == "oil-water contact"
+    # closed form: contact = FWL - entry height (contacts module docstring)
     assert c["contact_tvdss"] == pytest.approx(c["fwl_tvdss"] - c["entry_height"])
     # demo_wells/README.md: a typical oil sand (phi 0.21, 30 mD) stays at Sw 1 up to about
     # 9 m above the FWL; the entry height of this well's typical rock is of that size

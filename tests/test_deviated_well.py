@@ -110,6 +110,7 @@ def field(tmp_path_factory):
     (d / "vert.las").write_text(las_text("VERT-1", md_vert, phi, k, ELEV_VERT))
     # stations at the kick-off point and the end of build, so the survey describes the path exactly
     st = np.r_[0.0, 250.0, np.arange(KOP, 3001.0, 20.0)]
+    # closed form: the end of build is a station (KOP + 40 deg / BUILD, computed above)
     assert np.any(np.isclose(st, EOB))
     inc = np.degrees(np.clip((st - KOP) * BUILD, 0.0, math.radians(HOLD_DEG)))
     (d / "dev_survey.csv").write_text("MD [m],INC [deg],AZI [deg]\n" + "".join(
@@ -131,17 +132,25 @@ def test_same_sw_in_tvdss_as_vertical_twin(field):
     dev, msgs = compute_well(proj, proj.wells[1])
     # TVDSS from the survey matches the closed-form path (circle + straight line, computed)
     tvd_cf, hd_cf = path_closed_form(dev.well.md)
+    # closed form (path_closed_form: circle + straight line, worked in its docstring);
+    # atol 1e-6 m: stations lie on the exact arc, so only rounding remains (sawaryn2005)
     np.testing.assert_allclose(dev.tvdss, tvd_cf - ELEV_DEV, atol=1e-6)
     np.testing.assert_allclose(np.hypot(dev.north, dev.east), hd_cf, atol=1e-6)
     np.testing.assert_allclose(np.degrees(np.arctan2(dev.east, dev.north)), AZI_DEG, atol=1e-6)
+    # closed form: the twin was sampled at the same TVDSS (md_vert = tvdss + ELEV_VERT)
     np.testing.assert_allclose(dev.tvdss, vert.tvdss, atol=1e-5)
     # the zone follows the tops in the deviated well: same TVDSS window as given
+    # the TVDSS window given through the MD tops (ZONE_TOP, ZONE_BASE)
     assert dev.zones[0].top == pytest.approx(ZONE_TOP, abs=1e-5)
     assert dev.zones[0].base == pytest.approx(ZONE_BASE, abs=1e-5)
     # same Sw profile; vertical well zone is wider, so compare where the deviated well is zoned
     inz = dev.shm.zone == 0
+    # closed form: (ZONE_BASE - ZONE_TOP) / cos 40 / 0.1524 m samples lie in the zone;
+    # the power law (a 0.3, b 1.2) falls below 0.4 within the zone's height above the FWL
     assert inz.sum() > 800 and np.isfinite(dev.shm.sw[inz]).all()
     assert dev.shm.sw[inz].min() < 0.4      # a real transition zone is compared, not all water
+    # closed form: Pc = drho g h depends on the vertical height only (hydrostatics, tiab2004),
+    # so the same rock at the same TVDSS has the same Sw in both wells
     np.testing.assert_allclose(dev.shm.sw[inz], vert.shm.sw[inz], atol=1e-6)
     np.testing.assert_allclose(dev.shm.hafwl[inz], vert.shm.hafwl[inz], atol=1e-5)
 
@@ -151,29 +160,38 @@ def test_without_survey_the_profile_differs(field):
     proj = load_project(field / "p_nosurvey.toml")
     vert, _ = compute_well(proj, proj.wells[0])
     dev, _ = compute_well(proj, proj.wells[1])
+    # closed form: MD - TVD of the build-and-hold path reaches tens of metres (path_closed_form)
     assert np.nanmax(np.abs(dev.tvdss - vert.tvdss)) > 50
     zoned = (vert.shm.zone == 0) & (vert.shm.sw < 0.9)
     differ = ~(np.abs(dev.shm.sw - vert.shm.sw) <= 1e-3)   # NaN (outside every zone) differs too
+    # closed form: wrong TVDSS -> wrong height above the FWL -> another Sw (hydrostatics)
     assert zoned.sum() > 300 and differ[zoned].mean() > 0.9
 
 
 def test_outputs_and_vertical_thickness(field, tmp_path):
     report = run_project(field / "p.toml", tmp_path / "out", plot=False)
+    # README (Outputs): every well computed (none failed); its files checked below with lasio
     assert not report.failed
     out = lasio.read(tmp_path / "out" / "DEV-1.las")
     md = out.index
     tvd_cf, hd_cf = path_closed_form(md)
+    # library: lasio reads the output; closed form path_closed_form; atol 2e-4 m: the LAS
+    # text keeps 4 decimals of metres
     np.testing.assert_allclose(out["TVD"], tvd_cf, atol=2e-4)
     np.testing.assert_allclose(out["TVDSS"], tvd_cf - ELEV_DEV, atol=2e-4)
     np.testing.assert_allclose(np.hypot(out["NORTH"], out["EAST"]), hd_cf, atol=3e-4)
+    # the survey file given in the project
     assert out.params["SHM_SURVEY"].value == "dev_survey.csv"
     vert = lasio.read(tmp_path / "out" / "VERT-1.las")
+    # closed form: no survey -> vertical well, no horizontal offset
     np.testing.assert_allclose(vert["TVD"], vert.index, atol=1e-4)   # vertical: TVD = MD
     assert np.all(vert["NORTH"] == 0) and np.all(vert["EAST"] == 0)
     # true vertical thickness of the zone in the deviated well: base - top, although the
     # hole is 1/cos(40 deg) = 1.31 times longer through it (computed)
     w = {x.name: x for x in report.wells}["DEV-1"].result.summary
     zone = w["zones"][0] if isinstance(w["zones"], list) else w["zones"]["Sand"]
+    # closed form: vertical thickness = base - top in TVDSS; abs 0.3 m: two sample steps
+    # of 0.1524 m cos 40 at the zone's ends
     assert zone["vertical_thickness"] == pytest.approx(ZONE_BASE - ZONE_TOP, abs=0.3)
     csv_head = (tmp_path / "out" / "DEV-1.csv").read_text().splitlines()[0]
     assert "TVD [M]" in csv_head.upper() and "NORTH" in csv_head and "EAST" in csv_head
@@ -195,11 +213,15 @@ def test_demo_deviated_well_matches_its_generator():
     proj = load_project(demo / "demo_project.toml")
     pw = next(w for w in proj.wells if w.las.stem == "VANTREL-5")
     res, _ = compute_well(proj, pw)
+    # known generator values: demo_wells/make_demo.py's closed-form build-and-hold (its own code,
+    # no minimum curvature); atol 1e-3 m: LAS text rounding and survey station spacing
     np.testing.assert_allclose(res.well.md, md, atol=1e-9)
     np.testing.assert_allclose(res.tvdss, tvdss_true, atol=1e-3)
     for zs, zm in zip(mk.ZONES, res.zones):
+        # known generator values (make_demo.ZONES, TVDSS layer cake)
         assert zm.top == pytest.approx(zs["top"], abs=2e-3)
         assert zm.base == pytest.approx(zs["base"], abs=2e-3)
+    # closed form: a vertical well would give 1.0; a hold at tens of degrees gives cos(inc)
     assert np.nanmax(res.tvdss) - np.nanmin(res.tvdss) < 0.8 * (md[-1] - md[0])  # really deviated
 
 
@@ -219,9 +241,11 @@ def test_cli_depth_axis_and_field_section(field, tmp_path, monkeypatch):
     monkeypatch.setattr(outputs, "track_plot", spy)
     code = main(["run", str(field / "p.toml"), "--out", str(tmp_path / "o"), "--depth-axis", "tvdss"])
     assert code == 0
+    # the option given (--depth-axis tvdss), once per well
     assert seen == ["tvdss", "tvdss"]
     summary = json.loads((tmp_path / "o" / "run_summary.json").read_text())
     assert summary["field_section"] == "field_section.png"
+    # rfc2083: the PNG signature
     assert (tmp_path / "o" / "field_section.png").read_bytes()[:4] == b"\x89PNG"
     with pytest.raises(SystemExit):
         main(["run", str(field / "p.toml"), "--depth-axis", "tvd"])

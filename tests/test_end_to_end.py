@@ -39,6 +39,8 @@ def demo_run(tmp_path_factory):
 
 
 def test_demo_exits_ok_and_writes_every_file(demo_run):
+    # README (Outputs, Demo field): every well ok; LAS, CSV, summary, track PNG and PDF written;
+    # no temporary file left
     code, out, _, _ = demo_run
     assert code == 0
     project = load_project(DEMO_PROJECT)
@@ -55,6 +57,7 @@ def test_demo_exits_ok_and_writes_every_file(demo_run):
 
 def test_inputs_untouched(demo_run):
     _, _, before, after = demo_run
+    # README (Outputs): inputs are only read, never written (checksums before and after)
     assert before == after
 
 
@@ -76,6 +79,7 @@ def test_output_las_keeps_input_curves(demo_run):
         src = by_name[w["name"]]
         for c in src.curves:
             got = las[c.mnemonic]
+            # library: lasio reads input and output: the input file's values come back exactly
             np.testing.assert_array_equal(np.isnan(got), np.isnan(c.data), err_msg=c.mnemonic)
             np.testing.assert_allclose(got, c.data, rtol=0, atol=0, equal_nan=True, err_msg=c.mnemonic)
             assert las.curves[c.mnemonic].unit == c.unit
@@ -106,13 +110,17 @@ def test_output_physics(demo_run):
                 above = m & (hafwl > 0.5)
                 # PC_RES / HAFWL = delta rho * g in each zone (hydrostatics)
                 ratio = pc[above] / hafwl[above]
+                # closed form (hydrostatics, tiab2004; library: scipy.constants.g); rtol 2e-3: PC_RES and
+                # HAFWL are written with a few decimals
                 np.testing.assert_allclose(ratio, drho * sc.g, rtol=2e-3)
                 # at and below the FWL: Sw = 1
                 below = m & (hafwl <= 0)
+                # closed form: Sw = 1 at and below the FWL
                 assert np.all(sw[below] == 1.0)
                 # Sw non-increasing with J within a zone (one function per zone)
                 ok = m & np.isfinite(j) & np.isfinite(sw) & (hafwl > 0)
                 order = np.argsort(j[ok], kind="stable")
+                # closed form: every family's Sw falls with J; 2e-5: Sw written with 5 decimals
                 assert np.all(np.diff(sw[ok][order]) <= 2e-5)
                 n_checked += int(ok.sum())
             i += 1
@@ -125,6 +133,8 @@ def test_summary_json_has_per_zone_statistics(demo_run):
         if f.name == "run_summary.json":
             continue
         s = json.loads(f.read_text())
+        # README (Outputs, <WELL>_summary.json): the per-zone statistics it lists; closed form:
+        # RMS >= |mean| for any set of differences
         assert s["zones"], f
         for zname, z in s["zones"].items():
             for key in ("mean_difference", "rms_difference", "hcpt_shm", "hcpt_log",
@@ -136,6 +146,8 @@ def test_summary_json_has_per_zone_statistics(demo_run):
 
 def test_rerun_same_folder_is_consistent(demo_run, tmp_path):
     _, out, _, _ = demo_run
+    # README (Usage): a re-run with --overwrite gives the same files (a repeat on one machine,
+    # not a value check)
     code = main(["demo", "--out", str(tmp_path), "--no-plots"])
     assert code == 0
     code = main(["demo", "--out", str(tmp_path), "--no-plots", "--overwrite"])
@@ -195,6 +207,8 @@ def test_missing_curve_message(tmp_path, capsys):
     (tmp_path / "p.toml").write_text(PROJECT.format(las="w.las", fwl="979 m"))
     code = main(["run", str(tmp_path / "p.toml"), "--out", str(tmp_path / "o")])
     text = capsys.readouterr().out
+    # README (Bad input): a missing curve fails the well (exit code 3) naming the curve, the
+    # aliases tried and the file
     assert code == 3
     assert "permeability" in text and "PERM" in text and "PHIE" in text and "w.las" in text
 
@@ -204,6 +218,8 @@ def test_bad_project_value_message(tmp_path, capsys):
     (tmp_path / "p.toml").write_text(PROJECT.format(las="w.las", fwl="979 parsecs"))
     code = main(["run", str(tmp_path / "p.toml")])
     err = capsys.readouterr().err
+    # README (Bad input): a project-file error stops the run (exit code 2), one line naming the
+    # file and key
     assert code == 2
     assert "p.toml" in err and "zones[Sand].fwl" in err
     assert err.count("\n") == 1  # one line
@@ -212,6 +228,7 @@ def test_bad_project_value_message(tmp_path, capsys):
 def test_missing_file_message(tmp_path, capsys):
     code = main(["run", str(tmp_path / "nope.toml")])
     err = capsys.readouterr().err
+    # README (Bad input): a missing file is an error naming it (exit code 2)
     assert code == 2 and "nope.toml" in err
     code = main(["inspect", str(tmp_path / "nope.las")])
     err = capsys.readouterr().err
@@ -221,6 +238,7 @@ def test_missing_file_message(tmp_path, capsys):
 def test_launcher_matches_command(tmp_path):
     # top-level cli.py runs the same main()
     r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "--help"], capture_output=True, text=True)
+    # README (Usage): the commands listed there
     assert r.returncode == 0 and "demo" in r.stdout and "inspect" in r.stdout
 
 
@@ -229,6 +247,7 @@ def test_inspect_lists_roles(capsys):
     code = main(["inspect", str(project.wells[0].las)])
     text = capsys.readouterr().out
     assert code == 0
+    # README (Curve roles): inspect names each role's curve
     assert "porosity" in text and "permeability" in text and "PHIE" in text and "PERM" in text
 
 

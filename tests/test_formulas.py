@@ -1,7 +1,7 @@
 """Each formula against an outside source, named beside the check.
 
-Values tagged "REFERENCES.md" are the verified check values of the project's
-reference table (shared/REFERENCES.md), which names their origin.
+Each comment names a key of docs/references.md (the published source) and says whether the
+value is published, computed here from the published equation, or recalled from memory.
 """
 
 import math
@@ -34,7 +34,7 @@ def test_standard_gravity_matches_scipy():
 
 
 def test_millidarcy_in_m2():
-    # NIST SP 811: 1 darcy = 9.869233e-13 m^2 (REFERENCES.md #3, from memory there)
+    # NIST SP 811: 1 darcy = 9.869233e-13 m^2 (nist2008, recalled from memory)
     assert C.MILLIDARCY == pytest.approx(9.869233e-16, rel=1e-12)
 
 
@@ -44,13 +44,13 @@ def test_foot_matches_scipy():
 
 
 def test_field_unit_j_constant():
-    # REFERENCES.md #4: derived from NIST SP 811 psi and darcy: 0.216601 (textbooks print 0.2166)
+    # nist2008: derived from the psi and the darcy: 0.216601 (textbooks print 0.2166)
     assert C.J_FIELD_CONSTANT == pytest.approx(0.216601, abs=5e-7)
     assert round(C.J_FIELD_CONSTANT, 4) == 0.2166
 
 
 def test_j_same_in_si_and_field_units():
-    # REFERENCES.md #5: Pc=10 psi, k=100 mD, phi=0.2, sigma cos theta = 26 dyn/cm -> J = 1.86283
+    # leverett1941 + nist2008 (computed): Pc=10 psi, k=100 mD, phi=0.2, sigma cos theta = 26 dyn/cm -> J = 1.86283
     j_si = leverett_j(10 * C.PSI, 100 * C.MILLIDARCY, 0.2, 26 * C.DYNE_PER_CM)
     j_field = C.J_FIELD_CONSTANT * 10 * math.sqrt(100 / 0.2) / 26
     assert j_si == pytest.approx(1.86283, abs=5e-6)
@@ -58,21 +58,25 @@ def test_j_same_in_si_and_field_units():
 
 
 def test_pc_from_j_inverts_j():
-    # identity of the Leverett definition (Leverett 1941)
+    # leverett1941 + nist2008 (computed): J 1.86283 at k 100 mD, phi 0.2, 26 dyn/cm is Pc 10 psi
+    # (the worked value above, read backwards; rel 3e-6: J is given to 6 digits)
+    pc = pc_from_j(1.86283, 100 * C.MILLIDARCY, 0.2, 26 * C.DYNE_PER_CM)
+    assert pc / C.PSI == pytest.approx(10.0, rel=3e-6)
+    # closed form: Pc = J sigma cos theta / sqrt(k / phi), written out for other values
     k, phi, sct = 250 * C.MILLIDARCY, 0.23, 0.026
-    pc = np.array([1e3, 5e4, 2e5])
-    assert pc_from_j(leverett_j(pc, k, phi, sct), k, phi, sct) == pytest.approx(pc, rel=1e-12)
+    j = np.array([0.05, 1.0, 7.5])
+    assert pc_from_j(j, k, phi, sct) == pytest.approx(j * sct / np.sqrt(k / phi), rel=1e-12)
 
 
 def test_pc_from_height_reference_value():
-    # REFERENCES.md #7: delta rho 250 kg/m3, h = 100 m -> 245166.25 Pa = 35.5584 psi
+    # tiab2004 hydrostatics + cgpm1901 (computed by hand: 250 * 9.80665 * 100): delta rho 250 kg/m3, h = 100 m -> 245166.25 Pa = 35.5584 psi
     pc = capillary_pressure_from_height(100.0, 1250.0, 1000.0)
     assert pc == pytest.approx(245166.25, rel=1e-12)
     assert pc / C.PSI == pytest.approx(35.5584, abs=5e-5)
 
 
 def test_fresh_water_gradient():
-    # REFERENCES.md #6: 1 g/cc -> 0.433528 psi/ft (trade rule 0.433: common practice)
+    # nist2008 + cgpm1901 (computed): 1 g/cc -> 0.433528 psi/ft (trade rule 0.433: common practice)
     rho = U.parse_quantity("1 g/cm3", "density")
     grad_psi_ft = rho * C.STANDARD_GRAVITY * C.FOOT / C.PSI
     assert grad_psi_ft == pytest.approx(0.433528, abs=5e-7)
@@ -81,12 +85,12 @@ def test_fresh_water_gradient():
 
 
 def test_height_above_fwl_sign():
-    # convention (DESIGN): h = z_FWL - z, TVDSS positive down
+    # convention (common practice): h = z_FWL - z, TVDSS positive down
     assert height_above_fwl([2000.0, 2100.0], 2050.0) == pytest.approx([50.0, -50.0])
 
 
 def test_chained_mercury_to_reservoir_height():
-    # REFERENCES.md: mercury Pc 100 psi, k 100 mD, phi 0.2 (sigma cos theta 367.7 dyn/cm, Purcell 1949,
+    # tiab2004 (computed): mercury Pc 100 psi, k 100 mD, phi 0.2 (sigma cos theta 367.7 dyn/cm, Purcell 1949,
     # from memory) -> J 1.31720 -> reservoir oil-brine (25.98 dyn/cm) Pc 7.06572 psi -> 65.193 ft at 0.25 g/cc
     sct_hg = 480 * math.cos(math.radians(140)) * -1 * C.DYNE_PER_CM
     sct_res = 30 * math.cos(math.radians(30)) * C.DYNE_PER_CM
@@ -100,7 +104,7 @@ def test_chained_mercury_to_reservoir_height():
 
 
 def test_lab_to_reservoir_height_chain_in_one_module():
-    """The same REFERENCES.md chain through capillary.py's conversion functions.
+    """The tiab2004 chained example (values computed from its textbook sigma, theta) through capillary.py.
 
     Lab mercury Pc 100 psi scaled by (sigma cos theta) ratio 25.98/367.7 -> 7.06572 psi;
     h = Pc / (250 kg/m3 * g) -> 65.193 ft; and J from (k, phi) at that height gives
@@ -108,7 +112,7 @@ def test_lab_to_reservoir_height_chain_in_one_module():
     """
     sct_hg = 480 * -math.cos(math.radians(140)) * C.DYNE_PER_CM
     sct_res = 30 * math.cos(math.radians(30)) * C.DYNE_PER_CM
-    assert sigma_cos_theta_ratio(sct_hg, sct_res) == pytest.approx(0.070657, abs=5e-7)  # REFERENCES.md
+    assert sigma_cos_theta_ratio(sct_hg, sct_res) == pytest.approx(0.070657, abs=5e-7)  # tiab2004 (computed)
     pc_res = lab_to_reservoir_pc(100 * C.PSI, sct_hg, sct_res)
     assert pc_res / C.PSI == pytest.approx(7.06572, abs=5e-5)
     h = height_from_pc(pc_res, 250.0)
@@ -135,32 +139,34 @@ def test_three_phase_pc_accumulates_both_columns():
 # --- Archie --------------------------------------------------------------------------
 
 def test_archie_worked_numbers():
-    # Archie 1942, Trans. AIME 146 (REFERENCES.md, computed): a=1, m=2, n=2, phi 0.2, Rw 0.05, Rt 20
+    # Archie 1942, Trans. AIME 146 (archie1942, computed): a=1, m=2, n=2, phi 0.2, Rw 0.05, Rt 20
     assert formation_factor(0.2, 1.0, 2.0) == pytest.approx(25.0)
     assert archie_sw(20.0, 0.2, 0.05, 1.0, 2.0, 2.0) == pytest.approx(0.25, abs=1e-12)
     assert archie_sw(20.0, 0.2, 0.05, 1.0, 2.0, 2.5) == pytest.approx(0.32988, abs=5e-6)
 
 
 def test_archie_winsauer_constants():
-    # Winsauer et al. 1952 a=0.62, m=2.15 (from memory; REFERENCES.md computed F 19.7323, Sw 0.22211)
+    # Winsauer et al. 1952 a=0.62, m=2.15 (winsauer1952, from memory; computed F 19.7323, Sw 0.22211)
     assert formation_factor(0.2, 0.62, 2.15) == pytest.approx(19.7323, abs=5e-4)
     assert archie_sw(20.0, 0.2, 0.05, 0.62, 2.15, 2.0) == pytest.approx(0.22211, abs=5e-6)
 
 
 def test_archie_bad_values_give_nan():
     sw = archie_sw(np.array([0.0, -1.0, np.nan, 10.0]), np.array([0.2, 0.2, 0.2, 0.0]), 0.05)
+    # closed form: Rt <= 0, NaN or phi <= 0 have no Archie saturation (archie1942 needs Rt, phi > 0)
     assert np.isnan(sw).all()
 
 
 # --- J-Sw functions ---------------------------------------------------------------
 
 def test_brooks_corey_reference():
-    # Brooks & Corey 1964, Hydrology Paper 3 (REFERENCES.md, computed): Pd 5, lambda 2, Swr 0.2,
+    # Brooks & Corey 1964, Hydrology Paper 3 (brooks1964, computed): Pd 5, lambda 2, Swr 0.2,
     # Pc 20 -> Se 0.0625, Sw 0.25; Sw 0.5 -> Pc 8.16497. The same form in J with jd = Pd.
     f = build_function("brooks_corey", {"swirr": 0.2, "jd": 5.0, "lam": 2.0})
     assert f.predict([20.0]) == pytest.approx([0.25], abs=1e-12)
     assert f.predict([8.16497]) == pytest.approx([0.5], abs=1e-5)
     # below entry the rock stays water-full
+    # brooks1964: Se = 1 below the displacement value
     assert f.predict([4.9, 1.0]) == pytest.approx([1.0, 1.0])
 
 
@@ -169,6 +175,8 @@ def test_power_law_shape():
     f = build_function("power_law", {"swirr": 0.1, "a": 0.3, "b": 2.0})
     sw = f.predict(np.array([1.0, math.sqrt(2.0), 1e6, 0.0, -3.0]))
     se = (sw - 0.1) / 0.9
+    # closed form: Se = a J^-b = 0.3 at J = 1, 0.15 at J = sqrt(2) (b = 2), -> 0 at J = 1e6;
+    # Sw = 1 at and below the FWL (J <= 0)
     assert se[0] == pytest.approx(0.3)
     assert se[1] == pytest.approx(0.15)
     assert sw[2] == pytest.approx(0.1, abs=1e-9)
@@ -186,7 +194,9 @@ def test_fit_recovers_parameters(cls, params):
     sw = np.clip(cls.equation(j, **params), 0, 1) + rng.normal(0, 0.01, j.size)
     f = cls().fit(j, sw)
     for p, v in params.items():
+        # known generating parameters (params), within 4 standard errors (normal theory)
         assert abs(f.params_[p] - v) < 4 * f.stderr_[p] + 1e-9, (p, f.params_, f.stderr_)
+    # known noise sd 0.01 put in; the J range of the data given (geomspace(0.2, 20))
     assert f.rmse_ == pytest.approx(0.01, rel=0.3)
     assert f.j_range_ == (pytest.approx(0.2), pytest.approx(20.0))
 

@@ -100,6 +100,7 @@ def test_cli_never_crashes_and_round_trips(project_dir, text, mutate, data):
     out_dir = project_dir / "out"
     code, out, err = _run(["run", str(project_dir / "p.toml"), "--out", str(out_dir),
                            "--no-plots", "--overwrite"])
+    # README (Bad input): never a traceback; a LAS error fails that well only (exit code 3)
     assert "Traceback" not in err and "Traceback" not in out
     assert code in (0, 3), (code, err)           # the project file is fine: only the well may fail
     # inspect: listing or a one-line error, never a traceback
@@ -139,6 +140,7 @@ def test_cli_bad_las_one_line_error_and_exit_code(project_dir):
     out_dir = project_dir / "out_bad"
     code, out, err = _run(["run", str(project_dir / "p.toml"), "--out", str(out_dir),
                            "--no-plots"])
+    # README (Bad input): a LAS error fails that well only (exit code 3), naming the file and line
     assert code == 3
     line = next(ln for ln in out.splitlines() if "FAILED" in ln)
     assert "w.las" in line and "line" in line

@@ -36,6 +36,7 @@ def check_valid_file(case, workdir, data):
     path = workdir / case.name / f"valid{case.suffix}"
     write_case(path, content)
     result, error = load_cleanly(case.load, path)
+    # README (Bad input): a valid file loads; its values are checked against the generator's
     assert error is None, f"a valid file was refused: {error}"
     case.check_loaded(result)
     case.check_valid(result, expected)
@@ -92,6 +93,7 @@ def test_form_changes_keep_the_values(case, mutation, workdir, data):
     path = workdir / case.name / f"same{case.suffix}"
     write_case(path, case.same_values[mutation](text, data))
     result, error = load_cleanly(case.load, path)
+    # README (Bad input, CSV and LAS files): line ends, BOM, blanks, letter case: same values
     assert error is None, f"a valid file in another form was refused: {error}"
     case.check_loaded(result)
     case.check_valid(result, expected)

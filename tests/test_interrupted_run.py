@@ -80,6 +80,9 @@ def check_complete(out: Path, old: dict[str, bytes], new_fwl: float) -> int:
     """Every visible output is the old file or a complete new one; return how many are new."""
     n_new = 0
     for f in sorted(out.iterdir()):
+        # README (Outputs): each output is the old complete file or the new complete one; a killed
+        # run may leave a hidden .<name>.<random>.tmp. New files are checked whole with independent
+        # readers (library: lasio, json, pandas): every row, the new FWL given, a closed </html>
         if f.name.startswith("."):
             # a killed run leaves its lock, its work folder or a temporary file (cleaned by
             # the next run), never a visible half file
@@ -119,6 +122,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     out = tmp_path / "out"
     first = make_project(src, 2000.0)
     t0 = time.monotonic()
+    # README (Outputs): per well LAS, CSV, JSON, plus run_summary.json and report.html
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
@@ -138,6 +142,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
         proc.send_signal(signal.SIGKILL)
         proc.wait()
         check_complete(out, old, 1500.0)
+    # README (Outputs): inputs are only read, never written (SHA-256 before and after)
     # the inputs were only read
     assert {f.name: _digest(f) for f in src.iterdir() if f.name != "p2.toml"} == inputs, delays
 
@@ -162,6 +167,8 @@ def test_rerun_is_refused_without_overwrite(tmp_path, capsys):
     src.mkdir()
     p = make_project(src, 1800.0, n=300)
     out = tmp_path / "out"
+    # README (Usage): a folder holding an earlier run is refused (exit code 2) unless
+    # --overwrite is given; other files in the folder are left alone
     assert main(["run", str(p), "--out", str(out), "--no-plots"]) == 0
     before = {f.name: f.read_bytes() for f in out.iterdir()}
     capsys.readouterr()
@@ -192,6 +199,8 @@ def test_inputs_opened_read_only(tmp_path):
         if active[0] and event == "open" and args and isinstance(args[0], (str, bytes, os.PathLike)):
             events.append((os.fsdecode(args[0]), args[1], args[2]))
 
+    # README (Outputs): inputs are only read, never written; library: sys.addaudithook (standard
+    # library) sees every open
     sys.addaudithook(hook)          # audit hooks cannot be removed: the flag turns it off
     try:
         assert main(["run", str(p), "--out", str(tmp_path / "out"), "--no-plots"]) == 0

@@ -65,12 +65,15 @@ def bits(a):
 
 
 def assert_same_well(a, b):
+    # library: lasio (the reference path reads the file through lasio): the same well
     assert list(a.curves) == list(b.curves)
     for key in a.curves:
         x, y = a.curves[key], b.curves[key]
         assert (x.mnemonic, x.unit, x.description, x.value) == (y.mnemonic, y.unit, y.description,
                                                                  y.value)
         assert x.data.dtype == y.data.dtype == np.float64
+        # library: lasio reads the same file on the reference path; decimal text parses to the
+        # nearest double in both readers, so the values are equal bit for bit (-0.0 included)
         np.testing.assert_array_equal(np.isnan(x.data), np.isnan(y.data), err_msg=key)
         np.testing.assert_array_equal(bits(x.data), bits(y.data), err_msg=key)   # -0.0 too
     np.testing.assert_array_equal(a.md, b.md)
@@ -83,6 +86,7 @@ def assert_same_well(a, b):
 
 def check(path, fast_expected: bool):
     """Both engines give the same well (or the same error); the fast path ran as expected."""
+    # library: lasio reads the same file (engine="lasio"): the same well or the same error
     assert took_fast(path) is fast_expected
     try:
         ref = read_las(path, engine="lasio")
@@ -103,6 +107,7 @@ def check(path, fast_expected: bool):
 @pytest.mark.parametrize("name", sorted(p.name for p in DEMO.glob("*.las")))
 def test_demo_files(name):
     well = check(DEMO / name, True)
+    # the demo files' sizes (demo_wells/make_demo.py writes thousands of rows per well)
     assert well.n_samples > 1000
 
 
@@ -115,6 +120,7 @@ PLAIN = ("1000.0 45.5 0.21 150.0\n"
 @pytest.mark.parametrize("newline", ["\n", "\r\n"])
 def test_plain_file_and_crlf(tmp_path, newline):
     well = check(write(tmp_path, las(PLAIN), newline=newline), True)
+    # the file's values (PLAIN): one NULL in GR
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, False, False])
 
 
@@ -143,11 +149,13 @@ def test_layouts_taken_by_fast_path(tmp_path, rows):
 ])
 def test_text_in_numbers(tmp_path, rows):
     well = check(write(tmp_path, las(rows)), True)
+    # README (Bad input, LAS files): text in a number is read as missing, with a note
     assert well is not None
 
 
 def test_text_warning_names_curve_and_row(tmp_path):
     well = check(write(tmp_path, las("1000.0 45 0.21 150\n1000.5 50 oops 80\n")), True)
+    # README (Bad input, LAS files): the note names the curve and the data row
     assert np.isnan(well.curves["PHIE"].data[1])
     assert any("'PHIE'" in w and "'oops'" in w and "data row 2" in w for w in well.warnings)
 
@@ -178,6 +186,8 @@ def test_written_file_reads_back_on_fast_path(tmp_path):
     write_las(out, src, new_curves=[Curve("SW_NEW", "v/v", "new", sw)], decimals={"SW_NEW": 5})
     well = check(out, True)
     for key, c in src.curves.items():
+        # round trip: the input curves read back as they were read (their text has fewer decimals
+        # than the writer keeps)
         np.testing.assert_array_equal(well.curves[key].data, c.data)
 
 
@@ -236,6 +246,7 @@ def test_lowercase_or_missing_data_section(tmp_path):
 def test_split_data_section_finds_title_line():
     raw = b"~V\n VERS. 2.0 :\n  ~A DEPT\n1 2\n"
     start, end = las_fast.split_data_section(raw)
+    # cwls1992: ~A starts the data section (the bytes written above)
     assert raw[start:end] == b"  ~A DEPT\n" and raw[end:] == b"1 2\n"
     assert las_fast.split_data_section(b"~V\n VERS. 2.0 :\n") is None
 
@@ -243,6 +254,7 @@ def test_split_data_section_finds_title_line():
 def test_scan_counts_tokens_outside_comments():
     raw = b"~A\n 1 2\t3\n#c d e\n\n4 5 6"
     scan = las_fast.scan_data_section(raw, 3)
+    # closed form: 6 numbers outside the comment line (counted by hand)
     assert scan.tokens == 6 and scan.has_comments
 
 
@@ -291,6 +303,7 @@ def test_csv_writer_equals_pandas(tmp_path):
     cols = {(f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic): c.data
             for c in list(src.curves.values()) + new}
     expect = pd.DataFrame(cols).to_csv(index=False, float_format="%.10g", lineterminator="\n")
+    # library: pandas DataFrame.to_csv, the reference named above
     assert out.read_text() == expect
 
 
@@ -336,6 +349,7 @@ def test_cuts_fall_on_line_starts():
     raw = b"~A\n" + b"".join(b"%d 1 2\n" % i for i in range(50))
     for parts in (1, 2, 3, 7):
         cuts = las_fast._cuts(raw, 3, parts)
+        # closed form: cuts at line starts, from the section start to the end, one per part
         assert cuts[0] == 3 and cuts[-1] == len(raw) and cuts == sorted(set(cuts))
         assert all(raw[c - 1:c] == b"\n" for c in cuts[1:-1])
         assert len(cuts) - 1 == parts
@@ -373,6 +387,7 @@ def test_parts_give_the_same_well(tmp_path, monkeypatch, rows, fast, parts):
     monkeypatch.setattr(las_fast, "_threads", lambda: 2)   # threads whatever the machine load
     path = write(tmp_path, las(rows))
     check(path, fast)
+    # library: lasio (check above) gives the same well; the spy sees the parts in threads
     assert len(calls) >= parts                      # the section was really cut
     assert not all(calls)                           # ... and scanned in threads
 
@@ -391,6 +406,7 @@ def test_token_count_across_chunk_edges(monkeypatch, chunk):
 def test_threads_follow_the_load(monkeypatch):
     monkeypatch.setattr(las_fast.os, "sched_getaffinity", lambda pid: {0, 1}, raising=False)
     monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (0.9, 0.0, 0.0))
+    # closed form: one thread per free core, from the load average given
     assert las_fast._threads() == 2                 # one core free besides this process
     monkeypatch.setattr(las_fast.os, "getloadavg", lambda: (2.8, 0.0, 0.0))
     assert las_fast._threads() == 1                 # both cores busy: no second thread

@@ -93,17 +93,21 @@ def sha256(path):
 def test_read_metres_file(basic_file):
     well = read_las(basic_file)
     data = np.array(BASIC_ROWS)
+    # the file's values (las_text above): header items as written (cwls1992 layout)
     assert well.name == "TEST-1"
     assert well.source == basic_file
     assert well.depth_unit == "m"
     assert well.index_mnemonic == "DEPT"
     assert list(well.curves) == [c[0] for c in BASIC_CURVES]
+    # the file's own values (BASIC_ROWS; cwls1992 layout); decimal text parses to the nearest
+    # double on every CPU, so equality is exact
     np.testing.assert_array_equal(well.md, data[:, 0])
     for i, (m, unit, descr) in enumerate(BASIC_CURVES):
         c = well.curves[m]
         assert c.data.dtype == np.float64
         assert (c.unit, c.description) == (unit, descr)
         np.testing.assert_array_equal(c.data, data[:, i])
+    # the file's NULL and ~Parameter items as written above (cwls1992)
     assert well.null_value == -999.25
     assert well.parameters["EKB"].value == 25.5
     assert well.parameters["EKB"].unit == "M"
@@ -119,6 +123,7 @@ def test_read_feet_file_gives_metres(tmp_path, unit):
     p = write(tmp_path, las_text([("DEPT", unit, "depth"), ("PHIE", "V/V", "")], rows,
                                  strt_unit=unit))
     well = read_las(p)
+    # the file's depth unit, any spelling of feet; depths in metres by nist2008 below
     assert well.depth_unit == "ft"
     # 1 ft = 0.3048 m exactly (NIST SP 811)
     np.testing.assert_allclose(well.md, np.array([r[0] for r in rows]) * FOOT_M, rtol=0, atol=1e-12)
@@ -130,7 +135,9 @@ def test_index_unit_taken_from_strt_when_curve_unit_empty(tmp_path):
     rows = [[100.0, 1.0], [101.0, 2.0]]
     p = write(tmp_path, las_text([("DEPT", "", "depth"), ("GR", "GAPI", "")], rows, strt_unit="FT"))
     well = read_las(p)
+    # the file's depth unit, any spelling of feet; depths in metres by nist2008 below
     assert well.depth_unit == "ft"
+    # nist2008: 1 ft = 0.3048 m
     np.testing.assert_allclose(well.md, [100.0 * FOOT_M, 101.0 * FOOT_M])
 
 
@@ -139,6 +146,7 @@ def test_unknown_depth_unit_names_file_and_unit(tmp_path):
                                  [[1.0, 2.0], [2.0, 3.0]], strt_unit="S"))
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input, LAS files): depth unit not metres/feet is an error naming it
     assert str(p) in str(err.value) and "'S'" in str(err.value)
 
 
@@ -158,6 +166,7 @@ def test_nulls_become_nan_except_in_index(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", ""), ("PHIE", "V/V", ""),
                                   ("X", "", "")], rows, null="-1234.5"))
     well = read_las(p)
+    # the file's values; the declared NULL (cwls1992) replaces only its own value, by curve
     np.testing.assert_array_equal(well.md, [-1000.0, -999.25, -998.5, -998.0])
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, True, False])
     np.testing.assert_array_equal(np.isnan(well.curves["PHIE"].data), [True, False, False, True])
@@ -174,6 +183,7 @@ def test_other_common_null_codes(tmp_path, code):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")],
                                  [[1.0, 5.0], [2.0, code], [3.0, 7.0]], null="-1"))
     well = read_las(p)
+    # the file's values with the NULL read as missing (cwls1992)
     np.testing.assert_array_equal(np.isnan(well.curves["GR"].data), [False, True, False])
     assert any("GR 1" in w for w in well.warnings)
 
@@ -182,6 +192,7 @@ def test_decreasing_depths_are_reversed_with_warning(tmp_path):
     rows = [[1002.0, 3.0], [1001.0, 2.0], [1000.0, 1.0]]
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     well = read_las(p)
+    # the file's values, in increasing depth (common practice)
     np.testing.assert_array_equal(well.md, [1000.0, 1001.0, 1002.0])
     np.testing.assert_array_equal(well.curves["GR"].data, [1.0, 2.0, 3.0])
     np.testing.assert_array_equal(well.curves["DEPT"].data, [1000.0, 1001.0, 1002.0])
@@ -194,6 +205,8 @@ def test_duplicated_depth_names_row(tmp_path):
     with pytest.raises(DepthError) as err:
         read_las(p)
     msg = str(err.value)
+    # README (Bad input, LAS files): a repeated, missing or out-of-order depth is an error
+    # naming the data row (row 3 repeats 1000.5 in the rows above)
     assert str(p) in msg and "data row 3" in msg and "1000.5" in msg
 
 
@@ -202,6 +215,7 @@ def test_out_of_order_depth_names_row(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     with pytest.raises(DepthError) as err:
         read_las(p)
+    # README (Bad input, LAS files): out-of-order depth at data row 4 (1001.5 after 1002.0)
     assert "data row 4" in str(err.value) and "1001.5" in str(err.value)
 
 
@@ -210,6 +224,7 @@ def test_missing_depth_value_is_depth_error(tmp_path):
     p = write(tmp_path, las_text([("DEPT", "M", ""), ("GR", "GAPI", "")], rows))
     with pytest.raises(DepthError) as err:
         read_las(p)
+    # README (Bad input, LAS files): a missing depth (text) names the data row
     assert str(p) in str(err.value) and "data row 2" in str(err.value)
 
 
@@ -217,6 +232,7 @@ def test_missing_file_names_path(tmp_path):
     p = tmp_path / "nowhere" / "missing.las"
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input): errors name the file
     assert str(p) in str(err.value)
     with pytest.raises(InputFileError):
         read_las(tmp_path)          # a folder
@@ -235,6 +251,7 @@ def test_garbage_file_is_input_file_error(tmp_path, content):
     p.write_bytes(content)
     with pytest.raises(InputFileError) as err:
         read_las(p)
+    # README (Bad input, LAS files): binary content or not LAS text is an error
     assert type(err.value) is InputFileError
     assert str(p) in str(err.value)
 
@@ -253,6 +270,8 @@ def test_duplicate_mnemonics_made_unique(tmp_path):
 def test_reading_does_not_print(basic_file, capfd):
     read_las(basic_file)
     out, err = capfd.readouterr()
+    # README (Bad input): notes are kept with the well (printed under it by the run); the reader
+    # itself prints nothing
     assert out == "" and err == ""
 
 
@@ -269,6 +288,7 @@ def test_detect_roles_by_preference_and_case(tmp_path):
               ("ILD", "OHMM", ""), ("RT", "OHMM", "")]
     well = make_well(tmp_path, curves, [[1.0, 0.2, 0.18, 10, 5, 6], [2.0, 0.2, 0.18, 10, 5, 6]])
     roles = detect_roles(well)
+    # README (Curve roles): aliases in the table's order, any letter case
     assert roles == {"porosity": "phie", "permeability": "perm", "resistivity": "RT", "sw": None}
 
 
@@ -276,6 +296,7 @@ def test_role_overrides(tmp_path):
     curves = [("DEPT", "M", ""), ("PHIT", "V/V", ""), ("PHIE", "V/V", ""), ("MYK", "MD", "")]
     well = make_well(tmp_path, curves, [[1.0, 0.2, 0.18, 10], [2.0, 0.2, 0.18, 10]])
     roles = detect_roles(well, {"porosity": "phit", "permeability": "MYK"})
+    # README (Curve roles): the project's curves table overrides the aliases
     assert roles["porosity"] == "PHIT" and roles["permeability"] == "MYK"
     with pytest.raises(MissingCurveError) as err:
         detect_roles(well, {"porosity": "NOPE"})
@@ -306,6 +327,7 @@ def test_missing_permeability_message(tmp_path):
 def test_percent_porosity_by_unit(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("PHIE", unit, "")], [[1.0, 20.0], [2.0, 5.0]])
     values, warns = role_values(well, "porosity", "PHIE")
+    # closed form: percent / 100 (the file's 20 and 5); one IEEE division, exact to 1 ulp
     np.testing.assert_allclose(values, [0.20, 0.05], rtol=1e-15)
     assert warns == []
 
@@ -315,9 +337,11 @@ def test_percent_porosity_by_range_warns(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("PHIE", unit, ""), ("SW", unit, "")],
                      [[1.0, 20.0, 0.5], [2.0, 5.0, 0.9]])
     values, warns = role_values(well, "porosity", "PHIE")
+    # closed form: percent / 100, found by range (porosity > 1 is percent: common practice)
     np.testing.assert_allclose(values, [0.20, 0.05], rtol=1e-15)
     assert len(warns) == 1 and "percent" in warns[0] and "PHIE" in warns[0]
     sw, warns_sw = role_values(well, "sw", "SW")           # already a fraction: unchanged
+    # the file's values, already fractions
     np.testing.assert_array_equal(sw, [0.5, 0.9])
     assert warns_sw == []
 
@@ -325,6 +349,7 @@ def test_percent_porosity_by_range_warns(tmp_path, unit):
 def test_sw_percent_by_range(tmp_path):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("SW", "", "")], [[1.0, 35.0], [2.0, 100.0]])
     sw, warns = role_values(well, "sw", "SW")
+    # closed form: percent / 100 of the file's 35 and 100
     np.testing.assert_allclose(sw, [0.35, 1.0], rtol=1e-15)
     assert len(warns) == 1
 
@@ -344,6 +369,7 @@ def test_unknown_permeability_unit(tmp_path):
     with pytest.raises(UnitError) as err:
         role_values(well, "permeability", "PERM")
     msg = str(err.value)
+    # README (Bad input): an unknown unit names the file, curve and unit
     assert str(well.source) in msg and "'PERM'" in msg and "'FT'" in msg
 
 
@@ -351,6 +377,7 @@ def test_unknown_permeability_unit(tmp_path):
 def test_resistivity_units(tmp_path, unit):
     well = make_well(tmp_path, [("DEPT", "M", ""), ("RT", unit, "")], [[1.0, 12.5], [2.0, 3.0]])
     rt, _ = role_values(well, "resistivity", "RT")
+    # the file's values: ohm.m in every spelling needs no conversion
     np.testing.assert_array_equal(rt, [12.5, 3.0])
 
 
@@ -359,6 +386,7 @@ def test_role_values_do_not_modify_well(tmp_path):
     before = well.curves["PHIE"].data.copy()
     values, _ = role_values(well, "porosity", "PHIE")
     values[:] = -1.0
+    # common practice (the project's rule): inputs are never modified
     np.testing.assert_array_equal(well.curves["PHIE"].data, before)
     rt_well = make_well(tmp_path, [("DEPT", "M", ""), ("RT", "OHMM", "")], [[1.0, 2.0], [2.0, 3.0]],
                         name="rt.las")
@@ -384,6 +412,7 @@ def test_write_round_trip_with_lasio(basic_file, tmp_path):
     write_las(out, well, new_curves=new, parameters=params, null_value=-9999.0,
               extra_other="written by the test")
 
+    # library: lasio reads what we wrote; expected values are the test's inputs
     ref = lasio.read(str(out))                  # independent reader (library: lasio)
     data = np.array(BASIC_ROWS)
     for i, (m, unit, descr) in enumerate(BASIC_CURVES):
@@ -411,8 +440,9 @@ def test_write_round_trip_with_lasio(basic_file, tmp_path):
     assert str(ref.version["WRAP"].value).upper() == "NO"
 
     again = read_las(out)                       # and our own reader
-    for m in well.curves:
-        np.testing.assert_array_equal(again.curves[m].data, well.curves[m].data)
+    # the file's values as the test wrote them (BASIC_ROWS), not a second read
+    for i, (m, _, _) in enumerate(BASIC_CURVES):
+        np.testing.assert_array_equal(again.curves[m].data, data[:, i])
 
 
 def test_write_preserves_many_decimals_and_nulls(tmp_path):
@@ -431,11 +461,13 @@ def test_write_preserves_many_decimals_and_nulls(tmp_path):
     out = tmp_path / "copy.las"
     write_las(out, well)
     ref = lasio.read(str(out))
+    # library: lasio; expected: the values the test wrote (rounded text, exact doubles)
     np.testing.assert_array_equal(ref["DEPT"], depth)
     for k, v in cols.items():
         expected = np.where(v == -999.25, np.nan, v)
         np.testing.assert_array_equal(ref[k], expected)
     assert ref.well["STRT"].unit == "FT"
+    # the step the test wrote (0.1524 ft), exact in text
     assert float(ref.well["STEP"].value) == 0.1524
     data_lines = out.read_text().split("~A", 1)[1].splitlines()[1:]
     assert len(data_lines) == n
@@ -448,7 +480,9 @@ def test_write_large_values_fixed_point(tmp_path):
     big = np.array([1.5e25, -2.0e20])
     write_las(out, well, new_curves=[Curve("BIG", "", "", big)])
     data_lines = out.read_text().split("~A", 1)[1].splitlines()[1:]
+    # README (Bad input, LAS files): numbers are written in fixed point (no exponent)
     assert not any(re.search(r"\d[eE][-+]?\d", ln) for ln in data_lines)
+    # library: lasio; the values given (1.5e25 and -2e20 are integers, exact in fixed point)
     np.testing.assert_array_equal(lasio.read(str(out))["BIG"], big)
 
 
@@ -457,6 +491,7 @@ def test_write_decimals_argument(tmp_path):
     out = tmp_path / "dec.las"
     write_las(out, well, new_curves=[Curve("X", "", "", np.array([1 / 3, 2 / 3]))],
               decimals={"X": 2})
+    # library: lasio; 1/3 and 2/3 rounded to 2 decimals (closed form)
     np.testing.assert_array_equal(lasio.read(str(out))["X"], [0.33, 0.67])
     with pytest.raises(InputFileError):
         write_las(out, well, new_curves=[Curve("X", "", "", np.array([1.0, 2.0]))],
@@ -469,6 +504,7 @@ def test_write_reversed_input_increasing(tmp_path):
     out = tmp_path / "inc.las"
     write_las(out, well)
     ref = lasio.read(str(out))
+    # library: lasio; the input rows sorted by depth (closed form)
     np.testing.assert_array_equal(ref["DEPT"], [1000.0, 1001.0, 1002.0])
     np.testing.assert_array_equal(ref["GR"], [1.0, 2.0, 3.0])
     assert float(ref.well["STRT"].value) == 1000.0 and float(ref.well["STEP"].value) == 1.0
@@ -481,6 +517,7 @@ def test_write_keeps_duplicate_mnemonics(tmp_path):
     out = tmp_path / "dup.las"
     write_las(out, well)
     ref, src = lasio.read(str(out)), lasio.read(str(p))
+    # README (Bad input, LAS files): repeated mnemonics are written back as given; library: lasio
     assert [c.mnemonic for c in ref.curves] == [c.mnemonic for c in src.curves]
     assert [c.original_mnemonic for c in ref.curves] == ["DEPT", "GR", "GR"]
 
@@ -490,6 +527,8 @@ def test_new_curve_clash_is_error(basic_file, tmp_path):
     out = tmp_path / "x.las"
     with pytest.raises(InputFileError) as err:
         write_las(out, well, new_curves=[Curve("phie", "", "", np.zeros(well.n_samples))])
+    # README (Outputs): every input curve unchanged, so a new curve may not take an input
+    # curve's name (any letter case)
     assert "phie" in str(err.value)
     with pytest.raises(InputFileError):
         write_las(out, well, parameters=[HeaderItem("BAD NAME", "", 1.0, "")])
@@ -514,6 +553,7 @@ def test_input_unchanged_after_read_and_write(basic_file, tmp_path):
     well = read_las(basic_file)
     write_las(tmp_path / "other.las", well,
               new_curves=[Curve("NEW", "", "", np.ones(well.n_samples))])
+    # README (Outputs): inputs are only read, never written (SHA-256 before and after)
     assert sha256(basic_file) == before
     assert basic_file.stat().st_mtime_ns == mtime
 
@@ -537,6 +577,7 @@ def test_writer_failure_mid_way_leaves_old_file(basic_file, tmp_path, monkeypatc
     monkeypatch.setattr(las_write, "_format_column", failing)
     with pytest.raises(RuntimeError):
         write_las(out, well)
+    # README (Outputs): written to a temporary file, then renamed; a failure leaves the old file
     assert len(temps_at_failure) == 1         # failed mid-way, with the temporary file open
     assert out.read_text() == "old content\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == sorted([basic_file.name, "result.las"])
@@ -551,6 +592,7 @@ def test_atomic_open_replaces_on_success(tmp_path):
     target.write_text("old")
     with atomic_open(target) as f:
         temps = [p.name for p in tmp_path.iterdir() if p.name != "a.txt"]
+        # README (Outputs): the temporary file is .<name>.<random>.tmp in the output folder
         assert len(temps) == 1 and temps[0].startswith(".") and temps[0].endswith(".tmp")
         f.write("new")
         assert target.read_text() == "old"           # not visible before the block ends
@@ -565,12 +607,14 @@ def test_atomic_open_keeps_old_file_on_error(tmp_path):
         with atomic_open(target) as f:
             f.write("half")
             1 / 0
+    # README (Outputs): a failed write keeps the old complete file and no temporary file
     assert target.read_text() == "old"
     assert [p.name for p in tmp_path.iterdir()] == ["a.txt"]
 
 
 def test_atomic_write_text_and_bytes(tmp_path):
     atomic_write_text(tmp_path / "t.txt", "line1\nline2\n")
+    # README (Bad input, LAS files): outputs are UTF-8 with LF line ends; the text given
     assert (tmp_path / "t.txt").read_bytes() == b"line1\nline2\n"
     atomic_write_bytes(tmp_path / "b.bin", b"\x00\x01\xff")
     assert (tmp_path / "b.bin").read_bytes() == b"\x00\x01\xff"
@@ -579,6 +623,7 @@ def test_atomic_write_text_and_bytes(tmp_path):
 def test_atomic_write_missing_folder(tmp_path):
     with pytest.raises(InputFileError) as err:
         atomic_write_text(tmp_path / "no" / "such" / "f.txt", "x")
+    # README (Bad input): errors name the file
     assert "f.txt" in str(err.value)
 
 
@@ -595,7 +640,9 @@ def test_describe_las(tmp_path):
     info = describe_las(p)
     data = np.array(rows)
     data[:, 1:][data[:, 1:] == -999.25] = np.nan
+    # the file's values (rows above)
     assert info["well"] == "TEST-1" and info["n_samples"] == 4
+    # the file's values (rows above); min/max/null counts by numpy on the same rows
     assert info["depth"]["start"] == 1000.0 and info["depth"]["stop"] == 1001.5
     assert info["depth"]["step"] == 0.5 and info["depth"]["unit"] == "m"
     by = {c["mnemonic"]: c for c in info["curves"]}
@@ -608,6 +655,7 @@ def test_describe_las(tmp_path):
     assert info["roles"]["permeability"]["mnemonic"] is None
     assert info["roles"]["permeability"]["aliases_tried"] == list(ROLE_ALIASES["permeability"])
     assert info["path"] == str(p)
+    # the file's ~Parameter and ~Well items
     assert info["header"]["EKB"]["value"] == 30.0
     assert info["header"]["WELL"]["value"] == "TEST-1"
     assert isinstance(info["warnings"], list)
@@ -639,6 +687,7 @@ GR  .GAPI 07 310 01 00 : gamma ray
     src = tmp_path / "in.las"
     src.write_text(text)
     w = read_las(src)
+    # cwls1992: the value field of a ~Curve line (an API log code) survives export
     assert w.curve("GR").value == "07 310 01 00"
     write_las(tmp_path / "out.las", w)
     back = lasio.read(tmp_path / "out.las")

@@ -118,6 +118,7 @@ def test_no_import_cycles():
     for m in sorted(graph):
         if m not in state:
             visit(m, [m])
+    # layout rules (module docstring; DEVELOPERS.md): no import cycles
     assert cycles == []
 
 
@@ -131,6 +132,7 @@ def test_imports_only_go_downward():
                 continue
             if t_rank >= rank or (group == "plots" and t_group in ("io", "project")):
                 wrong.append(f"{MODULES[mod].relative_to(PKG)}:{line} imports {target}")
+    # layout rules (module docstring; DEVELOPERS.md): imports only downward
     assert wrong == []
 
 
@@ -138,12 +140,14 @@ def test_no_package_import_inside_a_function():
     """Imports of our own modules sit at the top of the file (optional libraries may be lazy)."""
     inside = [f"{MODULES[m].relative_to(PKG)}:{line} {t}"
               for m, rows in IMPORTS.items() for t, line, fn in rows if fn]
+    # layout rules (module docstring; DEVELOPERS.md): no imports of our own modules inside functions
     assert inside == []
 
 
 @pytest.mark.parametrize("mod", sorted(MODULES))
 def test_module_and_function_sizes(mod):
     text = MODULES[mod].read_text(encoding="utf-8")
+    # layout rules (module docstring; DEVELOPERS.md): no module over 600 lines
     assert text.count("\n") <= MAX_MODULE_LINES
     long = [f"{fn.name} ({fn.end_lineno - fn.lineno + 1} lines)"
             for fn in ast.walk(ast.parse(text))
@@ -160,6 +164,7 @@ def test_no_getattr_with_a_default():
             if (isinstance(node, ast.Call) and isinstance(node.func, ast.Name)
                     and node.func.id == "getattr" and len(node.args) == 3):
                 found.append(f"{path.relative_to(PKG)}:{node.lineno}")
+    # layout rules (module docstring; DEVELOPERS.md): no getattr with a default on our own records
     assert found == []
 
 
@@ -174,4 +179,5 @@ def test_science_modules_do_no_file_or_figure_work():
                      else [node.module or ""] if isinstance(node, ast.ImportFrom) else [])
             wrong += [f"{path.relative_to(PKG)}: {n}" for n in names
                       if n.split(".")[0] in ("matplotlib", "lasio")]
+    # layout rules (module docstring; DEVELOPERS.md): science modules do no I/O and no plotting
     assert wrong == []

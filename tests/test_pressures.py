@@ -1,7 +1,7 @@
 """FWL from formation pressures: reader, gradient fits, intersections, command.
 
-The worked example is ../shared/REFERENCES.md "Free-water level from pressures"
-(computed there): water line p = 14.7 + 0.45 D psia, oil line through 4400 psia at
+The worked example is a closed form worked by hand (pressure lines linear in depth,
+dake1978; units nist2008): water line p = 14.7 + 0.45 D psia, oil line through 4400 psia at
 9500 ft with 0.33 psi/ft -> FWL 10,419.17 ft, Pc at 9500 ft 110.30 psi,
 densities 0.7612 and 1.0380 g/cc.
 """
@@ -25,7 +25,7 @@ ROOT = Path(__file__).resolve().parents[1]
 
 
 def reference_csv(tmp_path, extra_rows=()):
-    rows = ["# the REFERENCES.md example", "well,tvdss [ft],pressure [psia],fluid,quality"]
+    rows = ["# the worked example of the module docstring", "well,tvdss [ft],pressure [psia],fluid,quality"]
     for d in (10450, 10550, 10650, 10750):
         rows.append(f"A,{d},{14.7 + 0.45 * d:.6f},water,good")
     for d in (9200, 9400, 9500, 9700, 9900):
@@ -39,16 +39,18 @@ def reference_csv(tmp_path, extra_rows=()):
 def test_reference_example_exactly(tmp_path):
     pts = read_pressure_points(reference_csv(tmp_path))
     res = analyse_pressures(pts)[""]
-    # REFERENCES.md: FWL 10,419.17 ft
+    # closed form (docstring): FWL 10,419.17 ft
     assert res.fwl.depth / FOOT == pytest.approx(10419.1667, abs=1e-3)
     assert round(res.fwl.depth / FOOT, 2) == 10419.17
     # exact data: no uncertainty, no rejection
+    # closed form: data exactly on two lines leave no residual, hence no uncertainty
     assert res.fwl.se == pytest.approx(0.0, abs=1e-6)
     assert res.lines["water"].rejected.size == 0 and res.lines["oil"].rejected.size == 0
-    # REFERENCES.md: Pc at 9500 ft = 110.30 psi; densities 1.0380 and 0.7612 g/cc
+    # closed form (docstring): Pc at 9500 ft = 110.30 psi; densities 1.0380 and 0.7612 g/cc
     assert float(res.capillary_pressure_at(9500 * FOOT)) / PSI == pytest.approx(110.30, abs=1e-6)
     assert res.lines["water"].density / 1000 == pytest.approx(1.0380, abs=5e-5)
     assert res.lines["oil"].density / 1000 == pytest.approx(0.7612, abs=5e-5)
+    # the gradient the rows were made with (0.45 psi/ft); no third fluid given
     assert res.lines["water"].gradient / (PSI / FOOT) == pytest.approx(0.45, rel=1e-10)
     assert res.free_oil_level is None
 
@@ -73,6 +75,8 @@ def test_uncertainty_propagation_matches_monte_carlo():
         w2, o2 = lines(rng.normal(0, sd, zw.size), rng.normal(0, sd, zo.size))
         sims.append(intersect(w2, o2).depth)
     # the fitted residual spread scatters, so allow 35 % (first-order propagation)
+    # simulation (common practice: Monte Carlo of the same two fits checks first-order
+    # propagation); known truth FWL 2100 m, mean within 3 standard errors of the simulation
     assert se == pytest.approx(np.std(sims), rel=0.35)
     assert abs(np.mean(sims) - 2100) < 3 * np.std(sims) / np.sqrt(len(sims)) + 0.05
 
@@ -83,15 +87,18 @@ def test_outlier_is_rejected_and_others_kept():
     p_bad = p.copy()
     p_bad[-1] += 2e5                    # supercharged point at the end of the range
     fit = fit_gradient(z, p_bad, "oil")
+    # known truth: point 7 was moved by 2e5 Pa (40 sd); gradient 7650 Pa/m put in
     assert list(fit.rejected) == [7]
     assert fit.gradient == pytest.approx(7650, rel=0.01)
     clean = fit_gradient(z, p, "oil")
+    # known truth: no outlier put in (cook1982 studentised residuals, 8 points, noise 2e3 Pa)
     assert clean.rejected.size == 0
 
 
 def test_fixed_gradient_for_a_single_point():
     g = 1050 * STANDARD_GRAVITY
     fit = fit_gradient([2100.0], [2.2e7], "water", gradient=g)
+    # closed form: the line through one point with the given gradient
     assert fit.fixed and fit.gradient == g
     assert float(fit.pressure_at(2200.0)) == pytest.approx(2.2e7 + g * 100)
     with pytest.raises(SatHeightError, match="needed"):
@@ -124,6 +131,8 @@ def test_gas_oil_water_three_lines(tmp_path):
     path = tmp_path / "three.csv"
     path.write_text("\n".join(rows) + "\n")
     res = analyse_pressures(read_pressure_points(path))["Z"]
+    # known truth: the rows were made from FWL 2100 m, GOL 2050 m and densities 1040, 750,
+    # 200 kg/m3 (closed form, exact lines)
     assert res.fwl.depth == pytest.approx(fwl, abs=1e-6)
     assert res.fwl.lines == ("water", "oil")
     assert res.free_oil_level.depth == pytest.approx(gol, abs=1e-6)
@@ -137,9 +146,11 @@ def test_md_points_resolved_with_datum(tmp_path):
     path.write_text("well,tvdss [m],md [ft],pressure [bar],fluid,quality\n"
                     "A,,7000,210,water,good\nA,2100,,211,water,good\n")
     pts = read_pressure_points(path)
+    # the file's values: 210 bar = 210e5 Pa (nist2008); MD 7000 ft - datum 30 m
     assert np.isnan(pts.tvdss[0]) and pts.pressure[0] == pytest.approx(210e5)
     done = resolve_tvdss(pts, {"A": 30.0})
     assert done.tvdss[0] == pytest.approx(7000 * FOOT - 30.0)
+    # common practice (the project's rule): inputs are never modified
     assert np.isnan(pts.tvdss[0])                       # the input object is unchanged
 
 
@@ -189,6 +200,7 @@ def test_reader_errors_name_file_and_line(tmp_path, text, words):
     path.write_text(text)
     with pytest.raises(InputFileError) as ei:
         read_pressure_points(path)
+    # README (Bad input, CSV files): pressure points errors name the file and line
     assert words in str(ei.value) and str(path) in str(ei.value)
 
 
@@ -198,6 +210,8 @@ def test_reader_missing_file(tmp_path):
 
 
 def test_compare_levels():
+    # closed form: intervals [99, 101] and [100.2, 100.8] overlap; [103, 105] is 2 m from
+    # [99, 101] and its centre 4 m from 100
     assert compare_levels(100, 99, 101, 100.5, 100.2, 100.8)["consistent"]
     c = compare_levels(100, 99, 101, 104, 103, 105)
     assert not c["consistent"] and c["gap_m"] == pytest.approx(2.0)
@@ -215,11 +229,13 @@ def test_pressures_command_on_demo(tmp_path):
     # the demo points were made from FWLs 2105 m and 2290 m (demo_wells/README.md)
     for zone, fwl in (("Upper Sand", 2105.0), ("Lower Sand", 2290.0)):
         z = doc["zones"][zone]
+        # known truth: demo_wells/make_demo.py made the points from these FWLs
         lo, hi = z["fwl"]["interval"]
         assert lo <= fwl <= hi
         assert z["versus_project_fwl"]["consistent"]
         assert "versus_log_fwl" in z
     # the supercharged demo point (fair quality, +180 kPa) is rejected
+    # known truth: one supercharged point put in by demo_wells/make_demo.py
     assert doc["zones"]["Upper Sand"]["lines"]["oil"]["points_rejected"] == 1
     assert (out / "pressures_Upper_Sand.png").stat().st_size > 10000
     assert "FWL" in r.stdout
@@ -229,6 +245,7 @@ def test_pressures_command_bad_file_exit_code(tmp_path):
     r = subprocess.run([sys.executable, str(ROOT / "cli.py"), "pressures",
                         str(tmp_path / "none.csv"), "--out", str(tmp_path / "o")],
                        capture_output=True, text=True, timeout=60)
+    # README (Bad input): a missing file is an error (exit code 2)
     assert r.returncode == 2 and "not found" in r.stderr
 
 
@@ -245,6 +262,7 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
 
     project = load_project(demo / "demo_project.toml")
     conv = _datums(project, {"VANTREL-5"})["VANTREL-5"]
+    # README (Contacts): MD-only points need the well's survey and datum
     assert callable(conv)
     report = run_project(project, tmp_path / "o", plot=False)
     las = lasio.read(next(f for w in report.wells if w.name == "VANTREL-5"
@@ -254,5 +272,16 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
     path.write_text("well,md [m],pressure [bar],fluid,quality\n"
                     + "".join(f"VANTREL-5,{m:.4f},210,water,good\n" for m in md))
     done = resolve_tvdss(read_pressure_points(path), {"VANTREL-5": conv})
-    np.testing.assert_allclose(done.tvdss, las["TVDSS"][[500, 1500, 2500]], atol=1e-3)
+    # known generator values: demo_wells/make_demo.py places VANTREL-5 on a closed-form
+    # build-and-hold (its own code, no minimum curvature); atol 1e-3 m as in
+    # test_deviated_well (LAS text rounding and survey station spacing)
+    import importlib.util
+
+    spec_ = importlib.util.spec_from_file_location("make_demo_for_test", demo / "make_demo.py")
+    mk = importlib.util.module_from_spec(spec_)
+    spec_.loader.exec_module(mk)
+    _, md_true, tvdss_true, _ = mk.depth_axis(next(w for w in mk.WELLS if w["name"] == "VANTREL-5"))
+    # known generator values, linearly interpolated by numpy at the sample MDs (every MD is a sample)
+    np.testing.assert_allclose(done.tvdss, np.interp(md, md_true, tvdss_true), atol=1e-3)
+    # closed form: a deviated hole's TVDSS is less than MD minus the datum elevation
     assert np.all(done.tvdss < md - 29.0)               # deviated: shallower than MD - KB

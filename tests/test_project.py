@@ -81,6 +81,7 @@ def expect_error(data: dict, path: Path, key: str, *words: str) -> str:
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, path)
     msg = str(info.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert str(path) in msg, msg
     assert f"key {key}" in msg, msg
     for w in words:
@@ -179,24 +180,30 @@ b = 1.5
 def test_valid_metric_file(proj):
     proj.write_text(METRIC_TOML)
     p = load_project(proj)
+    # the file's values (METRIC_TOML) as typed; paths relative to the project file (README)
     assert isinstance(p, Project)
     assert p.path == proj.resolve() and p.path.is_absolute()
     assert p.name == "Example field"
     assert p.unit_system == "metric"
+    # the file's values (METRIC_TOML); defaults a = 1, m = n = 2 are archie1942's
     assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=pytest.approx(0.045))
 
     (w,) = p.wells
+    # the file's values (METRIC_TOML); the LAS path resolved beside the project file
     assert isinstance(w, WellSpec)
     assert w.name == "A-1"
     assert w.las == (proj.parent / "wells" / "A-1.las").resolve()
     assert w.las.is_absolute()
+    # the file's values in metres (METRIC_TOML)
     assert w.datum_elevation == pytest.approx(25.0)
     assert w.curves == {"porosity": "PHIE", "permeability": "PERM", "resistivity": "RT", "sw": "SW"}
     assert w.tops == {"Upper": (pytest.approx(2010.0), pytest.approx(2120.0))}
 
     (z,) = p.zones
+    # the file's values (METRIC_TOML)
     assert isinstance(z, ZoneSpec)
     assert z.name == "Upper"
+    # the file's values; unit factors nist2008 (g/cm3, mN/m) as defined at the top
     assert (z.top, z.base, z.fwl) == (pytest.approx(1980.0), pytest.approx(2100.0),
                                       pytest.approx(2060.0))
     assert z.hydrocarbon == "oil"
@@ -205,6 +212,7 @@ def test_valid_metric_file(proj):
     assert z.sigma_cos_theta == pytest.approx(26 * DYN_CM)          # 26 mN/m = 0.026 N/m
     assert isinstance(z.function, FunctionSpec)
     assert z.function.family == "power_law"
+    # the file's values (METRIC_TOML), as typed
     assert z.function.params == {"swirr": 0.1, "a": 0.2, "b": 1.5}
     assert z.function.j_range == (0.02, 12.0)
 
@@ -213,6 +221,7 @@ def test_valid_metric_dict_bare_numbers_and_gradient(proj):
     p = parse_project(metric_data(), proj)
     lower = p.zones[1]
     # bare numbers are metric: m, kg/m3, mN/m
+    # the file's values (metric_data())
     assert (lower.top, lower.base, lower.fwl) == (2100.0, 2250.0, 2200.0)
     assert lower.hydrocarbon_density == pytest.approx(250.0)
     assert lower.sigma_cos_theta == pytest.approx(50 * DYN_CM)
@@ -230,19 +239,25 @@ def test_valid_field_file(tmp_path):
     path = tmp_path / "north_field.toml"
     path.write_text(FIELD_TOML)
     p = load_project(path)
+    # the file's values (FIELD_TOML); README (Project file): the name defaults to the file stem
     assert p.name == "north_field"               # default: file stem
     assert p.unit_system == "field"
     assert p.log_sw.method == "archie"
+    # the file's values (FIELD_TOML; winsauer1952 constants as typed)
     assert (p.log_sw.a, p.log_sw.m, p.log_sw.n) == (0.62, 2.15, 2.0)
     assert p.log_sw.rw == pytest.approx(0.05)    # ohm.m in both systems
 
     (w,) = p.wells
+    # the file's values (FIELD_TOML)
     assert w.name is None
+    # the file's values, ft -> m by nist2008 (FT above)
     assert w.datum_elevation == pytest.approx(-12 * FT)         # may be negative
     assert w.tops["Gas"] == (pytest.approx(6600 * FT), pytest.approx(6900 * FT))
 
     gas, oil = p.zones
+    # the file's values (FIELD_TOML): the zone takes its window from the well's tops
     assert gas.top is None and gas.base is None                 # tops come from the well
+    # the file's value, ft -> m (nist2008)
     assert gas.fwl == pytest.approx(6760 * FT)
     # 0.433 psi/ft -> kg/m3 = psi/ft / g. The trade rule "0.433 psi/ft is fresh water"
     # (common practice) gives about 998.8 kg/m3 with these exact factors.
@@ -254,6 +269,7 @@ def test_valid_field_file(tmp_path):
     assert gas.function.family == "brooks_corey"
     assert gas.function.params == {"swirr": 0.15, "jd": 0.3, "lam": 1.2}
 
+    # the file's values; ft -> m, psi/ft / g -> kg/m3 (nist2008, cgpm1901), dyn/cm -> N/m
     assert oil.top == pytest.approx(6900 * FT) and oil.base == pytest.approx(7300 * FT)
     assert oil.fwl == pytest.approx(2250.0)                     # explicit unit wins
     assert oil.hydrocarbon == "oil"                             # choices case-insensitive
@@ -267,6 +283,7 @@ def test_defaults_when_optional_tables_missing(proj):
     del data["log_sw"]
     del data["project"]["name"]
     p = parse_project(data, proj)
+    # defaults of the README: a = 1, m = n = 2 (archie1942), no Rw
     assert p.log_sw == LogSwSpec(method="auto", a=1.0, m=2.0, n=2.0, rw=None)
     assert p.name == "project"
 
@@ -275,6 +292,7 @@ def test_input_dict_is_not_modified(proj):
     data = metric_data()
     before = copy.deepcopy(data)
     parse_project(data, proj)
+    # common practice (the project's rule): inputs are never modified
     assert data == before
 
 
@@ -283,11 +301,13 @@ def test_fwl_outside_zone_window_is_allowed(proj):
     zone(data)["fwl"] = "1900 m"      # whole zone below its FWL
     zone(data, "Lower")["fwl"] = 3000  # whole zone above its FWL
     p = parse_project(data, proj)
+    # the values given above (metres)
     assert p.zones[0].fwl == 1900.0 and p.zones[1].fwl == 3000.0
 
 
 def test_zones_may_touch(proj):
     data = metric_data()
+    # the values of metric_data(): zones that touch are not an overlap (README: Bad input)
     assert zone(data)["base"] == "2100 m" and zone(data, "Lower")["top"] == 2100
     assert len(parse_project(data, proj).zones) == 2
 
@@ -299,6 +319,7 @@ def test_las_path_relative_to_project_folder(tmp_path, monkeypatch):
     path.write_text(METRIC_TOML.replace("wells/A-1.las", "logs/A-1.las"))
     monkeypatch.chdir(tmp_path)      # current folder differs from the project folder
     p = load_project(Path("proj") / "p.toml")
+    # README (Outputs): paths are relative to the project file, whatever the current folder
     assert p.wells[0].las == (sub / "logs" / "A-1.las").resolve()
     assert p.path == path.resolve()
 
@@ -318,6 +339,7 @@ def test_unreadable_file_is_input_error(tmp_path):
     folder.mkdir()
     with pytest.raises(InputFileError) as info:
         load_project(folder)
+    # README (Bad input): errors name the file
     assert str(folder) in str(info.value)
 
 
@@ -326,6 +348,7 @@ def test_not_utf8_is_input_error(tmp_path):
     path.write_bytes(b'[project]\nname = "Caf\xe9"\nunits = "metric"\n')
     with pytest.raises(InputFileError) as info:
         load_project(path)
+    # README (Bad input, Project file): a file that is not UTF-8 is an error
     assert str(path) in str(info.value) and "UTF-8" in str(info.value)
 
 
@@ -335,6 +358,7 @@ def test_toml_syntax_error_names_line_and_column(tmp_path):
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
     msg = str(info.value)
+    # README (Bad input, Project file): TOML syntax errors name the line and column
     assert str(path) in msg and "line 3, column" in msg, msg
 
 
@@ -343,6 +367,7 @@ def test_toml_syntax_error_at_end_of_file(tmp_path):
     path.write_text('[project]\nunits = "metric"\nname = ')
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
+    # README (Bad input, Project file): TOML syntax errors name the line
     assert str(path) in str(info.value) and "line 3" in str(info.value)
 
 
@@ -367,6 +392,7 @@ def test_unknown_key(proj, where, typo, key, allowed_word):
     data = metric_data()
     _set(data, where, typo, 1)
     msg = expect_error(data, proj, key, "unknown key", allowed_word)
+    # README (Project file): an unknown key is an error listing the allowed keys
     assert "allowed keys" in msg
 
 
@@ -468,6 +494,7 @@ def test_bad_unit_text_is_wrapped(proj, where, name, value, key):
     where(data)[name] = value
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, proj)
+    # README (Bad input, Project file): every bad value names the key (a ProjectFileError)
     assert not isinstance(info.value, UnitError)
     msg = str(info.value)
     bad = value[-1] if isinstance(value, list) else value
@@ -544,6 +571,7 @@ def test_zone_without_window_but_with_tops_is_fine(proj):
     del lower["top"], lower["base"]
     data["wells"][1]["tops"] = {"Lower": [2150, 2300]}
     p = parse_project(data, proj)
+    # the values given above (metres)
     assert p.zones[1].top is None and p.wells[1].tops == {"Lower": (2150.0, 2300.0)}
 
 
@@ -577,6 +605,7 @@ def test_las_file_missing_names_resolved_path(proj):
     data = metric_data()
     data["wells"][0]["las"] = "wells/../wells/C-3.las"
     msg = expect_error(data, proj, "wells[A-1].las", "not found")
+    # README (Bad input): a missing LAS file is named with its resolved path
     assert str((proj.parent / "wells" / "C-3.las").resolve()) in msg
 
 
@@ -602,6 +631,7 @@ def test_function_errors(proj, change, key, word):
     with pytest.raises(ProjectFileError) as info:
         parse_project(data, proj)
     msg = str(info.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert str(proj) in msg and f"key {key}" in msg and word in msg, msg
 
 
@@ -636,6 +666,7 @@ def test_archie_without_rw(proj):
 def test_auto_without_rw_is_fine(proj):
     data = metric_data()
     del data["log_sw"]["rw"]
+    # README (Project file): Rw is optional unless Archie is asked for
     assert parse_project(data, proj).log_sw.rw is None
 
 
@@ -689,6 +720,7 @@ def test_comparison_cutoffs_parsed(tmp_path):
     from satheight.project import load_project
 
     p = load_project(_with_comparison(tmp_path, 'min_porosity = "8 %"\nmin_permeability = 0.5'))
+    # the file's values: 8 % = 0.08 (closed form)
     assert p.comparison.min_porosity == pytest.approx(0.08)
     # bare permeability is mD in both unit systems; 1 mD = 9.869233e-16 m^2 (NIST SP 811)
     assert p.comparison.min_permeability == pytest.approx(0.5 * 9.869233e-16)
@@ -703,6 +735,7 @@ def test_comparison_errors_name_key(tmp_path, table, key):
 
     with pytest.raises(ProjectFileError) as e:
         load_project(_with_comparison(tmp_path, table))
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "c.toml" in str(e.value) and key in str(e.value)
 
 

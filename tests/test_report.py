@@ -44,6 +44,8 @@ def test_text_from_inputs_is_escaped():
     p = _Collect()
     p.feed(page)
     # no tag from the inputs became markup: only our own tags appear
+    # README (Outputs, report.html): text from input files is escaped; library: html.parser
+    # (standard library) reads the page
     assert "script" not in p.tags and "i" not in p.tags and "b" in p.tags  # <b> of "Caution."
     text = "".join(p.text)
     assert "<script>alert(1)</script>" in text and "<b>Z</b>" in text and "a < b & c" in text
@@ -52,6 +54,8 @@ def test_text_from_inputs_is_escaped():
 
 def test_report_lists_wells_failures_and_caution(tmp_path):
     path = write_report(_summary("W-1"), tmp_path, "Demo")
+    # README (Outputs, report.html): the caution, the wells, failures and files; written
+    # through a temporary file (README: io/atomic.py)
     assert path.name == REPORT_NAME
     page = path.read_text(encoding="utf-8")
     assert "Results are estimates." in page
@@ -63,6 +67,7 @@ def test_report_lists_wells_failures_and_caution(tmp_path):
 def test_demo_run_writes_report(tmp_path):
     from satheight.cli import main
 
+    # README (Outputs, Demo field): the demo writes report.html naming every well
     assert main(["demo", "--out", str(tmp_path), "--no-plots"]) == 0
     summary = json.loads((tmp_path / "run_summary.json").read_text())
     assert summary["report"] == REPORT_NAME

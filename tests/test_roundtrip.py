@@ -32,10 +32,13 @@ def _items(section):
 
 
 def assert_same_las(src: lasio.LASFile, out: lasio.LASFile):
+    # library: lasio reads input and output: every input curve comes back with its header items
+    # (README: Outputs)
     assert [c.mnemonic for c in out.curves][:len(src.curves)] == [c.mnemonic for c in src.curves]
     for c in src.curves:
         got = out.curves[c.mnemonic]
         assert (got.unit, got.descr) == (c.unit, c.descr), c.mnemonic
+        # library: lasio reads input and output; the input file's values come back exactly
         np.testing.assert_array_equal(np.asarray(got.data, float), np.asarray(c.data, float),
                                       err_msg=c.mnemonic)
     a, b = _items(src.well), _items(out.well)
@@ -64,10 +67,13 @@ def test_generated_round_trip(tmp_path_factory, spec):
     well = read_las(src)
     write_las(d / "out.las", well)
     back = read_las(d / "out.las")
+    # round trip: the generated file's curves, units and name come back as read
     assert list(back.curves) == list(well.curves)
+    # round trip: the generated file's values come back as read
     np.testing.assert_array_equal(back.md, well.md)
     for key, c in well.curves.items():
         b = back.curves[key]
         assert (b.unit, b.description) == (c.unit, c.description)
+        # round trip: the generated file's values come back as read
         np.testing.assert_array_equal(b.data, c.data, err_msg=key)
     assert back.name == well.name

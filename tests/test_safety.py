@@ -58,6 +58,7 @@ BANNED_MODULES = {"pickle", "cPickle", "marshal", "shelve", "dill", "yaml", "sub
 def test_source_evaluates_nothing_and_unpickles_nothing():
     """Static scan of the package: no eval/exec/compile, no pickle-like or shell modules."""
     files = sorted(SRC.rglob("*.py"))
+    # README (Bad input, Project file): data only, read with tomllib, nothing evaluated or unpickled
     assert len(files) > 10
     for f in files:
         tree = ast.parse(f.read_text(), filename=str(f))
@@ -77,6 +78,7 @@ def test_code_like_text_stays_text(tmp_path):
     (tmp_path / "w.las").write_text(LAS)
     (tmp_path / "p.toml").write_text(PROJECT.format(name=name, las="w.las"))
     project = load_project(tmp_path / "p.toml")
+    # README (Bad input, Project file): text stays text (nothing evaluated)
     assert project.name == name
     assert main(["run", str(tmp_path / "p.toml"), "--out", str(tmp_path / "o"), "--no-plots"]) == 0
     assert not marker.exists()
@@ -92,6 +94,8 @@ def test_paths_relative_to_project_file_and_reported(tmp_path, monkeypatch):
     (elsewhere / "logs").mkdir()
     (elsewhere / "logs" / "w.las").write_text("not the file to read")
     monkeypatch.chdir(elsewhere)                 # the current folder must not matter
+    # README (Outputs): paths are relative to the project file; inputs recorded with their
+    # SHA-256 (FIPS 180-4: 64 hex characters)
     assert main(["run", os.path.join("..", "proj", "p.toml"), "--out", "o", "--no-plots"]) == 0
     summary = json.loads((elsewhere / "o" / "run_summary.json").read_text())
     inputs = summary["inputs"]

@@ -39,6 +39,7 @@ def _reference_source(dest: Path) -> Path:
     if _git("cat-file", "-e", f"{REFERENCE_COMMIT}^{{commit}}").returncode != 0:
         pytest.skip(f"reference commit {REFERENCE_COMMIT[:10]} is not in this clone's history")
     archive = _git("archive", "--format=tar", REFERENCE_COMMIT, "src")
+    # refactoring guard (module docstring): the reference commit's code is taken out with git
     assert archive.returncode == 0, archive.stderr.decode(errors="replace")
     with tarfile.open(fileobj=io.BytesIO(archive.stdout)) as tar:
         tar.extractall(dest, filter="data")
@@ -65,6 +66,7 @@ def _run(src: Path, args: list, out: Path) -> None:
     out.parent.mkdir(parents=True, exist_ok=True)
     r = subprocess.run([sys.executable, "-c", code, str(src), *map(str, args), "--out", str(out)],
                        capture_output=True, text=True, cwd=out.parent)
+    # refactoring guard: the command runs at the reference commit
     assert r.returncode == 0, r.stdout + r.stderr
 
 
@@ -84,6 +86,8 @@ def test_demo_results_identical_to_reference_commit(command, reference_src, tmp_
     _run(ROOT / "src", COMMANDS[command], tmp_path / "after" / command)
     before = _result_files(tmp_path / "before" / command)
     after = _result_files(tmp_path / "after" / command)
+    # refactoring guard: result files byte-identical to the reference commit's, both made on
+    # this machine (a comparison of two versions of the code, not a value check)
     assert before, f"{command} wrote no LAS, CSV or JSON file"
     assert sorted(after) == sorted(before)
     changed = [name for name in before if before[name] != after[name]]

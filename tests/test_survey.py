@@ -29,6 +29,7 @@ def test_csv_with_units_in_header(tmp_path):
         3000,90,45,
         """)
     s = read_survey(p)
+    # the file's values; ft -> m (nist2008), degrees -> radians (numpy)
     np.testing.assert_allclose(s.md, np.array([0, 1000, 3000]) * FT)
     np.testing.assert_allclose(s.inc, np.radians([0, 30, 90]))
     np.testing.assert_allclose(s.azi, np.radians([0, 45, 45]))
@@ -43,6 +44,7 @@ def test_csv_with_units_row_and_aliases(tmp_path):
         100,0.1,350
         """)
     s = read_survey(p)
+    # the file's values; units from the units row (m, rad, deg)
     np.testing.assert_allclose(s.md, [0, 100])
     np.testing.assert_allclose(s.inc, [0, 0.1])
     assert s.azi[1] == pytest.approx(math.radians(350))
@@ -69,6 +71,7 @@ def test_las_survey(tmp_path):
         2000 20 90
         """)
     s = read_survey(p)
+    # the file's values; ft -> m (nist2008), degrees -> radians (numpy)
     np.testing.assert_allclose(s.md, [0, 1000 * FT, 2000 * FT])
     np.testing.assert_allclose(s.inc, np.radians([0, 10, 20]))
 
@@ -89,6 +92,7 @@ def test_bad_survey_errors_name_file_and_line(tmp_path, body, match, line):
     p.write_text(body)
     with pytest.raises((InputFileError, DepthError), match=match) as ei:
         read_survey(p)
+    # README (Bad input, CSV files): survey errors name the file and line
     assert f"bad.csv, line {line}" in str(ei.value)
 
 
@@ -96,6 +100,7 @@ def test_unknown_format_and_ending(tmp_path):
     p = _write(tmp_path / "s.dat", "MD [m],INC,AZI\n0,0,0\n")
     with pytest.raises(InputFileError, match="file ending"):
         read_survey(p)
+    # the file's values; the format given explicitly whatever the suffix
     assert read_survey(p, "csv").md[0] == 0
     with pytest.raises(InputFileError, match="unknown survey format"):
         read_survey(p, "xls")
@@ -108,6 +113,8 @@ def test_first_station_below_log_top_is_an_error(tmp_path):
     s = read_survey(p)
     with pytest.raises(DepthError, match="below the first log sample") as ei:
         survey_trajectory(s, 1400.0, "w.las")
+    # README (Deviated wells): a survey starting below the first log sample is an error naming both
+    # files
     assert "s.csv" in str(ei.value) and "w.las" in str(ei.value)
 
 
@@ -115,6 +122,7 @@ def test_added_vertical_tie_in_station(tmp_path):
     p = _write(tmp_path / "s.csv", "MD [m],INC,AZI\n500,0,0\n1500,30,0\n")
     with pytest.warns(UserWarning, match="vertical station at MD 0"):
         tr = survey_trajectory(read_survey(p), 1000.0)
+    # closed form: a vertical station at MD 0 above a vertical first station: TVD = MD
     assert tr.md[0] == 0 and tr.tvd[1] == pytest.approx(500.0)
 
 
@@ -123,11 +131,12 @@ def test_given_tie_in(tmp_path):
     p = _write(tmp_path / "s.csv", "MD [ft],INC,AZI,TVD [ft],NORTH,EAST\n"
                                    "1000,10,90,990,0,50\n2000,10,90,,,\n")
     s = read_survey(p)
+    # the file's values, ft -> m (nist2008)
     assert s.tie_in == pytest.approx((990 * FT, 0.0, 50 * FT))
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         tr = survey_trajectory(s, 1000 * FT)
-    # straight 10-deg hold below the tie-in (computed)
+    # closed form: straight 10-deg hold below the tie-in, 1000 ft cos 10 and sin 10 (nist2008 ft)
     assert tr.tvd[1] - tr.tvd[0] == pytest.approx(1000 * FT * math.cos(math.radians(10)))
     assert tr.east[1] - tr.east[0] == pytest.approx(1000 * FT * math.sin(math.radians(10)))
 
@@ -148,13 +157,16 @@ def test_read_tops(tmp_path):
         A-2,Upper,6010,6310,
         """)
     rows = read_tops(p)
+    # the file's values (tops.csv above)
     assert [(r.well, r.zone, r.depth_type) for r in rows] == [
         ("A-1", "Upper", "MD"), ("A-1", "Lower", "TVDSS"), ("A-2", "Upper", "MD")]
+    # the file's values, ft -> m (nist2008); line numbers of the file as written
     assert rows[0].top == pytest.approx(6000 * FT) and rows[2].line == 4
 
 
 def test_tops_default_unit(tmp_path):
     p = _write(tmp_path / "tops.csv", "well,zone,top,base\nA,Z,100,200\n")
+    # the file's value in the default unit given (ft, nist2008)
     assert read_tops(p, "ft")[0].base == pytest.approx(200 * FT)
 
 
@@ -170,6 +182,7 @@ def test_bad_tops(tmp_path, body, match, line):
     p.write_text(body)
     with pytest.raises(InputFileError, match=match) as ei:
         read_tops(p)
+    # README (Bad input, CSV files): tops errors name the file and line
     assert f"t.csv, line {line}" in str(ei.value)
 
 
@@ -229,7 +242,9 @@ def test_project_survey_keys(tmp_path):
     proj = load_project(_project(tmp_path, well_extra='survey = "s.csv"\nsurvey_format = "CSV"\n'
                                                       "location = { east = 100, north = \"2 km\" }"))
     w = proj.wells[0]
+    # the values given in the project file, paths relative to it (README: Outputs)
     assert w.survey == (tmp_path / "s.csv").resolve() and w.survey_format == "csv"
+    # the values given in the project file
     assert w.location == (100.0, 2000.0)
 
 
@@ -245,6 +260,7 @@ def test_project_survey_key_errors(tmp_path, extra, key):
     (tmp_path / "s.csv").write_text("MD [m],INC,AZI\n0,0,0\n")
     with pytest.raises(ProjectFileError) as ei:
         load_project(_project(tmp_path, well_extra=extra))
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "p.toml" in str(ei.value) and key in str(ei.value)
 
 
@@ -253,6 +269,7 @@ def test_tops_file_merged(tmp_path):
                                        "W-1,Sand,1000,1010,MD\nw,Deep,990,1001,TVDSS\n")
     proj = load_project(_project(tmp_path, project_extra='tops_file = "tops.csv"'))
     w = proj.wells[0]
+    # the tops file's values, matched by well name and by LAS file name
     assert w.tops == {"Sand": (1000.0, 1010.0)}            # by well name
     assert w.tops_tvdss == {"Deep": (990.0, 1001.0)}       # by LAS file name
     assert proj.tops_file == (tmp_path / "tops.csv").resolve()
@@ -270,10 +287,12 @@ def test_tops_file_errors(tmp_path, rows, extra, match, key):
     with pytest.raises(ProjectFileError, match=match) as ei:
         load_project(_project(tmp_path, project_extra='tops_file = "tops.csv"', well_extra=extra))
     msg = str(ei.value)
+    # README (Bad input, Project file): every bad value names the file and the key
     assert "p.toml" in msg and key in msg
 
 
 def test_tops_file_missing(tmp_path):
     with pytest.raises(ProjectFileError, match="not found") as ei:
         load_project(_project(tmp_path, project_extra='tops_file = "nope.csv"'))
+    # README (Bad input, Project file): a missing file names the key
     assert "project.tops_file" in str(ei.value)

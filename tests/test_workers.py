@@ -43,6 +43,9 @@ def run(project, out, workers):
 def test_two_workers_same_as_one(project, tmp_path):
     r1, s1 = run(project, tmp_path / "one", 1)
     r2, s2 = run(project, tmp_path / "two", 2)
+    # README (Usage, --workers): the outputs and well order are the same as with one process
+    # (an invariance between two runs on one machine, not a value check); BROKEN.las and the
+    # colliding name are the two bad wells this fixture adds
     assert [(w.name, w.ok, w.error) for w in r1.wells] == [(w.name, w.ok, w.error) for w in r2.wells]
     n_demo = len(list(DEMO.glob("*.las")))
     assert [w.ok for w in r1.wells] == [True] * n_demo + [False, False]
@@ -67,6 +70,7 @@ def test_bad_worker_count(project, tmp_path, bad):
 
 
 def test_cli_workers_option(project, tmp_path, capsys):
+    # README (Bad input): a failed well gives exit code 3; a bad option exit code 2
     assert main(["run", str(project), "--out", str(tmp_path / "o"), "--no-plots",
                  "--workers", "2"]) == 3              # two wells failed
     out = capsys.readouterr().out
@@ -78,5 +82,6 @@ def test_cli_workers_option(project, tmp_path, capsys):
 
 def test_two_workers_draw_the_field_section(project, tmp_path):
     report = run_project(project, tmp_path / "sec", plot=True, workers=2)
+    # README (Outputs): field_section.png is drawn whatever the number of workers
     assert report.section_file is not None and report.section_file.stat().st_size > 0
     assert all(w.result is None for w in report.wells)
