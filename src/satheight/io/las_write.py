@@ -126,7 +126,7 @@ def _description(text: str) -> str:
     A LAS 2.0 header line splits value and description at its last colon, so a
     colon inside a description is written as a semicolon.
     """
-    # robustness (issue 6): inner blanks are kept as read; only line breaks are joined
+    # inner blanks are kept as read; only line breaks are joined
     return " ".join(str(text).splitlines()).strip().replace(":", ";")
 
 
