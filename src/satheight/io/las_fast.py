@@ -12,7 +12,7 @@ for the header sections only and hands the ``~A`` section to the functions here:
   curve) and returns ``None`` whenever the result could differ from lasio's, so
   the caller falls back to lasio for that file.
 
-For speed on large files :func:`read_las` calls :func:`scan_data_section` with
+For speed :func:`read_las` calls :func:`scan_data_section` with
 ``count=False`` and :func:`parse_data_section` does the byte checks itself: a
 large section is cut at line starts into parts (one per free CPU, see
 :func:`_threads`); each part is first scanned (bytes checked, tokens and lines

@@ -178,7 +178,7 @@ def text_warning(path: Path, mnemonic: str, count: int, first_text: str, first_r
 
 
 
-# --- robustness checks: small, local, run before lasio (damaged files fail with a line) -----------------
+# --- checks on the raw text: small, local, run before lasio ---------------------
 
 # A section title line: "~" as the first non-blank character of a line.
 _SECTION_LINE = re.compile(r"^[ \t]*~(\S?)", re.M)
