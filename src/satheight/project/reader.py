@@ -113,11 +113,12 @@ from .models import FAMILIES, build_function, get_family
 from .project_types import (ComparisonSpec, FunctionSpec, LogSwSpec, Project, WellSpec,
                             ZoneSpec)
 from .project_fluids import FLUID_ZONE_KEYS, read_zone_fluids
+from .uncertainty_keys import UNCERTAINTY_TOP_KEY, UNCERTAINTY_ZONE_KEY, read_uncertainty
 from .units import UNIT_SYSTEMS, from_si, parse_quantity
 
 __all__ = ["load_project", "parse_project"]
 
-_TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones")
+_TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones", UNCERTAINTY_TOP_KEY)
 _PROJECT_KEYS = ("name", "units", "tops_file")
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw")
 _COMPARISON_KEYS = ("min_porosity", "min_permeability")
@@ -127,7 +128,7 @@ _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "sur
 _SURVEY_FORMATS = ("csv", "las")
 _CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
 _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
-              "hydrocarbon_density", "sigma_cos_theta", "function") + FLUID_ZONE_KEYS
+              "hydrocarbon_density", "sigma_cos_theta", "function") + FLUID_ZONE_KEYS + (UNCERTAINTY_ZONE_KEY,)
 _HYDROCARBONS = ("oil", "gas", "air")
 _FUNCTION_FIXED_KEYS = ("family", "j_min", "j_max")
 _FUNCTION_FILE_KEYS = ("file", "rock_type", "family", "j_min", "j_max")
@@ -394,7 +395,8 @@ class _Reader:
         self.check_zone_windows(zones, wells, pending)
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
                        wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
-                       tops_file=tops_file, tops_pending=pending)
+                       tops_file=tops_file, tops_pending=pending,
+                       uncertainty=read_uncertainty(data, self.path, self.unit_system))
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
