@@ -207,8 +207,8 @@ def test_correlated_field_has_unit_variance_and_exponential_correlation():
     z = np.cumsum(rng.uniform(0.1, 0.5, 700))
     L = 3.0
     a = ar1_coefficients(z, np.full(z.size, L))
-    g = FieldStream(seed=1, realisations=4000, stream=1, a=a).chunk(0, 512)
-    g = np.concatenate([g, FieldStream(1, 4000, 1, a).chunk(0, 700)[:, 512:]], axis=1)
+    g = FieldStream(1, 4000, a, 1).chunk(0, 512)
+    g = np.concatenate([g, FieldStream(1, 4000, a, 1).chunk(0, 700)[:, 512:]], axis=1)
     np.testing.assert_allclose(g.var(axis=0).mean(), 1.0, atol=0.02)
     for i, j in ((100, 101), (100, 110), (250, 260), (255, 256), (500, 520)):
         r = np.corrcoef(g[:, i], g[:, j])[0, 1]
@@ -283,3 +283,27 @@ def test_what_the_monte_carlo_cannot_do_is_refused():
     with pytest.raises(SatHeightError, match="memory_mb"):
         monte_carlo(z, phi, k, zones, shm, _spread(),
                     MonteCarloSettings(realisations=100000, memory_mb=10))
+
+
+def test_zone_inputs_are_shared_between_wells_and_log_errors_are_not():
+    """Realisation r draws a zone's FWL from a stream keyed by the zone's name, and the log
+    errors from streams keyed by the well's name. Two wells in one linear zone: each
+    well's HCPT is then an exact linear function of the FWL draw (closed form of the test
+    family), so with only the FWL uncertain the two wells' HCPT correlate with r = 1; with
+    only an independent porosity error their correlation is near 0 (sd 1/sqrt(R))."""
+    fn = _Linear.from_params({"s0": 0.9, "c": 0.01})
+    zones = [ZoneModel("Z", 1990.0, 2060.0, 2060.0, 1050.0, 750.0, "oil", 0.026, fn)]
+
+    def run(unc, z, name):
+        phi, k = np.full(z.size, 0.25), np.full(z.size, 100 * MD)
+        return monte_carlo(z, phi, k, zones, compute_shm(z, phi, k, zones), unc,
+                           MonteCarloSettings(realisations=2000, seed=4), well=name).hcpt["Z"]
+
+    fwl = {"Z": ZoneUncertainty(inputs={"fwl": Distribution("normal", sd=1.0)})}
+    a = run(fwl, np.linspace(2000.0, 2010.0, 11), "A-1")
+    b = run(fwl, np.linspace(2020.0, 2040.0, 31), "B-2")
+    assert np.corrcoef(a, b)[0, 1] > 1 - 1e-9
+    err = {"Z": ZoneUncertainty(porosity_error=LogError(Distribution("normal", sd=0.01), 100.0))}
+    a = run(err, np.linspace(2000.0, 2010.0, 11), "A-1")
+    b = run(err, np.linspace(2000.0, 2010.0, 11), "B-2")
+    assert abs(np.corrcoef(a, b)[0, 1]) < 5 / np.sqrt(2000)

@@ -14,16 +14,24 @@ realisations; the field carries from one block to the next.
 
 from __future__ import annotations
 
+import zlib
+
 import numpy as np
 
 #: Samples per block of the correlated fields (and of the Monte Carlo's partial sums).
 BLOCK = 256
 
 
-def generator(seed: int, realisation: int, stream: int) -> np.random.Generator:
-    """The random stream ``stream`` of realisation ``realisation`` (SeedSequence spawn key)."""
+def generator(seed: int, realisation: int, *keys: int) -> np.random.Generator:
+    """The random stream ``keys`` of realisation ``realisation``: a PCG64 generator seeded by
+    ``SeedSequence(seed, spawn_key=(realisation, *keys))``."""
     return np.random.Generator(np.random.PCG64(
-        np.random.SeedSequence(int(seed), spawn_key=(int(realisation), int(stream)))))
+        np.random.SeedSequence(int(seed), spawn_key=(int(realisation), *(int(k) for k in keys)))))
+
+
+def text_key(text: str) -> int:
+    """A stable whole number for a name (CRC-32 of its UTF-8 bytes), for stream keys."""
+    return zlib.crc32(text.encode("utf-8"))
 
 
 def open_uniforms(gen: np.random.Generator, n: int) -> np.ndarray:
@@ -90,8 +98,8 @@ def ar1_scan(a, w, carry) -> np.ndarray:
 class FieldStream:
     """Standard normal fields of one log error for all realisations, chunk by chunk."""
 
-    def __init__(self, seed, realisations, stream, a):
-        self.gens = [generator(seed, r, stream) for r in range(realisations)]
+    def __init__(self, seed, realisations, a, *keys):
+        self.gens = [generator(seed, r, *keys) for r in range(realisations)]
         self.a = a
         self.carry = np.zeros(realisations)
 

@@ -11,11 +11,13 @@ Pure vectorised numpy (no I/O, no plotting). Uncertain inputs are declared per z
   ``exp(-|dz| / L)`` over the correlation length ``L`` [m] the user gives.
 
 Each realisation ``r`` draws from its own random streams,
-``numpy.random.SeedSequence(seed, spawn_key=(r, stream))``: stream 0 for the zone
-scalars (one uniform per input, turned into a value by the inverse distribution
-function), stream 1 for the porosity field, stream 2 for the permeability field. A
-realisation's numbers therefore depend only on the seed and its index, not on how
-many realisations run, nor on how the samples are cut into chunks: the fields are
+``numpy.random.SeedSequence(seed, spawn_key=(r, stream, key))``: stream 0 keyed by the
+zone's name for the zone scalars (one uniform per input, turned into a value by the
+inverse distribution function; so realisation ``r`` has the same FWL in every well),
+streams 1 and 2 keyed by the well's name for the porosity and permeability fields
+(independent between wells). A realisation's numbers therefore depend only on the
+seed, its index and these names, not on how many realisations run, in which process,
+nor on how the samples are cut into chunks: the fields are
 built on fixed blocks of :data:`BLOCK` samples (absolute positions in TVDSS order),
 chunks are whole blocks, and sums over samples are taken per block and then over the
 blocks, so one chunk or many give the same bits.
@@ -49,7 +51,7 @@ from .constants import STANDARD_GRAVITY
 from .distributions import Distribution
 from .engine import ZoneModel
 from .errors import SatHeightError
-from .random_fields import BLOCK, FieldStream, ar1_coefficients, generator, open_uniforms
+from .random_fields import BLOCK, FieldStream, ar1_coefficients, generator, open_uniforms, text_key
 from .results import ShmResult
 
 #: The scalar inputs of a zone that may carry a distribution (plus the J-Sw parameters).
@@ -260,20 +262,22 @@ def _all_values(zone: ZoneModel, given: dict, n: int) -> dict:
 
 
 def _draw_values(well: _Well, settings: MonteCarloSettings) -> list[dict]:
-    """Per Monte Carlo zone, ``{input: (R,) values}`` from each realisation's scalar stream."""
+    """Per Monte Carlo zone, ``{input: (R,) values}`` from each realisation's scalar stream.
+
+    The stream of a zone is keyed by the zone's name, not by the well: realisation ``r``
+    draws the same zone inputs (the same FWL...) in every well of a field.
+    """
     R = settings.realisations
-    layout = [(zn, spec, _input_names(zn, spec)) for _, zn, spec in well.zones]
-    total = sum(len(names) for _, _, names in layout)
-    u = np.empty((R, total))
-    if total:
-        for r in range(R):                       # one small draw per realisation, not per sample
-            u[r] = open_uniforms(generator(settings.seed, r, _STREAM_SCALARS), total)
-    out, col = [], 0
-    for zn, spec, names in layout:
+    out = []
+    for _, zn, spec in well.zones:
+        names = _input_names(zn, spec)
         given = {}
-        for nm in names:
-            given[nm] = spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(u[:, col])
-            col += 1
+        if names:
+            key = text_key(zn.name)
+            u = np.stack([open_uniforms(generator(settings.seed, r, _STREAM_SCALARS, key), len(names))
+                          for r in range(R)])        # one small draw per realisation, not per sample
+            for col, nm in enumerate(names):
+                given[nm] = spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(u[:, col])
         out.append(_all_values(zn, given, R))
     return out
 
@@ -310,7 +314,7 @@ def _zone_sw(zone: ZoneModel, vals: dict, z, phi, k, usable, e_phi, e_k):
 class _FieldErrors:
     """Monte Carlo log errors: correlated fields mapped to each zone's marginal."""
 
-    def __init__(self, well: _Well, settings: MonteCarloSettings):
+    def __init__(self, well: _Well, settings: MonteCarloSettings, well_key: int):
         self.fields = {}
         for kind, stream in (("porosity_error", _STREAM_POROSITY),
                              ("permeability_error", _STREAM_PERMEABILITY)):
@@ -323,7 +327,8 @@ class _FieldErrors:
                     used = True
             if used:
                 a = ar1_coefficients(well.z, lengths)
-                self.fields[kind] = FieldStream(settings.seed, settings.realisations, stream, a)
+                self.fields[kind] = FieldStream(settings.seed, settings.realisations, a, stream,
+                                                well_key)
         self.current = {}
 
     def start_chunk(self, lo: int, hi: int) -> None:
@@ -400,7 +405,7 @@ def _run(well: _Well, values: list[dict], errors, realisations: int, chunk: int,
 
 def monte_carlo(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertainty: dict,
                 settings: MonteCarloSettings = MonteCarloSettings(), min_porosity: float = 0.0,
-                min_permeability: float = 0.0) -> MonteCarloResult:
+                min_permeability: float = 0.0, well: str = "") -> MonteCarloResult:
     """Monte Carlo of the saturation-height model of one well.
 
     Parameters
@@ -420,6 +425,10 @@ def monte_carlo(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncer
     min_porosity, min_permeability : float
         Net-reservoir cutoffs on the logged values [fraction], [m^2], as in
         :func:`satheight.compare.summarise`: only net samples enter the HCPT.
+    well : str
+        The well's name: keys the streams of its log errors, so that wells get
+        independent log errors while a zone's scalar inputs (keyed by zone name) take
+        the same value in realisation ``r`` of every well.
 
     Returns
     -------
@@ -438,15 +447,15 @@ def monte_carlo(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncer
     R = int(settings.realisations)
     if R < 1:
         raise SatHeightError(f"realisations must be >= 1, got {settings.realisations!r}")
-    well = _prepare(tvdss, phi, k, zones, shm, uncertainty, min_porosity, min_permeability)
-    chunk = _chunk_samples(R, settings.memory_mb, well.z.size)
-    values = _draw_values(well, settings)
-    pct, hcpt, clipped = _run(well, values, _FieldErrors(well, settings), R, chunk, True)
+    w = _prepare(tvdss, phi, k, zones, shm, uncertainty, min_porosity, min_permeability)
+    chunk = _chunk_samples(R, settings.memory_mb, w.z.size)
+    values = _draw_values(w, settings)
+    pct, hcpt, clipped = _run(w, values, _FieldErrors(w, settings, text_key(well)), R, chunk, True)
     out = np.empty_like(pct)
-    out[:, well.order] = pct
+    out[:, w.order] = pct
     curves = {"SW_P10": out[0], "SW_P50": out[1], "SW_P90": out[2]}
     return MonteCarloResult(sw_percentiles=curves, hcpt=hcpt,
-                            phases={zn.name: zn.hydrocarbon for _, zn, _ in well.zones},
+                            phases={zn.name: zn.hydrocarbon for _, zn, _ in w.zones},
                             settings=settings, block_samples=chunk, porosity_clipped=clipped)
 
 
