@@ -95,7 +95,7 @@ class MonteCarloSettings:
 
     realisations: int = 1000
     seed: int = 0
-    memory_mb: float = 64.0
+    memory_mb: float = 256.0
 
 
 @dataclass
@@ -483,7 +483,7 @@ class TornadoBar:
 
 def tornado(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertainty: dict,
             min_porosity: float = 0.0, min_permeability: float = 0.0,
-            memory_mb: float = 64.0) -> tuple[float, list[TornadoBar]]:
+            memory_mb: float = 256.0) -> tuple[float, list[TornadoBar]]:
     """Which input moves the volume most: one at a time from its P10 to P90 value.
 
     Every uncertain input (zone scalars, J-Sw parameters, log errors) is set to the

@@ -9,7 +9,7 @@ or text with a unit, as everywhere in the project file.
     [uncertainty]                   # optional: how the Monte Carlo runs (defaults shown)
     realisations = 1000             # 1 to 1,000,000
     seed = 0                        # whole number >= 0: same seed, same numbers
-    memory_mb = 64                  # bound on the working arrays [MB]
+    memory_mb = 256                 # bound on the working arrays [MB] (about 0.04 MB per realisation at least)
     tornado = true                  # one input at a time from its P10 to its P90 value
     accept_implausible = false      # true: allow spreads outside the plausible ranges below
 
