@@ -28,6 +28,8 @@ from .project_types import Project, WellSpec, ZoneSpec
 from .results import FLAG_MEANINGS, WellResult
 from .roles import detect_roles, require_role, role_values
 from .well import Curve, HeaderItem, Well
+from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
+                          well_uncertainty, write_tornado)
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -461,10 +463,12 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = _safe_name(result.well.name)
     new = output_curves(result, project)
+    mc = well_uncertainty(project, result)          # Monte Carlo, when the project declares one
+    new += uncertainty_curves(mc)
     files = []
     las_path = out_dir / f"{stem}.las"
     write_las(las_path, result.well, new_curves=new, parameters=run_parameters(result, project),
-              decimals={c.mnemonic: OUTPUT_DECIMALS[c.mnemonic] for c in new})
+              decimals={c.mnemonic: {**OUTPUT_DECIMALS, **UNCERTAINTY_DECIMALS}[c.mnemonic] for c in new})
     files.append(las_path)
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)
@@ -473,6 +477,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
     _add_contacts(result, project, U.factor(length_unit, "length"))
+    if mc is not None:
+        result.summary["uncertainty"] = uncertainty_section(mc, length_unit)
     json_path = out_dir / f"{stem}_summary.json"
     atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
@@ -483,6 +489,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
         files += track_plot(result, out_dir / f"{stem}_tracks.png",
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
                             units=project.unit_system, depth_axis=depth_axis)
+        files += write_tornado(mc, out_dir / f"{stem}_tornado.png", f"{result.well.name}: tornado", length_unit)
     return files
 
 
