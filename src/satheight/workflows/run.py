@@ -28,6 +28,7 @@ from .project_types import Project, WellSpec, ZoneSpec
 from .results import FLAG_MEANINGS, WellResult
 from .roles import detect_roles, require_role, role_values
 from .well import Curve, HeaderItem, Well
+from .field_tables import write_field_tables, write_well_table
 from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
                           well_uncertainty, write_tornado)
 
@@ -473,6 +474,7 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)
     files.append(csv_path)
+    files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
@@ -572,6 +574,8 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                                         title=f"{project.name}: field section, TVDSS")[0]
         except SatHeightError as exc:
             notes.append(f"field section not drawn: {exc}")
+    tables = write_field_tables([o.summary for o in outcomes if o.ok], [f for o in outcomes if o.ok
+                                for f in o.files if f.suffix == ".parquet"], out_dir, project)
     unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
     if unused:
         notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
@@ -588,6 +592,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     }
     if section_file is not None:
         summary["field_section"] = section_file.name
+    summary["tables"] = [p.name for p in tables]          # field_summary.*, all_wells.*
     if notes:
         summary["notes"] = notes
     summary["inputs"] = input_record(project)
