@@ -125,3 +125,20 @@ def test_tornado_figure_draws_each_bar_between_its_two_thicknesses():
                    (round(11 / f, 6), round(12 / f, 6)), (round(12 / f, 6), round(12.5 / f, 6))])
     assert spans == want
     assert [t.get_text() for t in ax.get_yticklabels()][-1] == "Upper \\$x\\$: fwl"   # largest on top
+
+
+def test_bench_montecarlo_case_runs_on_tiny_inputs(tmp_path):
+    """bench/run.py's Monte Carlo case on a tiny well (no timing is checked)."""
+    import argparse
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location(
+        "bench_run_mc", Path(__file__).resolve().parents[1] / "bench" / "run.py")
+    bench = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(bench)
+    paths = bench.build_mc_inputs(tmp_path, {"mc_rows": 400, "mc_realisations": 20})
+    r = bench.case_montecarlo(argparse.Namespace(project=paths["mc_project"],
+                                                 mc_project=paths["mc_unc_project"],
+                                                 out=tmp_path / "out", repeat=1))
+    assert (r["realisations"], r["samples"]) == (20, 400)
+    assert r["montecarlo"]["seconds"] > 0 and r["deterministic"]["seconds"] > 0
