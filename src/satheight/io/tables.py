@@ -53,12 +53,22 @@ def safe_cell(text) -> str:
 
 
 def _column(pa, values):
-    """A pyarrow array: float64 with NaN as null for numbers, safe strings for text."""
+    """A pyarrow array: float64 with NaN as null for numbers, safe strings for text.
+
+    Text is made safe once per distinct value and expanded by index (vectorised), so a
+    column of one well or zone name per sample costs no Python call per sample.
+    """
     arr = np.asarray(values)
     if arr.dtype.kind in "fiub":
         a = arr.astype(float)
         return pa.array(a, type=pa.float64(), mask=~np.isfinite(a))
-    return pa.array([None if v is None else safe_cell(v) for v in values], type=pa.string())
+    none = np.equal(arr, None) if arr.dtype == object else None
+    text = np.where(none, "", arr.astype(str)) if none is not None else arr.astype(str)
+    uniq, inv = np.unique(text, return_inverse=True)
+    out = pa.array([safe_cell(u) for u in uniq], type=pa.string()).take(pa.array(inv.ravel()))
+    if none is not None and none.any():
+        out = pa.array(out.to_pylist(), type=pa.string(), mask=none)
+    return out
 
 
 def to_arrow(columns: dict, metadata: dict | None = None):
@@ -72,6 +82,13 @@ def to_arrow(columns: dict, metadata: dict | None = None):
     if metadata:
         table = table.replace_schema_metadata({safe_cell(k): safe_cell(v) for k, v in metadata.items()})
     return table
+
+
+def _parquet_options(pa, schema) -> dict:
+    """Dictionary encoding for text columns only (float columns gain nothing from it and
+    cost time), zstd compression."""
+    text = [f.name for f in schema if pa.types.is_string(f.type)]
+    return {"use_dictionary": text, "compression": "zstd"}
 
 
 def _write_csv(pacsv, table, f) -> None:
@@ -90,13 +107,13 @@ def write_table(columns: dict, parquet_path: Path | None = None, csv_path: Path 
     metadata : dict[str, str], optional
         Key-value text stored in the Parquet schema (units, program, caution).
     """
-    _, pacsv, pq = _pyarrow()
+    pa, pacsv, pq = _pyarrow()
     table = to_arrow(columns, metadata)
     out = []
     try:
         if parquet_path is not None:
             with atomic_open(parquet_path, "wb") as f:
-                pq.write_table(table, f)
+                pq.write_table(table, f, **_parquet_options(pa, table.schema))
             out.append(Path(parquet_path))
         if csv_path is not None:
             with atomic_open(csv_path, "wb") as f:
@@ -137,7 +154,8 @@ def merge_tables(parts: Sequence[Path], parquet_path: Path | None, csv_path: Pat
     out = []
     try:
         if parquet_path is not None:
-            with atomic_open(parquet_path, "wb") as f, pq.ParquetWriter(f, schema) as writer:
+            with atomic_open(parquet_path, "wb") as f, \
+                    pq.ParquetWriter(f, schema, **_parquet_options(pa, schema)) as writer:
                 for p in parts:
                     writer.write_table(_conform(pa, pq.read_table(p), schema, p))
             out.append(Path(parquet_path))

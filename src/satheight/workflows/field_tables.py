@@ -42,11 +42,11 @@ def well_table_columns(result: WellResult, project, new_curves) -> dict:
     """
     unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     n = result.well.md.size
-    names = np.array([zn.name for zn in result.zones] + [""], dtype=object)
-    cols = {"WELL": [result.well.name] * n,
+    names = np.array([zn.name for zn in result.zones] + [""], dtype=str)
+    cols = {"WELL": np.full(n, result.well.name),
             f"MD [{unit}]": U.from_si(result.well.md, unit, "length"),
             f"TVDSS [{unit}]": U.from_si(result.tvdss, unit, "length"),
-            "ZONE": list(names[result.shm.zone])}            # -1 picks the trailing ""
+            "ZONE": names[result.shm.zone]}                  # -1 picks the trailing ""
     for c in list(result.well.curves.values()) + list(new_curves):
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         if label in cols or c.mnemonic == "TVDSS":        # TVDSS is above, in the project unit
