@@ -100,6 +100,10 @@ def test_percentiles_are_ordered_and_spread_where_inputs_vary():
         # volume convention (spe_prms2018): P90 <= P50 <= P10
         assert block["P90"] <= block["P50"] <= block["P10"]
     np.testing.assert_allclose(d["phases"]["oil"]["mean"], mc.hcpt["Upper"].mean())
+    # the well's distribution is of the realisation-wise sums (numpy percentile of the sum)
+    total = mc.hcpt["Upper"] + mc.hcpt["Lower"]
+    np.testing.assert_allclose(d["well"]["P90"], np.percentile(total, 10), rtol=1e-12)
+    assert d["well"]["P90"] <= d["well"]["P50"] <= d["well"]["P10"]
 
 
 class _Linear(JSwFunction):

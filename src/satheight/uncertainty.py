@@ -128,8 +128,9 @@ class MonteCarloResult:
     def hcpt_distribution(self) -> dict:
         """P90 / P50 / P10 (volume convention), mean and sd of HCPT [m] per zone and per phase.
 
-        Returns ``{"zones": {zone: {...}}, "phases": {phase: {...}}}``; a phase sums the
-        zones of that phase realisation by realisation before taking percentiles.
+        Returns ``{"zones": {zone: {...}}, "phases": {phase: {...}}, "well": {...}}``; a phase
+        (and the well, all phases) sums its zones realisation by realisation before taking
+        percentiles.
         """
         def stats(v):
             p = np.percentile(v, [10.0, 50.0, 90.0])
@@ -140,8 +141,11 @@ class MonteCarloResult:
         for zone, v in self.hcpt.items():
             ph = self.phases[zone]
             phases[ph] = v.copy() if ph not in phases else phases[ph] + v
-        return {"zones": {z: stats(v) for z, v in self.hcpt.items()},
-                "phases": {p: stats(v) for p, v in phases.items()}}
+        out = {"zones": {z: stats(v) for z, v in self.hcpt.items()},
+               "phases": {p: stats(v) for p, v in phases.items()}}
+        if self.hcpt:
+            out["well"] = stats(sum(self.hcpt.values()))
+        return out
 
 
 # --------------------------------------------------------------------------------------

@@ -106,7 +106,8 @@ def uncertainty_section(wu: WellUncertainty, length_unit: str = "m") -> dict:
            "units": {"hcpt": length_unit},
            "hcpt": {"zones": {z: {"phase": mc.phases[z], **scale(b)}
                               for z, b in dist["zones"].items()},
-                    "phases": {p: scale(b) for p, b in dist["phases"].items()}}}
+                    "phases": {p: scale(b) for p, b in dist["phases"].items()},
+                    "well": scale(dist["well"]) if "well" in dist else None}}
     if wu.bars:
         out["tornado"] = {
             "hcpt_all_medians": wu.base_hcpt / f,
