@@ -175,7 +175,7 @@ def _zone(keys: _Keys, raw: Any, key: str) -> ZoneUncertainty:
         f = t["function"]
         if not isinstance(f, dict):
             raise keys.error(f"{key}.function", f"expected a table of parameters, found {f!r}",
-                             hint=f"write it as [zones.uncertainty.function] with parameter = {{...}}")
+                             hint="write it as [zones.uncertainty.function] with parameter = { distribution = ... }")
         for p, d in f.items():
             inputs[str(p)] = keys.distribution(d, f"{key}.function.{p}", None,
                                                PLAUSIBLE_SPREAD["function"])

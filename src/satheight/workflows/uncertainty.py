@@ -15,7 +15,6 @@ from pathlib import Path
 import numpy as np
 
 from .. import units as U
-from ..errors import SatHeightError
 from ..io.atomic import atomic_save_figure
 from ..plots.tornado import tornado_figure
 from ..results import WellResult
