@@ -42,8 +42,10 @@ if (ROOT / "src" / "satheight").is_dir():
 
 import numpy as np  # noqa: E402
 
-FULL = {"rows": 500_000, "engine": 10_000_000, "wells": 200, "well_rows": 20_000, "repeat": 3}
-QUICK = {"rows": 50_000, "engine": 1_000_000, "wells": 20, "well_rows": 5_000, "repeat": 1}
+FULL = {"rows": 500_000, "engine": 10_000_000, "wells": 200, "well_rows": 20_000, "repeat": 3,
+        "mc_rows": 20_000, "mc_realisations": 1000}
+QUICK = {"rows": 50_000, "engine": 1_000_000, "wells": 20, "well_rows": 5_000, "repeat": 1,
+         "mc_rows": 20_000, "mc_realisations": 1000}
 
 #: Synthetic curves: mnemonic, unit, decimals, description.
 CURVES = [("GR", "gAPI", 2, "Gamma ray"), ("PHIE", "v/v", 4, "Effective porosity"),
@@ -96,6 +98,32 @@ swirr = 0.08
 jd = 0.25
 lam = 1.8
 """
+
+
+#: Monte Carlo keys of the benchmark: every kind of uncertain input (invented spreads).
+UNCERTAINTY = """
+[uncertainty]
+realisations = {realisations}
+seed = 1
+memory_mb = {memory_mb}
+"""
+ZONE_UNCERTAINTY = {"Upper": """[zones.uncertainty]
+fwl = { distribution = "normal", sd = "5 m" }
+water_density = { distribution = "uniform", low = "1.07 g/cm3", high = "1.09 g/cm3" }
+hydrocarbon_density = { distribution = "triangular", low = "0.74 g/cm3", high = "0.82 g/cm3" }
+sigma_cos_theta = { distribution = "truncated_normal", sd = "3 mN/m", low = "18 mN/m", high = "34 mN/m" }
+porosity_error = { distribution = "normal", sd = 0.01, correlation_length = "2 m" }
+permeability_error = { distribution = "normal", sd = 0.2, correlation_length = "2 m" }
+[zones.uncertainty.function]
+swirr = { distribution = "uniform", low = 0.05, high = 0.15 }
+b = { distribution = "truncated_normal", sd = 0.1, low = 0.9, high = 1.5 }
+""", "Lower": """[zones.uncertainty]
+fwl = { distribution = "normal", sd = "3 m" }
+porosity_error = { distribution = "normal", sd = 0.01, correlation_length = "2 m" }
+permeability_error = { distribution = "normal", sd = 0.2, correlation_length = "2 m" }
+"""}
+#: Bound on the Monte Carlo's working arrays in the benchmark [MB].
+MC_MEMORY_MB = 256
 
 
 # ---------------------------------------------------------------------------
@@ -151,6 +179,24 @@ def write_project(folder: Path, files: list[str], rows: int) -> Path:
     path = folder / "project.toml"
     path.write_text(PROJECT_HEAD + wells + zones)
     return path
+
+
+def build_mc_inputs(folder: Path, sizes: dict) -> dict:
+    """A well of ``mc_rows`` samples and two projects on it: deterministic, and with the
+    Monte Carlo keys of every zone (``mc_realisations`` realisations)."""
+    mc = folder / "mc"
+    mc.mkdir(parents=True, exist_ok=True)
+    write_well(mc / "mc.las", sizes["mc_rows"], 7, "BENCH-MC")
+    det = write_project(mc, ["mc.las"], sizes["mc_rows"])
+    text = det.read_text()
+    head, lower = text.split("[[zones]]\nname = \"Lower\"")
+    text = (head.replace("[[wells]]", UNCERTAINTY.format(realisations=sizes["mc_realisations"],
+                                                         memory_mb=MC_MEMORY_MB) + "\n[[wells]]", 1)
+            + ZONE_UNCERTAINTY["Upper"] + "\n[[zones]]\nname = \"Lower\"" + lower
+            + ZONE_UNCERTAINTY["Lower"])
+    unc = mc / "project_mc.toml"
+    unc.write_text(text)
+    return {"mc_project": det, "mc_unc_project": unc}
 
 
 def build_inputs(folder: Path, sizes: dict) -> dict:
@@ -366,7 +412,34 @@ def case_cores(args) -> dict:
     return {"serial": serial, "parallel": parallel}
 
 
-CASES = {"cores": case_cores, "read": case_read, "write": case_write, "engine": case_engine, "well": case_well,
+def case_montecarlo(args) -> dict:
+    """Monte Carlo of one well (``well_uncertainty``: realisations and tornado) against one
+    deterministic no-plot run of the same well (compute, write LAS, CSV, JSON)."""
+    from satheight.project.reader import load_project
+    from satheight.workflows import run as R
+    from satheight.workflows.uncertainty import well_uncertainty
+
+    det = load_project(args.project)
+    unc = load_project(args.mc_project)
+    out = Path(args.out)
+    out.mkdir(parents=True, exist_ok=True)
+    spec = det.wells[0]
+    result, _ = R.compute_well(det, spec)                  # imports and first-call costs
+    R.write_outputs(result, det, out, plot=False)
+
+    def e2e():
+        res_, _ = R.compute_well(det, spec)
+        return R.write_outputs(res_, det, out, plot=False)
+
+    res = {"deterministic": _measure(e2e, args.repeat)}
+    result, _ = R.compute_well(unc, spec)
+    res["montecarlo"] = _measure(lambda: well_uncertainty(unc, result), args.repeat)
+    s = unc.uncertainty.settings
+    res.update(realisations=s.realisations, samples=int(result.tvdss.size), memory_mb=s.memory_mb)
+    return res
+
+
+CASES = {"montecarlo": case_montecarlo, "cores": case_cores, "read": case_read, "write": case_write, "engine": case_engine, "well": case_well,
          "project": case_project}
 
 
@@ -445,6 +518,16 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
         f"{fig['well']['ratio_load_write']:.2f}x load+write (target <= 1.5x), "
         f"{fig['well']['ratio_load']:.2f}x load alone")
 
+    mc_in = build_mc_inputs(folder, sizes)
+    mc = _run_case("montecarlo", project=mc_in["mc_project"], mc_project=mc_in["mc_unc_project"],
+                   out=folder / "mc_out", repeat=rep)
+    det_s, mc_s = mc["deterministic"]["seconds"], mc["montecarlo"]["seconds"]
+    fig["montecarlo"] = dict(mc, ratio=mc_s / det_s, peak_mb=mc["montecarlo"]["peak_mb"])
+    say(f"Monte Carlo {mc['realisations']} realisations x {mc['samples']} samples (with tornado): "
+        f"{mc_s:.2f} s, one deterministic no-plot run {det_s:.2f} s -> "
+        f"{fig['montecarlo']['ratio']:.1f}x (target <= 50x); peak memory "
+        f"+{fig['montecarlo']['peak_mb']:.0f} MB (bound on the working arrays {mc['memory_mb']:g} MB)")
+
     cores = _run_case("cores", n=3_000_000 if sizes is FULL else 1_000_000)
     one = _run_case("project", project=inputs["field_project"], workers=1, out=folder / "p1")
     two = _run_case("project", project=inputs["field_project"], workers=2, out=folder / "p2")
@@ -471,7 +554,7 @@ def main(argv=None) -> int:
     p.add_argument("--json", metavar="FILE", help="also write every figure to FILE as JSON")
     p.add_argument("--keep", metavar="DIR", help="build the inputs in DIR and keep them")
     p.add_argument("--case", choices=sorted(CASES), help=argparse.SUPPRESS)
-    for opt in ("which", "file", "small", "out", "project", "warm-project"):
+    for opt in ("which", "file", "small", "out", "project", "warm-project", "mc-project"):
         p.add_argument(f"--{opt}", help=argparse.SUPPRESS)
     for opt in ("n", "repeat", "workers"):
         p.add_argument(f"--{opt}", type=int, default=1, help=argparse.SUPPRESS)

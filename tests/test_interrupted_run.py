@@ -107,8 +107,9 @@ def check_complete(out: Path, old: dict[str, bytes], new_fwl: float) -> int:
             assert np.all(np.isfinite(las["SW_SHM"])), f.name
         elif f.suffix == ".json":
             json.loads(data)
-        elif f.suffix == ".csv":
-            assert len(pd.read_csv(f)) == N_SAMPLES, f.name
+        elif f.suffix in (".csv", ".parquet"):   # per well, field summary (1 zone), all wells
+            rows = {"field_summary": N_WELLS, "all_wells": N_WELLS * N_SAMPLES}.get(f.stem, N_SAMPLES)
+            assert len(pd.read_csv(f) if f.suffix == ".csv" else pd.read_parquet(f)) == rows, f.name
         elif f.suffix == ".html":
             assert data.rstrip().endswith(b"</html>"), f.name
         else:
@@ -126,7 +127,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
-    assert len(old) == 3 * N_WELLS + 3  # per well LAS, CSV, JSON; run summary; report; manifest
+    assert len(old) == 4 * N_WELLS + 7  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
     inputs = {f.name: _digest(f) for f in src.iterdir()}
 
     second = make_project(src, 1500.0, "p2.toml")

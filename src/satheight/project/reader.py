@@ -128,18 +128,20 @@ from ..plausible import PHASE_DENSITY, RANGES
 from .fluid_keys import CONDITION_ALLOW, FLUID_ZONE_KEYS, read_zone_fluids
 from .functions import read_function
 from .types import ComparisonSpec, LogSwSpec, Project, WellSpec
+from .uncertainty_keys import UNCERTAINTY_TOP_KEY, UNCERTAINTY_ZONE_KEY, read_uncertainty
 from .values import ALLOW_KEY, ValueReader, _label, _show
 from .wells import merge_tops_file, read_well
 
 __all__ = ["load_project", "parse_project"]
 
-_TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones")
+_TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones", UNCERTAINTY_TOP_KEY)
 _PROJECT_KEYS = ("name", "units", "tops_file")
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw", ALLOW_KEY)
 _COMPARISON_KEYS = ("min_porosity", "min_permeability", ALLOW_KEY)
 _LOG_SW_METHODS = ("curve", "archie", "auto")
 _ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
-              "hydrocarbon_density", "sigma_cos_theta", "function", ALLOW_KEY) + FLUID_ZONE_KEYS
+              "hydrocarbon_density", "sigma_cos_theta", "function", ALLOW_KEY) + FLUID_ZONE_KEYS \
+              + (UNCERTAINTY_ZONE_KEY,)
 #: Values of a [[zones]] entry that may be listed in its allow_unusual.
 ZONE_ALLOW = ("fwl", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
               "sigma_cos_theta", "gas_sigma_cos_theta") + CONDITION_ALLOW
@@ -282,7 +284,8 @@ class _Reader(ValueReader):
         self.check_zone_windows(zones, wells, pending)
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
                        wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
-                       tops_file=tops_file, tops_pending=pending)
+                       tops_file=tops_file, tops_pending=pending,
+                       uncertainty=read_uncertainty(data, self.path, self.unit_system))
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):

@@ -159,3 +159,6 @@ class Project:
     comparison: ComparisonSpec = field(default_factory=lambda: ComparisonSpec())
     tops_file: Path | None = None
     tops_pending: dict = field(default_factory=dict)
+    #: Monte Carlo settings and per-zone uncertain inputs
+    #: (:class:`satheight.project.uncertainty_keys.UncertaintySpec`), or None.
+    uncertainty: object | None = None

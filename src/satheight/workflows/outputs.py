@@ -25,7 +25,10 @@ from ..project.types import Project
 from ..results import WellResult
 from ..well import Curve, Well
 from .output_folder import InputFiles, check_input_file
+from .field_tables import write_well_table
 from .report import REPORT_NAME
+from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
+                          well_uncertainty, write_tornado)
 from .well import OUTPUT_DECIMALS, output_curves, run_parameters
 
 
@@ -67,18 +70,24 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = safe_name(result.well.name)
     new = output_curves(result, project)
+    mc = well_uncertainty(project, result)          # Monte Carlo, when the project declares one
+    new += uncertainty_curves(mc)
+    decimals = {**OUTPUT_DECIMALS, **UNCERTAINTY_DECIMALS}
     files = []
     las_path = out_dir / f"{stem}.las"
     write_las(las_path, result.well, new_curves=new, parameters=run_parameters(result, project),
-              decimals={c.mnemonic: OUTPUT_DECIMALS[c.mnemonic] for c in new})
+              decimals={c.mnemonic: decimals[c.mnemonic] for c in new})
     files.append(las_path)
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)
     files.append(csv_path)
+    files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability)
     _add_contacts(result, project, U.factor(length_unit, "length"))
+    if mc is not None:
+        result.summary["uncertainty"] = uncertainty_section(mc, length_unit)
     json_path = out_dir / f"{stem}_summary.json"
     atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
@@ -87,6 +96,9 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
         files += track_plot(result, out_dir / f"{stem}_tracks.png",
                             pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
                             units=project.unit_system, depth_axis=depth_axis)
+        if mc is not None:
+            files += write_tornado(mc, out_dir / f"{stem}_tornado.png",
+                                   f"{result.well.name}: tornado", length_unit)
     return files
 
 
@@ -103,13 +115,14 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 # names: a well's files never collide with another's or with the run's own files
 
 #: Files a project run writes once (beside its manifest).
-RUN_FILES = ("run_summary.json", REPORT_NAME, "field_section.png")
+RUN_FILES = ("run_summary.json", REPORT_NAME, "field_section.png", "field_summary.csv",
+             "field_summary.parquet", "all_wells.csv", "all_wells.parquet")
 
 
 def well_file_names(stem: str) -> list[str]:
     """Every file name a well with output stem ``stem`` may write."""
-    return [f"{stem}.las", f"{stem}.csv", f"{stem}_summary.json", f"{stem}_tracks.png",
-            f"{stem}_tracks.pdf"]
+    return [f"{stem}.las", f"{stem}.csv", f"{stem}.parquet", f"{stem}_summary.json",
+            f"{stem}_tracks.png", f"{stem}_tracks.pdf", f"{stem}_tornado.png"]
 
 
 def reserved_stem(stem: str) -> bool:

@@ -28,6 +28,7 @@ from ..results import WellResult
 from .output_folder import WORK_PREFIX, InputFiles, OutputSession
 from .outputs import (CAUTION, check_wells, input_record, open_project, project_inputs,
                       reserved_stem, safe_name, write_outputs)
+from .field_tables import write_field_tables
 from .report import write_report
 from .well import compute_well
 
@@ -116,8 +117,13 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
             notes.append(f"tops file {project.tops_file}: rows of well(s) "
                          + ", ".join(map(repr, unused)) + " match no well of the project (by "
                          "name, LAS file name or LAS WELL item) and were not used")
-        report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs)
-        files = [f for o in outcomes for f in o.files] + [section_file, report, summary]
+        tables = write_field_tables([o.summary for o in outcomes if o.ok],
+                                    [f for o in outcomes if o.ok for f in o.files
+                                     if f.suffix == ".parquet"], work, project)
+        report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
+                                         tables)
+        files = ([f for o in outcomes for f in o.files] + [section_file, report, summary]
+                 + list(tables))
         session.commit([f for f in files if f is not None])
     for o in outcomes:
         o.files = [out_dir / f.name for f in o.files]
@@ -165,7 +171,8 @@ def _field_section(project: Project, outcomes: list[WellOutcome], locations: dic
 
 
 def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: Path | None,
-                   notes: list[str], out_dir: Path, inputs: InputFiles) -> tuple[Path, Path]:
+                   notes: list[str], out_dir: Path, inputs: InputFiles,
+                   tables: list[Path]) -> tuple[Path, Path]:
     """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
         "program": f"satheight {__version__}",
@@ -181,6 +188,7 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
     if notes:
         summary["notes"] = notes
     summary["inputs"] = input_record(project, inputs)
+    summary["tables"] = [p.name for p in tables]          # field_summary.*, all_wells.*
     report = write_report(summary, out_dir, project.name)
     summary["report"] = report.name
     summary_path = out_dir / "run_summary.json"
