@@ -3,7 +3,7 @@
 import html.parser
 import json
 
-from satheight.report import REPORT_NAME, render, write_report
+from satheight.workflows.report import REPORT_NAME, render, write_report
 
 
 class _Collect(html.parser.HTMLParser):

@@ -12,7 +12,7 @@ from __future__ import annotations
 import html
 from pathlib import Path
 
-from .io.atomic import atomic_write_text
+from ..io.atomic import atomic_write_text
 
 #: File name of the report in the output folder.
 REPORT_NAME = "report.html"
