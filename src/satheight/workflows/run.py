@@ -584,9 +584,10 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     if notes:
         summary["notes"] = notes
     summary["inputs"] = input_record(project)
-    from .report import write_report
+    from .report import input_files, write_report
 
-    summary["report"] = write_report(summary, out_dir, project.name).name
+    summary["inputs"]["files"] = input_files(project)  # every input and its checksum
+    summary["report"] = write_report(summary, out_dir, project.name, project).name
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
     return RunReport(project=project, out_dir=out_dir, wells=outcomes, summary_file=summary_path,
