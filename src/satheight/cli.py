@@ -14,6 +14,7 @@ import traceback
 from pathlib import Path
 
 from . import __version__
+from .workflows.console import print_json, progress_wanted
 
 EXIT_OK = 0
 EXIT_INTERNAL = 1
@@ -21,6 +22,7 @@ EXIT_BAD_INPUT = 2
 EXIT_WELLS_FAILED = 3
 
 DEMO_OUT = "satheight-demo-out"
+JSON_HELP = "print the results as one JSON document on stdout (with schema_version)"
 
 
 def find_demo_project() -> Path:
@@ -351,6 +353,9 @@ def _common_run_options(sp):
                          "it, a folder holding a run_summary.json is refused)")
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
+    sp.add_argument("--quiet", action="store_true",
+                    help="no progress on stderr (it is shown only on a terminal anyway)")
+    sp.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _positive_int(text: str) -> int:
@@ -378,13 +383,13 @@ def _print_run(report, out) -> int:
             for f in w.files:
                 print(f"    {f}", file=out)
             for m in w.warnings:
-                print(f"    note: {m}", file=out)
+                print(f"    note ({w.name}): {m}", file=sys.stderr)  # warnings on stderr
         else:
-            print(f"  {w.name}: FAILED: {w.error}", file=out)
+            print(f"  {w.name}: FAILED: {w.error}", file=sys.stderr)  # failures on stderr
     if getattr(report, "section_file", None) is not None:
         print(f"field section: {report.section_file}", file=out)
     for note in getattr(report, "notes", []):
-        print(f"note: {note}", file=out)
+        print(f"note: {note}", file=sys.stderr)  # warnings on stderr
     print(f"run summary: {report.summary_file}", file=out)
     print(f"report: {report.out_dir / 'report.html'}", file=out)
     print("Caution: results are estimates for review by a qualified professional; local "
@@ -466,7 +471,12 @@ def main(argv=None) -> int:
         check_output_folder(out, args.overwrite)
         report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
                              depth_axis=args.depth_axis, workers=args.workers,
-                             keep_results=False)
+                             keep_results=False, progress=progress_wanted(sys.stderr, args.quiet))
+        if args.json:
+            import json
+
+            print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
+            return EXIT_WELLS_FAILED if report.failed else EXIT_OK
         return _print_run(report, sys.stdout)
     except SatHeightError as exc:
         if args.verbose:

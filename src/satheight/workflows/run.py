@@ -25,6 +25,7 @@ from .logsw import archie_sw
 from .models import build_function
 from .project import load_project
 from .project_types import Project, WellSpec, ZoneSpec
+from .console import SCHEMA_VERSION, Progress
 from .results import FLAG_MEANINGS, WellResult
 from .roles import detect_roles, require_role, role_values
 from .well import Curve, HeaderItem, Well
@@ -501,7 +502,7 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "md", workers: int = 1,
-                keep_results: bool = True) -> RunReport:
+                keep_results: bool = True, progress: bool = False) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -524,6 +525,9 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         the failures reported and ``run_summary.json`` are those of a run with one
         worker. The wells' arrays then stay in the workers: ``WellOutcome.result``
         is None and ``WellOutcome.summary`` holds the summary.
+    progress : bool
+        Draw wells done / total, the current well and the time left on stderr
+        (:class:`satheight.workflows.console.Progress`; the caller decides, e.g. only on a terminal).
     """
     if isinstance(workers, bool) or not isinstance(workers, int) or workers < 1:
         raise SatHeightError(f"workers must be a whole number >= 1, got {workers!r}",
@@ -538,12 +542,15 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     outcomes = []
     names_seen: set[str] = set()
     locations: dict = {}
+    bar = Progress(len(project.wells), enabled=progress)  # progress on stderr
     if workers > 1 and len(project.wells) > 1:
-        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis)
+        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis, bar)
         locations = {o.name: getattr(spec, "location", None)
                      for spec, o in zip(project.wells, outcomes) if o.ok}
     for spec in (project.wells if not outcomes else ()):
+        bar.start(spec.name or spec.las.stem)  # progress on stderr
         outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen)
+        bar.done(outcome.name, outcome.ok, outcome.error)  # progress on stderr
         if outcome.ok:
             locations[outcome.name] = getattr(spec, "location", None)
             if not keep_results:
@@ -552,6 +559,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                 outcome.section = _section_view(outcome.result) if plot else None
                 outcome.result = None
         outcomes.append(outcome)
+    bar.close()  # progress on stderr
     notes = []
     section_file = None
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
@@ -571,6 +579,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                      + " match no well of the project (by name, LAS file name or LAS WELL item) "
                        "and were not used")
     summary = {
+        "schema_version": SCHEMA_VERSION,
         "program": f"satheight {__version__}",
         "project": str(project.path),
         "caution": CAUTION,
@@ -668,7 +677,8 @@ def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot:
 
 
 def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
-                        workers: int, depth_axis: str = "md") -> list[WellOutcome]:
+                        workers: int, depth_axis: str = "md",
+                        bar: Progress | None = None) -> list[WellOutcome]:
     """Run the wells in ``workers`` processes; place their files in project order."""
     import os
     import shutil
@@ -684,6 +694,8 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
                 outcome, safe = fut.result()
+                if bar is not None:  # progress on stderr
+                    bar.done(outcome.name, outcome.ok, outcome.error)
                 if safe is not None and safe in names_seen:
                     if outcome.ok:
                         outcome = WellOutcome(outcome.name, False, [],
