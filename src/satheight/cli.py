@@ -15,6 +15,7 @@ from pathlib import Path
 
 from . import __version__
 from .workflows.console import print_json, progress_wanted
+from .workflows.setup import scan_lines, scan_record, start_project
 
 EXIT_OK = 0
 EXIT_INTERNAL = 1
@@ -79,6 +80,16 @@ def build_parser() -> argparse.ArgumentParser:
     i.add_argument("--json", action="store_true", help="print the listing as JSON")
     _add_fit_parser(sub)
     _add_contact_commands(sub)
+    st = sub.add_parser("start", help="write a commented project file from a folder of LAS files",
+                        description="Find the wells, curve roles, depth units and datums in a "
+                                    "folder of LAS files (and survey, tops, core and pressure "
+                                    "files named so) and write a commented project file with "
+                                    "FILL IN placeholders for the FWL and fluids. An existing "
+                                    "project file is never replaced: the new one goes beside it.")
+    st.add_argument("folder", metavar="FOLDER", help="folder holding the LAS files")
+    st.add_argument("--out", metavar="FILE", default=None,
+                    help="project file to write (default: FOLDER/satheight_project.toml)")
+    st.add_argument("--json", action="store_true", help=JSON_HELP)
     return p
 
 
@@ -458,6 +469,13 @@ def main(argv=None) -> int:
             return _fwl(args, sys.stdout)
         if args.command == "pressures":
             return _pressures(args, sys.stdout)
+        if args.command == "start":
+            record = scan_record(*start_project(args.folder, args.out))
+            if args.json:
+                print_json("start", record)
+            else:
+                print("\n".join(scan_lines(record)))
+            return EXIT_OK
         from .pipeline import run_project
 
         if args.command == "demo":
