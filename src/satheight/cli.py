@@ -135,6 +135,7 @@ def _add_fit_parser(sub):
                         'e.g. "Upper Sand=26 mN/m,300 kg/m3"; without ROCK= for every rock type; '
                         "needed for reservoir Pc, the height axis and height functions")
     f.add_argument("--no-plots", action="store_true", help="skip the plots")
+    f.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _fit(args, out) -> int:
@@ -162,6 +163,13 @@ def _fit(args, out) -> int:
     if args.family:
         settings.families = tuple(args.family)
     run = run_fit(args.files, args.out, settings)
+    if args.json:  # the model file's content, the files written and the notes
+        import json
+
+        print_json("fit", {"model_file": run.model_path, "files": run.files, "notes": run.warnings,
+                           "models": json.loads(Path(run.model_path).read_text(encoding="utf-8"))},
+                   out)
+        return EXIT_OK
     print(fit_table(run.fits), file=out)
     for w in run.warnings:
         print(f"note: {w}", file=out)
@@ -210,6 +218,7 @@ def _add_contact_commands(sub):
     f.add_argument("--fit", action="append", default=[], metavar="PARAM:LOW:HIGH",
                    help="also fit this J-Sw parameter within bounds with the FWL; repeatable")
     f.add_argument("--no-plots", action="store_true", help="skip the misfit plots")
+    f.add_argument("--json", action="store_true", help=JSON_HELP)
 
     pr = sub.add_parser("pressures", help="fluid gradients, FWL and free-oil level from pressures",
                         description="Fit a pressure-depth line per fluid (least squares with "
@@ -227,6 +236,7 @@ def _add_contact_commands(sub):
     pr.add_argument("--use-poor", action="store_true", help="also fit points of quality poor")
     pr.add_argument("--no-logs", action="store_true", help="skip the FWL search from log Sw")
     pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
+    pr.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _parse_exclude(items):
@@ -273,6 +283,9 @@ def _fwl(args, out) -> int:
                   block_length=args.block, seed=args.seed, tolerance=args.tolerance,
                   shale_curve=args.shale_curve, max_shale=args.max_shale,
                   exclude=_parse_exclude(args.exclude), fit_parameters=_parse_fit(args.fit) or None)
+    if args.json:
+        print_json("fwl", rep, out)
+        return EXIT_OK
     u = rep["units"]
     print(f"project: {rep['project']}", file=out)
     for name, d in rep["zones"].items():
@@ -316,6 +329,9 @@ def _pressures(args, out) -> int:
     rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
                         zone=args.zone, units=args.units, qualities=quals,
                         with_logs=not args.no_logs, plot=not args.no_plots)
+    if args.json:
+        print_json("pressures", rep, out)
+        return EXIT_OK
     u = rep["units"]
     print(f"pressure file: {rep['file']}", file=out)
     for name, d in rep["zones"].items():
@@ -413,9 +429,7 @@ def _inspect(path: str, as_json: bool, out) -> int:
 
     info = describe_las(path)
     if as_json:
-        import json
-
-        print(json.dumps(info, indent=2, default=str), file=out)
+        print_json("inspect", info, out)
         return EXIT_OK
     _print_description(info, out)
     return EXIT_OK
