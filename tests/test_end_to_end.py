@@ -194,7 +194,7 @@ def test_missing_curve_message(tmp_path, capsys):
     (tmp_path / "w.las").write_text(LAS_NO_PERM)
     (tmp_path / "p.toml").write_text(PROJECT.format(las="w.las", fwl="979 m"))
     code = main(["run", str(tmp_path / "p.toml"), "--out", str(tmp_path / "o")])
-    text = capsys.readouterr().out
+    text = capsys.readouterr().err  # per-well failures go to stderr
     assert code == 3
     assert "permeability" in text and "PERM" in text and "PHIE" in text and "w.las" in text
 
