@@ -66,7 +66,7 @@ def test_report_lists_wells_failures_and_caution(tmp_path):
     path = write_report(_summary("W-1"), tmp_path, "Demo")
     assert path.name == REPORT_NAME
     page = path.read_text(encoding="utf-8")
-    assert "Results are estimates." in page
+    assert "qualified professional" in page and "regulations" in page
     assert "W-1" in page and "x.las: file not found" in page and ">failed<" in page
     assert "-0.010" in page
     assert not list(tmp_path.glob(".*"))  # no temporary file left behind

@@ -242,6 +242,14 @@ def _png_data_uri(path: Path) -> str | None:
     return "data:image/png;base64," + base64.b64encode(data).decode("ascii")
 
 
+def _caption(well: str, name: str) -> str:
+    """Caption of a well's figure from its file name ("W_tracks.png" -> "Track plot of W")."""
+    stem = Path(name).stem
+    if stem.endswith("_tracks"):
+        return f"Track plot of {well}"
+    return f"{well}: {stem.replace('_', ' ')}"
+
+
 def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str, list[dict]]]:
     """Embedded figures: (field-level, per well); figures that cannot be read are left out."""
     def fig(name, caption):
@@ -252,7 +260,7 @@ def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str,
     field += [fig(n, Path(n).stem.replace("_", " ")) for n in summary.get("figures", [])]
     per_well = {}
     for w in summary.get("wells", []):
-        per_well[w.get("name")] = [f for f in (fig(n, f"{w.get('name')}: {Path(n).stem}")
+        per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n))
                                                for n in w.get("files", [])
                                                if str(n).lower().endswith(".png")) if f]
     return [f for f in field if f], per_well
@@ -298,7 +306,7 @@ def report_context(summary: dict, title: str, out_dir=None, project: Project | N
     return {
         "title": title, "date": when, "version": summary.get("program") or f"satheight {__version__}",
         "project_path": summary.get("project", ""), "cautions": CAUTIONS,
-        "run_caution": summary.get("caution"), "print_hint": PRINT_HINT, "units": units,
+        "print_hint": PRINT_HINT, "units": units,
         "n_ok": sum(1 for w in wells if w.get("ok")), "n_wells": len(wells),
         "wells": [{**w, "name": w.get("name", ""), "error": w.get("error") or "",
                    "warnings": w.get("warnings") or [], "ok": bool(w.get("ok")),
