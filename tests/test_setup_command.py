@@ -99,6 +99,11 @@ def test_written_project_file_loads_and_runs_once_placeholders_are_filled(folder
     assert project.zones[1].hydrocarbon_density == pytest.approx(220.0)  # 0.22 g/cm3 = 220 kg/m3
     assert len(project.wells) == 5 and project.tops_file.name == "demo_tops.csv"
     assert main(["run", str(filled), "--no-plots", "--quiet", "--out", str(tmp_path / "o")]) == 0
+    # the run takes the datum the set-up reported from the header (EKB read here with lasio)
+    run = json.loads((tmp_path / "o" / "run_summary.json").read_text(encoding="utf-8"))
+    w1 = next(w for w in run["wells"] if w["name"] == "VANTREL-1")
+    ekb = float(lasio.read(folder / "VANTREL-1.las").well["EKB"].value)
+    assert w1["summary"]["datum_elevation"] == pytest.approx(ekb)
 
 
 def test_start_twice_never_overwrites_an_edited_project_file(folder, capsys):
@@ -132,3 +137,21 @@ def test_names_from_inputs_are_written_as_valid_toml(tmp_path, capsys):
     data = tomllib.loads(Path(rec["project_file"]).read_text(encoding="utf-8"))
     assert data["project"]["name"] == f.name
     assert data["wells"][0]["las"] == "VANTREL-1.las"
+
+
+def test_start_leaves_out_result_files_and_names_wells_apart(folder, capsys, tmp_path):
+    """A LAS file written by a run (it holds SW_SHM, HAFWL, SHM_FLAG) is not taken as a well;
+    two files with the same well name get distinct names."""
+    out = tmp_path / "o"
+    assert main(["run", str(DEMO / "demo_project.toml"), "--no-plots", "--quiet",
+                 "--out", str(out)]) == 0
+    capsys.readouterr()
+    shutil.copy(out / "VANTREL-1.las", folder / "VANTREL-1_results.las")
+    shutil.copy(folder / "VANTREL-2.las", folder / "VANTREL-2b.las")
+    rec = _start(capsys, folder)
+    names = [w["name"] for w in rec["wells"]]
+    assert "VANTREL-1_results" not in names and len(names) == 6
+    assert len(set(names)) == 6 and "VANTREL-2b" in names
+    assert any("VANTREL-1_results.las left out" in n for n in rec["notes"])
+    data = tomllib.loads(Path(rec["project_file"]).read_text(encoding="utf-8"))
+    assert [w.get("name") for w in data["wells"]].count("VANTREL-2b") == 1

@@ -54,6 +54,8 @@ class WellFound:
     reasons: dict[str, str]
     datum: str | None
     survey: Path | None = None
+    #: True when the project file must name the well (its LAS name is taken).
+    named: bool = False
 
 
 @dataclass
@@ -123,8 +125,15 @@ def _role_reasons(found: dict[str, str | None]) -> dict[str, str]:
     return reasons
 
 
-def _scan_las(path: Path) -> WellFound:
+#: Curves that satheight writes: a LAS file holding them is a result, not an input.
+OUTPUT_CURVES = {"SW_SHM", "HAFWL", "SHM_FLAG"}
+
+
+def _scan_las(path: Path) -> WellFound | None:
+    """What one LAS file holds; None for a LAS file written by satheight itself."""
     well = read_las(path)
+    if OUTPUT_CURVES <= {k.upper() for k in well.curves}:
+        return None
     found = detect_roles(well)
     md = well.curves[well.index_mnemonic].data
     return WellFound(las=path, name=_one_line(well.name) or path.stem,
@@ -152,9 +161,15 @@ def scan_folder(folder) -> FolderScan:
     for p in entries:
         if p.suffix.lower() == ".las":
             try:
-                scan.wells.append(_scan_las(p.resolve()))
+                found = _scan_las(p.resolve())
             except SatHeightError as exc:
                 scan.notes.append(f"{p.name} left out: {_one_line(exc)}")
+                continue
+            if found is None:
+                scan.notes.append(f"{p.name} left out: it holds satheight results "
+                                  f"({', '.join(sorted(OUTPUT_CURVES))})")
+            else:
+                scan.wells.append(found)
         elif p.suffix.lower() in (".csv", ".txt"):
             kind = _kind_of(p)
             if kind is None:
@@ -167,7 +182,19 @@ def scan_folder(folder) -> FolderScan:
                              hint="put the wells' LAS files (.las) in this folder")
     _match_surveys(scan)
     _zone_names(scan)
+    _distinct_names(scan)
     return scan
+
+
+def _distinct_names(scan: FolderScan) -> None:
+    """A well whose name another LAS file already has is named after its file."""
+    seen: set[str] = set()
+    for w in scan.wells:
+        if _key(w.name) in seen:
+            scan.notes.append(f"{w.las.name}: well name {w.name} already taken by another file; "
+                              f"named {w.las.stem} in the project file")
+            w.name, w.named = w.las.stem, True
+        seen.add(_key(w.name))
 
 
 def _match_surveys(scan: FolderScan) -> None:
@@ -209,6 +236,8 @@ def _rel(path: Path, base: Path) -> str:
 
 def _well_block(w: WellFound, base: Path) -> list[str]:
     lines = ["[[wells]]", f"las = {toml_string(_rel(w.las, base))}",
+             *([f"name = {toml_string(w.name)}   # the LAS file's well name is taken"]
+               if w.named else []),
              f"# well {_one_line(w.name)}; depths in {w.depth_unit}, {w.start:g} to {w.stop:g}"]
     for role in ROLE_ALIASES:
         mn = w.roles.get(role)
