@@ -206,7 +206,7 @@ def test_missing_curve_message(tmp_path, capsys):
     (tmp_path / "w.las").write_text(LAS_NO_PERM)
     (tmp_path / "p.toml").write_text(PROJECT.format(las="w.las", fwl="979 m"))
     code = main(["run", str(tmp_path / "p.toml"), "--out", str(tmp_path / "o")])
-    text = capsys.readouterr().out
+    text = capsys.readouterr().err  # per-well failures go to stderr
     # README (Bad input): a missing curve fails the well (exit code 3) naming the curve, the
     # aliases tried and the file
     assert code == 3

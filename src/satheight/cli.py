@@ -12,6 +12,7 @@ its control characters escaped (:func:`terminal_text`).
 from __future__ import annotations
 
 import argparse
+import json
 import os
 import re
 import sys
@@ -22,8 +23,10 @@ from . import __version__
 from .errors import InputFileError, SatHeightError
 from .workflows.contacts import parse_exclude, parse_fit_bounds, run_fwl, run_pressures
 from .workflows.fit import fit_table, run_fit, settings_from_options
-from .workflows.inspect import inspect_las
+from .workflows.inspect import inspect_las, las_description
 from .workflows.run import run_project
+from .workflows.console import print_json, progress_wanted
+from .workflows.setup import scan_lines, scan_record, start_project
 
 EXIT_OK = 0
 EXIT_INTERNAL = 1
@@ -31,6 +34,7 @@ EXIT_BAD_INPUT = 2
 EXIT_WELLS_FAILED = 3
 
 DEMO_OUT = "satheight-demo-out"
+JSON_HELP = "print the results as one JSON document on stdout (with schema_version)"
 
 
 def find_demo_project() -> Path:
@@ -85,6 +89,16 @@ def build_parser() -> argparse.ArgumentParser:
     i.add_argument("--json", action="store_true", help="print the listing as JSON")
     _add_fit_parser(sub)
     _add_contact_commands(sub)
+    st = sub.add_parser("start", help="write a commented project file from a folder of LAS files",
+                        description="Find the wells, curve roles, depth units and datums in a "
+                                    "folder of LAS files (and survey, tops, core and pressure "
+                                    "files named so) and write a commented project file with "
+                                    "FILL IN placeholders for the FWL and fluids. An existing "
+                                    "project file is never replaced: the new one goes beside it.")
+    st.add_argument("folder", metavar="FOLDER", help="folder holding the LAS files")
+    st.add_argument("--out", metavar="FILE", default=None,
+                    help="project file to write (default: FOLDER/satheight_project.toml)")
+    st.add_argument("--json", action="store_true", help=JSON_HELP)
     return p
 
 
@@ -131,6 +145,7 @@ def _add_fit_parser(sub):
                         "needed for reservoir Pc, the height axis and height functions")
     f.add_argument("--no-plots", action="store_true", help="skip the plots")
     _overwrite_option(f)
+    f.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _fit(args, out) -> int:
@@ -140,6 +155,11 @@ def _fit(args, out) -> int:
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
         reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots)
     run = run_fit(args.files, args.out, settings, overwrite=args.overwrite)
+    if args.json:  # the model file's content, the files written and the notes
+        print_json("fit", {"model_file": run.model_path, "files": run.files, "notes": run.warnings,
+                           "models": json.loads(Path(run.model_path).read_text(encoding="utf-8"))},
+                   out)
+        return EXIT_OK
     _say(out, fit_table(run.fits))
     for w in run.warnings:
         _say(out, f"note: {w}")
@@ -189,6 +209,7 @@ def _add_contact_commands(sub):
                    help="also fit this J-Sw parameter within bounds with the FWL; repeatable")
     f.add_argument("--no-plots", action="store_true", help="skip the misfit plots")
     _overwrite_option(f)
+    f.add_argument("--json", action="store_true", help=JSON_HELP)
 
     pr = sub.add_parser("pressures", help="fluid gradients, FWL and free-oil level from pressures",
                         description="Fit a pressure-depth line per fluid (least squares with "
@@ -207,6 +228,7 @@ def _add_contact_commands(sub):
     pr.add_argument("--no-logs", action="store_true", help="skip the FWL search from log Sw")
     pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
     _overwrite_option(pr)
+    pr.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _fwl(args, out) -> int:
@@ -218,6 +240,9 @@ def _fwl(args, out) -> int:
                   shale_curve=args.shale_curve, max_shale=args.max_shale,
                   exclude=parse_exclude(args.exclude),
                   fit_parameters=parse_fit_bounds(args.fit) or None)
+    if args.json:
+        print_json("fwl", rep, out)
+        return EXIT_OK
     u = rep["units"]
     _say(out, f"project: {rep['project']}")
     for name, d in rep["zones"].items():
@@ -260,6 +285,9 @@ def _pressures(args, out) -> int:
                         zone=args.zone, units=args.units, qualities=quals,
                         with_logs=not args.no_logs, plot=not args.no_plots,
                         overwrite=args.overwrite)
+    if args.json:
+        print_json("pressures", rep, out)
+        return EXIT_OK
     u = rep["units"]
     _say(out, f"pressure file: {rep['file']}")
     for name, d in rep["zones"].items():
@@ -307,6 +335,9 @@ def _common_run_options(sp):
     _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
+    sp.add_argument("--quiet", action="store_true",
+                    help="no progress on stderr (it is shown only on a terminal anyway)")
+    sp.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _overwrite_option(sp) -> None:
@@ -371,13 +402,13 @@ def _print_run(report, out) -> int:
             for f in w.files:
                 _say(out, f"    {f}")
             for m in w.warnings:
-                _say(out, f"    note: {m}")
+                _say(sys.stderr, f"    note ({w.name}): {m}")  # warnings on stderr
         else:
-            _say(out, f"  {w.name}: FAILED: {w.error}")
+            _say(sys.stderr, f"  {w.name}: FAILED: {w.error}")  # failures on stderr
     if report.section_file is not None:
         _say(out, f"field section: {report.section_file}")
     for note in report.notes:
-        _say(out, f"note: {note}")
+        _say(sys.stderr, f"note: {note}")  # warnings on stderr
     _say(out, f"run summary: {report.summary_file}")
     _say(out, f"report: {report.out_dir / 'report.html'}")
     _say(out, "Caution: results are estimates for review by a qualified professional; local "
@@ -386,7 +417,10 @@ def _print_run(report, out) -> int:
 
 
 def _inspect(path: str, as_json: bool, out) -> int:
-    _say(out, inspect_las(path, as_json))
+    if as_json:
+        print_json("inspect", las_description(path), out)
+        return EXIT_OK
+    _say(out, inspect_las(path))
     return EXIT_OK
 
 
@@ -427,6 +461,13 @@ def _dispatch(args) -> int:
         return _fwl(args, sys.stdout)
     if args.command == "pressures":
         return _pressures(args, sys.stdout)
+    if args.command == "start":
+        record = scan_record(*start_project(args.folder, args.out))
+        if args.json:
+            print_json("start", record)
+        else:
+            _say(sys.stdout, "\n".join(scan_lines(record)))
+        return EXIT_OK
     if args.command == "demo":
         project = find_demo_project()
         out = args.out
@@ -435,7 +476,11 @@ def _dispatch(args) -> int:
         out = args.out or f"{project.stem}_results"
     report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
                          depth_axis=args.depth_axis, workers=args.workers,
-                         keep_results=False, overwrite=args.overwrite)
+                         keep_results=False, overwrite=args.overwrite,
+                         progress=progress_wanted(sys.stderr, args.quiet))
+    if args.json:
+        print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
+        return EXIT_WELLS_FAILED if report.failed else EXIT_OK
     return _print_run(report, sys.stdout)
 
 

@@ -10,14 +10,16 @@ from .output_folder import check_input_file
 __all__ = ["inspect_las", "description_text"]
 
 
-def inspect_las(path, as_json: bool = False) -> str:
-    """The listing of a LAS file as text: a table, or JSON with ``as_json``.
-
-    See :func:`satheight.io.las.describe_las` for what is listed. The path is checked
-    first: a FIFO, a device or a symbolic-link loop is refused before it is opened.
-    """
+def las_description(path) -> dict:
+    """:func:`satheight.io.las.describe_las` of a LAS file whose path was checked first:
+    a FIFO, a device or a symbolic-link loop is refused before it is opened."""
     check_input_file(path, "LAS file")
-    info = describe_las(path)
+    return describe_las(path)
+
+
+def inspect_las(path, as_json: bool = False) -> str:
+    """The listing of a LAS file as text: a table, or JSON with ``as_json``."""
+    info = las_description(path)
     if as_json:
         return json.dumps(info, indent=2, default=str)
     return description_text(info)

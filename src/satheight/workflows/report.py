@@ -1,145 +1,346 @@
-"""HTML report of a project run: one self-contained page beside the other outputs.
+"""HTML report of a project run: one self-contained page that can be mailed or printed.
 
-The page summarises every well and zone (SHM versus log Sw, hydrocarbon pore
-thickness, flagged samples, FWL, function), shows the track plots and the field
-section (linked files in the same folder), lists notes and failures, and carries
-the caution. All text that comes from input files (well, zone and file names,
-messages) is HTML-escaped; nothing from an input is ever written as markup.
+The page is built from a jinja2 template with autoescaping, so every text that
+comes from an input file (well, zone and file names, messages) is escaped and
+nothing from an input ever becomes markup. Every figure is embedded as a
+base64 data URI: the page needs no file beside it. It carries the run date and
+tool version, the inputs with their SHA-256 checksums, the project parameters in
+the project's units, one table per zone (model, FWL and its source, SHM versus log
+Sw statistics, hydrocarbon pore thickness from SHM and from logs), the plots, the
+notes and warnings, and the cautions.
+
+PDF: the page has a print style sheet (A4, figures kept whole); a browser's Print,
+then "Save as PDF", gives the PDF. No PDF is written by the tool itself: the
+pure-Python HTML-to-PDF libraries support only part of CSS and would need a
+second layout, and the well-kept full renderers need system libraries or a browser.
 """
 
 from __future__ import annotations
 
-import html
+import base64
+import datetime as _dt
+import hashlib
+import json
 from pathlib import Path
 
+import jinja2
+
+from .. import __version__
+from .. import units as U
 from ..io.atomic import atomic_write_text
+from ..project.types import Project
 
 #: File name of the report in the output folder.
 REPORT_NAME = "report.html"
 
-_STYLE = """
-body { font-family: sans-serif; margin: 1.5em 2em; color: #1b1b1b; max-width: 75em; }
-h1 { font-size: 1.5em; } h2 { font-size: 1.2em; margin-top: 1.6em; } h3 { font-size: 1.05em; }
-table { border-collapse: collapse; margin: 0.5em 0 1em 0; font-size: 0.92em; }
-th, td { border: 1px solid #c8c8c8; padding: 0.25em 0.6em; text-align: right; }
-th { background: #eef2f6; } td.text, th.text { text-align: left; }
-.caution { border-left: 4px solid #d55e00; background: #fff6ef; padding: 0.6em 1em; }
-.failed { color: #a3000b; } .note { color: #555; font-size: 0.92em; }
-img { max-width: 100%; border: 1px solid #ddd; margin: 0.4em 0; }
-"""
+#: Cautions printed on every report.
+CAUTIONS = (
+    "Results are estimates for review by a qualified professional.",
+    "Local regulations and reserves-reporting rules govern their use.",
+    "The saturation-height model is only as good as its free-water levels, fluid properties and "
+    "capillary-pressure data: check each against the sources listed in this report.",
+)
+
+#: How to make a PDF of the page (said on the page and in the README).
+PRINT_HINT = ("To print or save as PDF: open this file in a web browser, choose Print "
+              "(Ctrl+P, or Cmd+P on a Mac) and pick \"Save as PDF\" as the printer. The page is "
+              "laid out for A4 paper; figures are not split across pages.")
+
+#: Readable words for where the log Sw came from (the run summary keeps short codes).
+_SW_SOURCES = {"archie": "Archie equation from the resistivity curve",
+               "none": "none (no Sw curve and no resistivity with Rw)"}
+
+_ENV = jinja2.Environment(loader=jinja2.PackageLoader("satheight", "templates"),
+                          autoescape=True, undefined=jinja2.StrictUndefined,
+                          trim_blocks=True, lstrip_blocks=True)
 
 
-def _e(value) -> str:
-    """Escaped text of any value (None as an empty cell)."""
-    return "" if value is None else html.escape(str(value), quote=True)
+def sw_source_text(code: str | None) -> str:
+    """Readable description of a log-Sw source code (``"curve:SW"`` -> the curve's name)."""
+    if not code:
+        return ""
+    if code.startswith("curve:"):
+        return f"Sw curve {code[len('curve:'):]} of the LAS file"
+    return _SW_SOURCES.get(code, code)
 
 
-def _num(value, fmt: str = ".3f") -> str:
-    if value is None:
+def _num(value, decimals: int = 3, sign: bool = False) -> str:
+    """A number as the page shows it (empty for None or not a number)."""
+    if value is None or isinstance(value, bool):
         return ""
     try:
-        return format(float(value), fmt)
+        v = float(value)
     except (TypeError, ValueError):
-        return _e(value)
+        return str(value)
+    if v != v:  # NaN
+        return ""
+    return format(v, f"{'+' if sign else ''}.{decimals}f")
 
 
-def _link(name: str) -> str:
-    """A relative link to an output file (file names are ours, still escaped)."""
-    return html.escape(Path(name).name, quote=True)
+def _sig(value) -> str:
+    """A parameter value with 4 significant digits."""
+    try:
+        return format(float(value), ".4g")
+    except (TypeError, ValueError):
+        return str(value)
 
 
-def _zone_rows(summary: dict) -> list[str]:
+_ENV.filters["num"] = _num
+_ENV.filters["sig"] = _sig
+
+
+# --------------------------------------------------------------------------------------
+# inputs and their checksums
+
+def file_sha256(path: Path) -> str | None:
+    """SHA-256 of a file's bytes, or None if it cannot be read."""
+    h = hashlib.sha256()
+    try:
+        with open(path, "rb") as fh:
+            for block in iter(lambda: fh.read(1 << 20), b""):
+                h.update(block)
+    except OSError:
+        return None
+    return h.hexdigest()
+
+
+def _model_core_files(model_file: Path) -> list[dict]:
+    """Core-data files named in a model file's provenance, with the checksums it recorded."""
+    try:
+        data = json.loads(Path(model_file).read_text(encoding="utf-8"))
+        files = data["provenance"]["files"]
+    except (OSError, ValueError, KeyError, TypeError):
+        return []
+    if not isinstance(files, dict):
+        return []
+    return [{"kind": "core data (recorded in the model file)",
+             "path": str(Path(model_file).parent / str(name)), "sha256": str(sha)}
+            for name, sha in files.items()]
+
+
+def input_files(project: Project) -> list[dict]:
+    """Every file a run of ``project`` reads, once each, with its SHA-256 checksum.
+
+    Kinds: project file, LAS, survey, tops, model file, and the core-data files a
+    model file was fitted to (their checksums as the model file recorded them).
+    """
+    rows: list[dict] = []
+    seen: set[tuple[str, str]] = set()
+
+    def add(kind: str, path) -> None:
+        p = Path(path).resolve()
+        if (kind, str(p)) not in seen:
+            seen.add((kind, str(p)))
+            rows.append({"kind": kind, "path": str(p), "sha256": file_sha256(p)})
+
+    add("project file", project.path)
+    for spec in project.wells:
+        add("LAS", spec.las)
+        if spec.survey is not None:
+            add("survey", spec.survey)
+    if project.tops_file is not None:
+        add("tops", project.tops_file)
+    models = []
+    for z in project.zones:
+        if z.function.file is not None and Path(z.function.file).resolve() not in models:
+            models.append(Path(z.function.file).resolve())
+            add("model file", z.function.file)
+    for m in models:
+        for row in _model_core_files(m):
+            if ("core", row["path"]) not in seen:
+                seen.add(("core", row["path"]))
+                rows.append(row)
+    return rows
+
+
+def _inputs_rows(summary: dict, project: Project | None) -> list[dict]:
+    """Input rows of the page: the summary's list, else from the project, else the LAS record."""
+    rec = summary.get("inputs") or {}
+    if isinstance(rec.get("files"), list):
+        return rec["files"]
+    if project is not None:
+        return input_files(project)
     rows = []
-    thick = _e(summary.get("units", {}).get("thickness", "m"))
-    for zname, z in (summary.get("zones") or {}).items():
-        params = ", ".join(f"{_e(k)} {_num(v, '.4g')}" for k, v in (z.get("parameters") or {}).items())
-        rows.append(
-            "<tr>"
-            f"<td class='text'>{_e(zname)}</td><td class='text'>{_e(z.get('hydrocarbon'))}</td>"
-            f"<td>{_num(z.get('fwl_tvdss'), '.2f')}</td>"
-            f"<td class='text'>{_e(z.get('function'))}: {params}</td>"
-            f"<td>{_e(z.get('samples'))}</td><td>{_e(z.get('samples_net'))}</td>"
-            f"<td>{_e(z.get('samples_flagged'))}</td><td>{_e(z.get('samples_compared'))}</td>"
-            f"<td>{_num(z.get('mean_difference'), '+.3f')}</td><td>{_num(z.get('rms_difference'))}</td>"
-            f"<td>{_num(z.get('hcpt_shm'), '.2f')}</td><td>{_num(z.get('hcpt_log'), '.2f')}</td>"
-            f"<td>{_num(z.get('net_vertical_thickness'), '.1f')}</td>"
-            "</tr>")
-    header = ("<tr><th class='text'>Zone</th><th class='text'>Fluid</th>"
-              f"<th>FWL TVDSS [{thick}]</th><th class='text'>J–Sw function</th><th>Samples</th>"
-              "<th>Net</th><th>Flagged</th><th>Compared</th><th>Mean SHM − log Sw</th>"
-              f"<th>RMS</th><th>HCPT SHM [{thick}]</th><th>HCPT log [{thick}]</th>"
-              f"<th>Net thickness [{thick}]</th></tr>")
-    return [header] + rows
+    if rec.get("project_file"):
+        rows.append({"kind": "project file", **rec["project_file"]})
+    rows += [{"kind": "LAS", "path": w.get("las"), "sha256": w.get("sha256")}
+             for w in rec.get("wells", [])]
+    return rows
 
 
-def render(run_summary: dict, title: str) -> str:
+# --------------------------------------------------------------------------------------
+# project parameters in the project's units
+
+def _q(value, kind: str, system: str, decimals: int | None = None) -> str:
+    """An SI value shown in the unit system's unit of ``kind`` ("2105.00 m")."""
+    if value is None:
+        return ""
+    unit = U.UNIT_SYSTEMS[system][kind]
+    v = float(U.from_si(value, unit, kind))
+    text = _sig(v) if decimals is None else format(v, f".{decimals}f")
+    return f"{text} {unit}"
+
+
+def _zone_parameters(z, system: str) -> list[tuple[str, str]]:
+    f = z.function
+    rows = [("Top TVDSS", _q(z.top, "length", system, 2) if z.top is not None else "per well"),
+            ("Base TVDSS", _q(z.base, "length", system, 2) if z.base is not None else "per well"),
+            ("FWL TVDSS", _q(z.fwl, "length", system, 2)),
+            ("Hydrocarbon", z.hydrocarbon),
+            ("Water density", _q(z.water_density, "density", system)),
+            ("Hydrocarbon density", _q(z.hydrocarbon_density, "density", system)),
+            ("σ·cosθ (reservoir)", _q(z.sigma_cos_theta, "tension", system))]
+    if z.gas_oil_level is not None:
+        rows += [("Gas-oil level TVDSS", _q(z.gas_oil_level, "length", system, 2)),
+                 ("Gas density", _q(z.gas_density, "density", system)),
+                 ("Gas σ·cosθ", _q(z.gas_sigma_cos_theta, "tension", system))]
+    rows.append(("J–Sw function", f.family + ": " + ", ".join(
+        f"{k} = {_sig(v)}" for k, v in f.params.items())))
+    if f.j_range is not None:
+        rows.append(("J range of calibration", f"{_sig(f.j_range[0])} to {_sig(f.j_range[1])}"))
+    if f.file is not None:
+        rows.append(("Model file", Path(f.file).name
+                     + (f", rock type {f.rock_type}" if f.rock_type else "")))
+    if f.by_rock_type:
+        rows.append(("Rock types", ", ".join(str(k) for k in f.by_rock_type)))
+    return rows
+
+
+def project_parameters(project: Project) -> dict:
+    """The project's parameters as (label, text) rows, values in the project's units."""
+    system = project.unit_system
+    ls, cmp_ = project.log_sw, project.comparison
+    general = [("Project file", Path(project.path).name), ("Unit system", system),
+               ("Log Sw method", ls.method),
+               ("Archie a, m, n", f"{_sig(ls.a)}, {_sig(ls.m)}, {_sig(ls.n)}"),
+               ("Rw at formation temperature", "" if ls.rw is None else f"{_sig(ls.rw)} ohm.m"),
+               ("Net-reservoir porosity cutoff", f"{_sig(cmp_.min_porosity)} (fraction)"),
+               ("Net-reservoir permeability cutoff",
+                f"{_sig(U.from_si(cmp_.min_permeability, 'mD', 'permeability'))} mD")]
+    wells = []
+    for spec in project.wells:
+        wells.append({"name": spec.name or spec.las.stem, "las": spec.las.name,
+                      "datum": ("from the LAS header" if spec.datum_elevation is None
+                                else _q(spec.datum_elevation, "length", system, 2)),
+                      "survey": spec.survey.name if spec.survey is not None else "vertical",
+                      "curves": ", ".join(f"{r} = {m}" for r, m in spec.curves.items())})
+    zones = [{"name": z.name, "rows": _zone_parameters(z, system)} for z in project.zones]
+    return {"general": general, "wells": wells, "zones": zones}
+
+
+# --------------------------------------------------------------------------------------
+# figures and the page
+
+def _png_data_uri(path: Path) -> str | None:
+    """A PNG file as a ``data:`` URI, or None if it cannot be read or is no PNG."""
+    try:
+        data = Path(path).read_bytes()
+    except OSError:
+        return None
+    if not data.startswith(b"\x89PNG\r\n\x1a\n"):
+        return None
+    return "data:image/png;base64," + base64.b64encode(data).decode("ascii")
+
+
+def _caption(well: str, name: str) -> str:
+    """Caption of a well's figure from its file name ("W_tracks.png" -> "Track plot of W")."""
+    stem = Path(name).stem
+    if stem.endswith("_tracks"):
+        return f"Track plot of {well}"
+    return f"{well}: {stem.replace('_', ' ')}"
+
+
+def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str, list[dict]]]:
+    """Embedded figures: (field-level, per well); figures that cannot be read are left out."""
+    def fig(name, caption):
+        uri = _png_data_uri(out_dir / Path(name).name) if out_dir is not None else None
+        return {"src": uri, "caption": caption, "file": Path(name).name} if uri else None
+
+    field = [fig(n, "Field section, TVDSS") for n in [summary.get("field_section")] if n]
+    field += [fig(n, Path(n).stem.replace("_", " ")) for n in summary.get("figures", [])]
+    per_well = {}
+    for w in summary.get("wells", []):
+        per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n))
+                                               for n in w.get("files", [])
+                                               if str(n).lower().endswith(".png")) if f]
+    return [f for f in field if f], per_well
+
+
+def _units(u: dict | None) -> dict:
+    """Thickness and depth unit names of a summary (metres when it names none)."""
+    u = u or {}
+    thick = u.get("thickness") or u.get("depth") or "m"
+    return {"thickness": thick, "depth": u.get("depth") or thick}
+
+
+def _zone_tables(summary: dict) -> list[dict]:
+    """One table per zone: a row per computed well that holds the zone."""
+    zones: dict[str, dict] = {}
+    for w in summary.get("wells", []):
+        s = w.get("summary") or {}
+        for zname, z in (s.get("zones") or {}).items():
+            t = zones.setdefault(zname, {"name": zname, "rows": [], "models": [],
+                                         "units": _units(s.get("units"))})
+            model = z.get("function", "") + ": " + ", ".join(
+                f"{k} = {_sig(v)}" for k, v in (z.get("parameters") or {}).items())
+            if model not in t["models"]:
+                t["models"].append(model)
+            contact = z.get("contact") or {}
+            t["rows"].append({**z, "well": w.get("name"), "fluid": z.get("hydrocarbon", ""),
+                              "fwl": z.get("fwl_tvdss"),
+                              "fwl_source": z.get("fwl_source") or "project file",
+                              "contact": contact.get("contact_tvdss"),
+                              "contact_kind": contact.get("contact_kind", "")})
+    return list(zones.values())
+
+
+def report_context(summary: dict, title: str, out_dir=None, project: Project | None = None,
+                   now: _dt.datetime | None = None) -> dict:
+    """Everything the template shows, as plain values (numbers still numbers)."""
+    out_dir = Path(out_dir) if out_dir is not None else None
+    wells = summary.get("wells", [])
+    field_figs, well_figs = _figures(summary, out_dir)
+    when = (now or _dt.datetime.now(_dt.timezone.utc)).strftime("%Y-%m-%d %H:%M UTC")
+    units = _units(next(((w.get("summary") or {}).get("units") for w in wells
+                         if w.get("summary")), None))
+    return {
+        "title": title, "date": when, "version": summary.get("program") or f"satheight {__version__}",
+        "project_path": summary.get("project", ""), "cautions": CAUTIONS,
+        "print_hint": PRINT_HINT, "units": units,
+        "n_ok": sum(1 for w in wells if w.get("ok")), "n_wells": len(wells),
+        "wells": [{**w, "name": w.get("name", ""), "error": w.get("error") or "",
+                   "warnings": w.get("warnings") or [], "ok": bool(w.get("ok")),
+                   "sw_source": sw_source_text((w.get("summary") or {}).get("sw_log_source")),
+                   "whole": (w.get("summary") or {}).get("whole_well") or {},
+                   "figures": well_figs.get(w.get("name"), [])} for w in wells],
+        "inputs": _inputs_rows(summary, project),
+        "parameters": project_parameters(project) if project is not None else None,
+        "zones": _zone_tables(summary), "field_figures": field_figs,
+        "notes": list(summary.get("notes", [])),
+    }
+
+
+def render(run_summary: dict, title: str, out_dir=None, project: Project | None = None,
+           now: _dt.datetime | None = None) -> str:
     """The report page as text, from the content of ``run_summary.json``.
 
     Parameters
     ----------
     run_summary : dict
-        What :func:`satheight.pipeline.run_project` writes to ``run_summary.json``.
+        What the run writes to ``run_summary.json``.
     title : str
-        Page title (the project name; escaped here).
+        Page title (the project name; escaped by the template).
+    out_dir : path, optional
+        Folder of the run's figures (PNG files named in the summary), embedded in the page.
+    project : Project, optional
+        The project, for its parameters (in its own units) and the input files.
     """
-    wells = run_summary.get("wells", [])
-    parts = ["<!DOCTYPE html>", "<html lang='en'><head><meta charset='utf-8'>",
-             f"<title>{_e(title)}: saturation-height results</title>",
-             f"<style>{_STYLE}</style></head><body>",
-             f"<h1>{_e(title)}: saturation-height results</h1>",
-             f"<p class='caution'><b>Caution.</b> {_e(run_summary.get('caution'))}</p>",
-             f"<p class='note'>{_e(run_summary.get('program'))}; project file "
-             f"{_e(run_summary.get('project'))}</p>"]
-    n_ok = sum(1 for w in wells if w.get("ok"))
-    parts.append(f"<p>{n_ok} of {len(wells)} wells computed.</p>")
-    thick = next((_e((w.get("summary") or {}).get("units", {}).get("thickness"))
-                  for w in wells if w.get("summary")), "m")
-    parts.append("<table><tr><th class='text'>Well</th><th class='text'>Log Sw from</th>"
-                 "<th>Mean SHM − log Sw</th><th>RMS</th>"
-                 f"<th>HCPT SHM [{thick}]</th><th>HCPT log [{thick}]</th>"
-                 "<th class='text'>Files</th></tr>")
-    for w in wells:
-        s = w.get("summary") or {}
-        whole = s.get("whole_well", {})
-        files = " ".join(f"<a href='{_link(f)}'>{_e(Path(f).suffix.lstrip('.') or f)}</a>"
-                         for f in w.get("files", []))
-        if w.get("ok"):
-            parts.append(f"<tr><td class='text'><a href='#well-{_e(w['name'])}'>{_e(w['name'])}</a></td>"
-                         f"<td class='text'>{_e(s.get('sw_log_source'))}</td>"
-                         f"<td>{_num(whole.get('mean_difference'), '+.3f')}</td>"
-                         f"<td>{_num(whole.get('rms_difference'))}</td>"
-                         f"<td>{_num(whole.get('hcpt_shm'), '.2f')}</td>"
-                         f"<td>{_num(whole.get('hcpt_log'), '.2f')}</td>"
-                         f"<td class='text'>{files}</td></tr>")
-        else:
-            parts.append(f"<tr><td class='text failed'>{_e(w.get('name'))}</td>"
-                         f"<td class='text failed' colspan='6'>failed: {_e(w.get('error'))}</td></tr>")
-    parts.append("</table>")
-    if run_summary.get("field_section"):
-        name = _link(run_summary["field_section"])
-        parts += ["<h2>Field section</h2>", f"<img src='{name}' alt='field section'>"]
-    for w in wells:
-        if not w.get("ok"):
-            continue
-        s = w.get("summary") or {}
-        parts.append(f"<h2 id='well-{_e(w['name'])}'>{_e(w['name'])}</h2>")
-        parts.append("<table>" + "".join(_zone_rows(s)) + "</table>")
-        for f in w.get("files", []):
-            if f.endswith(".png"):
-                parts.append(f"<img src='{_link(f)}' alt='track plot of {_e(w['name'])}'>")
-        for m in w.get("warnings", []):
-            parts.append(f"<p class='note'>note: {_e(m)}</p>")
-    for m in run_summary.get("notes", []):
-        parts.append(f"<p class='note'>note: {_e(m)}</p>")
-    parts.append("<p class='note'>Mean and RMS: SHM Sw minus log Sw over net samples (fraction). "
-                 "HCPT: hydrocarbon pore thickness, the sum of φ(1 − Sw)·Δh over the same "
-                 "samples (Δh true vertical thickness).</p>")
-    parts.append("</body></html>")
-    return "\n".join(parts) + "\n"
+    return _ENV.get_template("report.html.j2").render(
+        **report_context(run_summary, title, out_dir, project, now))
 
 
-def write_report(run_summary: dict, out_dir, title: str) -> Path:
+def write_report(run_summary: dict, out_dir, title: str, project: Project | None = None) -> Path:
     """Write ``report.html`` into ``out_dir`` atomically; return its path."""
     path = Path(out_dir) / REPORT_NAME
-    atomic_write_text(path, render(run_summary, title))
+    atomic_write_text(path, render(run_summary, title, out_dir, project))
     return path

@@ -29,7 +29,8 @@ from .output_folder import WORK_PREFIX, InputFiles, OutputSession
 from .outputs import (CAUTION, check_wells, input_record, open_project, project_inputs,
                       reserved_stem, safe_name, write_outputs)
 from .field_tables import write_field_tables
-from .report import write_report
+from .console import SCHEMA_VERSION, Progress
+from .report import input_files, write_report
 from .well import compute_well
 
 
@@ -69,7 +70,8 @@ class RunReport:
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "md", workers: int = 1,
-                keep_results: bool = True, overwrite: bool = False) -> RunReport:
+                keep_results: bool = True, overwrite: bool = False,
+                progress: bool = False) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -97,6 +99,9 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         the failures reported and ``run_summary.json`` are those of a run with one
         worker. The wells' arrays then stay in the workers: ``WellOutcome.result``
         is None and ``WellOutcome.summary`` holds the summary.
+    progress : bool
+        Draw wells done / total, the current well and the time left on stderr
+        (:class:`satheight.workflows.console.Progress`; the caller decides, e.g. only on a terminal).
     """
     if isinstance(workers, bool) or not isinstance(workers, int) or workers < 1:
         raise SatHeightError(f"workers must be a whole number >= 1, got {workers!r}",
@@ -108,8 +113,12 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     out_dir = Path(out_dir)
     with OutputSession(out_dir, "run", overwrite, inputs) as session:
         work = session.work
-        outcomes, locations = _run_wells(project, work, pdf, plot, workers, depth_axis,
-                                         keep_results)
+        bar = Progress(len(project.wells), enabled=progress)  # progress on stderr
+        try:
+            outcomes, locations = _run_wells(project, work, pdf, plot, workers, depth_axis,
+                                             keep_results, bar)
+        finally:
+            bar.close()
         notes: list[str] = []
         section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
         unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
@@ -133,16 +142,19 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
 
 
 def _run_wells(project: Project, out_dir: Path, pdf: bool, plot: bool, workers: int,
-               depth_axis: str, keep_results: bool) -> tuple[list[WellOutcome], dict]:
+               depth_axis: str, keep_results: bool,
+               bar: Progress) -> tuple[list[WellOutcome], dict]:
     """Every well's outcome in project order, and the map location of each computed well."""
     if workers > 1 and len(project.wells) > 1:
-        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis)
+        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis, bar)
         locations = {o.name: spec.location for spec, o in zip(project.wells, outcomes) if o.ok}
         return outcomes, locations
     outcomes, locations = [], {}
     names_seen: set[str] = set()
     for spec in project.wells:
+        bar.start(spec.name or spec.las.stem)
         outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen)
+        bar.done(outcome.name, outcome.ok, outcome.error)
         if outcome.ok:
             locations[outcome.name] = spec.location
             if not keep_results:
@@ -175,6 +187,7 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
                    tables: list[Path]) -> tuple[Path, Path]:
     """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
+        "schema_version": SCHEMA_VERSION,
         "program": f"satheight {__version__}",
         "project": str(project.path),
         "caution": CAUTION,
@@ -189,7 +202,8 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
         summary["notes"] = notes
     summary["inputs"] = input_record(project, inputs)
     summary["tables"] = [p.name for p in tables]          # field_summary.*, all_wells.*
-    report = write_report(summary, out_dir, project.name)
+    summary["inputs"]["files"] = input_files(project)      # every input and its checksum
+    report = write_report(summary, out_dir, project.name, project)
     summary["report"] = report.name
     summary_path = out_dir / "run_summary.json"
     atomic_write_text(summary_path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
@@ -294,7 +308,8 @@ def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot:
 
 
 def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
-                        workers: int, depth_axis: str = "md") -> list[WellOutcome]:
+                        workers: int, depth_axis: str = "md",
+                        bar: Progress | None = None) -> list[WellOutcome]:
     """Run the wells in ``workers`` processes; place their files in project order."""
     work = out_dir / f".satheight-work-{uuid.uuid4().hex[:12]}"
     outcomes: list[WellOutcome] = []
@@ -305,6 +320,8 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
                 outcome, safe = fut.result()
+                if bar is not None:
+                    bar.done(outcome.name, outcome.ok, outcome.error)
                 safe = None if safe is None else safe.casefold()
                 if safe is not None and safe in names_seen:
                     if outcome.ok:
