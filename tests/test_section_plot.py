@@ -10,6 +10,7 @@ import pytest
 
 from satheight.errors import DepthError, UnitError
 from satheight.plots import section_plot, section_positions
+from satheight.workflows.figures import save_figure
 
 # PNG signature: PNG specification (ISO/IEC 15948:2004, section 5.2)
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
@@ -61,8 +62,8 @@ def test_section_plot_writes_png(tmp_path):
     z = np.linspace(1000, 1100, 101)
     wells = [well("A", z, zones=[zone]),
              well("B", z, north=np.linspace(0, 200, 101), east=np.zeros(101), zones=[zone])]
-    out = section_plot(wells, tmp_path / "s.png", units="field",
-                       locations={"A": (0.0, 0.0), "B": (0.0, 1000.0)})
+    fig = section_plot(wells, units="field", locations={"A": (0.0, 0.0), "B": (0.0, 1000.0)})
+    out = save_figure(fig, tmp_path / "s.png")
     assert out == [tmp_path / "s.png"]
     assert (tmp_path / "s.png").read_bytes()[:8] == PNG_SIGNATURE
     assert [p.name for p in tmp_path.iterdir()] == ["s.png"]   # no temp files left
@@ -70,6 +71,6 @@ def test_section_plot_writes_png(tmp_path):
 
 def test_section_plot_errors(tmp_path):
     with pytest.raises(DepthError):
-        section_plot([], tmp_path / "s.png")
+        section_plot([])
     with pytest.raises(UnitError):
-        section_plot([well("A", [1.0, 2.0])], tmp_path / "s.png", units="imperial")
+        section_plot([well("A", [1.0, 2.0])], units="imperial")

@@ -8,15 +8,13 @@ across every track, each zone's FWL is drawn as a line, and flagged samples are
 marked in the saturation track.
 
 Figures are built on :class:`matplotlib.figure.Figure` with the Agg canvas, so no
-global matplotlib state (pyplot, backend choice) is touched. Files are written to
-a temporary file in the target folder and renamed into place.
+global matplotlib state (pyplot, backend choice) is touched. The figure is
+returned; writing it is the caller's job.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-from pathlib import Path
-from typing import Callable
+from dataclasses import dataclass, field
 
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -25,51 +23,28 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
 from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter
 
-from . import constants as C
-from .errors import DepthError, InputFileError, SatHeightError, UnitError
-from .io.atomic import atomic_save_figure
-from .results import FLAG_NO_ZONE, WellResult
-from .units import UNIT_SYSTEMS, factor
+from .. import constants as C
+from ..errors import DepthError, SatHeightError, UnitError
+from ..results import FLAG_NO_ZONE, WellResult
+from ..units import UNIT_SYSTEMS, factor
+from .style import (BLACK, BLUE, DPI, GREEN, GREY, GRID, LIGHT_GREY, ORANGE, PURPLE, SKY,
+                    VERMILLION, YELLOW)
+from .depths import level_crossings, mapping, monotone_pairs, zone_intervals
+from .text import hydrocarbon_label, log_sw_label, safe_text, unit_label
 
-__all__ = ["track_plot", "section_plot", "section_positions"]
+__all__ = ["track_plot", "DPI"]
 
-#: Resolution of the written PNG [dots per inch].
-DPI = 110
 
 _DEPTH_AXES = ("md", "tvdss")
 
-# Colour-blind-safe colours: the eight-colour set of Okabe & Ito (2008),
-# "Color Universal Design", plus greys. Roles are our own choice.
-_BLACK = "#000000"
-_ORANGE = "#E69F00"
-_SKY = "#56B4E9"
-_GREEN = "#009E73"
-_YELLOW = "#F0E442"
-_BLUE = "#0072B2"
-_VERMILLION = "#D55E00"
-_PURPLE = "#CC79A7"
-
-#: Line colour of the free-oil (gas-oil) level (reddish purple of the Okabe & Ito set).
-_GOL_COLOUR = "#CC79A7"
-
 _COLOURS = {
-    "gr": _GREEN,
-    "phi": _BLUE,
-    "k": _VERMILLION,
-    "rt": _BLACK,
-    "sw_log": _BLUE,
-    "sw_shm": _BLACK,
-    "sw_diff": "#4D4D4D",
-    "hafwl": _BLUE,
-    "j": _VERMILLION,
-    "fwl": _SKY,
-    "flag": "#333333",
-    "no_zone": "#BDBDBD",
-    "zone_edge": "#A0A0A0",
-    "grid": "#D9D9D9",
+    "gr": GREEN, "phi": BLUE, "k": VERMILLION, "rt": BLACK,
+    "sw_log": BLUE, "sw_shm": BLACK, "sw_diff": "#4D4D4D",
+    "hafwl": BLUE, "j": VERMILLION, "fwl": SKY, "gol": PURPLE,
+    "flag": "#333333", "no_zone": LIGHT_GREY, "zone_edge": "#A0A0A0", "grid": GRID,
 }
 _ZONE_FILLS = ("#F3F3F3", "#E6E6E6")  # alternate so neighbouring zones stay apart
-_HC_FILLS = {"oil": _ORANGE, "gas": _PURPLE, "air": _YELLOW}
+_HC_FILLS = {"oil": ORANGE, "gas": PURPLE, "air": YELLOW}
 _HC_OTHER = "#BBBBBB"
 
 # Track scales (display units). Porosity [fraction], permeability [mD],
@@ -87,123 +62,28 @@ _BOTTOM = 0.95      # legend
 _GAP = 0.22
 _HEIGHT_LIMITS = (10.0, 30.0)
 _METRES_PER_INCH = 25.0
-_NAME_MAX = 40
 
 
 @dataclass
-class _Track:
-    key: str
-    width: float  # [inch]
+class _Frame:
+    """What every track-drawing step needs: the figure, its axes and the depth scale."""
 
+    fig: Figure
+    axes: dict
+    y: np.ndarray            # plot depth of each sample [display unit]
+    scale: float             # display unit -> m
+    length_unit: str
+    depth_axis: str
+    y_top: float
+    y_base: float
+    md: np.ndarray
+    tvdss: np.ndarray
+    have_tvdss: bool
+    handles: list = field(default_factory=list)
 
-# --------------------------------------------------------------------------- text
-
-
-def safe_text(value, max_len: int = _NAME_MAX) -> str:
-    """Text from input files made safe to draw.
-
-    matplotlib reads text between two unescaped ``$`` as mathtext (and fails on
-    unknown ``\\commands`` inside it). Escaping every ``$`` as ``\\$`` keeps the text
-    out of math mode; matplotlib then shows ``\\$`` as ``$`` and every other
-    backslash as it is, so the text is drawn exactly as written. Line breaks and
-    tabs become blanks and very long text is shortened.
-    """
-    s = "" if value is None else str(value)
-    s = " ".join(s.split())
-    if len(s) > max_len:
-        s = s[: max_len - 1] + "\u2026"
-    return s.replace("$", r"\$")
-
-
-# ------------------------------------------------------------------------- depths
-
-
-def _monotone_pairs(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Finite (x, y) pairs with x strictly increasing, keeping the first of repeats."""
-    ok = np.isfinite(x) & np.isfinite(y)
-    x, y = x[ok], y[ok]
-    if x.size == 0:
-        return x, y
-    # drop samples that do not go deeper than every earlier one (flat or upturned parts)
-    prev_max = np.maximum.accumulate(np.concatenate(([-np.inf], x[:-1])))
-    keep = x > prev_max
-    return x[keep], y[keep]
-
-
-def _mapping(x: np.ndarray, y: np.ndarray) -> Callable[[np.ndarray], np.ndarray]:
-    """Piecewise-linear map x -> y through the samples, extended linearly past the ends.
-
-    ``x`` must be strictly increasing with at least one sample. Extension past the
-    ends keeps a secondary axis readable when matplotlib asks for ticks just
-    outside the data.
-    """
-    if x.size >= 2:
-        s0 = (y[1] - y[0]) / (x[1] - x[0])
-        s1 = (y[-1] - y[-2]) / (x[-1] - x[-2])
-    else:
-        s0 = s1 = 1.0
-
-    def f(v):
-        v = np.asarray(v, dtype=float)
-        out = np.interp(v, x, y)
-        out = np.where(v < x[0], y[0] + (v - x[0]) * s0, out)
-        return np.where(v > x[-1], y[-1] + (v - x[-1]) * s1, out)
-
-    return f
-
-
-def _level_crossings(depth: np.ndarray, tvdss: np.ndarray, level: float) -> np.ndarray:
-    """Plot depths where the well passes TVDSS ``level`` [m] (interpolated between samples).
-
-    Parameters
-    ----------
-    depth : numpy.ndarray
-        Plot depth of each sample [m] (MD or TVDSS).
-    tvdss : numpy.ndarray
-        TVDSS of each sample [m], positive down.
-    level : float
-        TVDSS of the level [m].
-    """
-    d = tvdss - level
-    ok = np.isfinite(d) & np.isfinite(depth)
-    depth, d = depth[ok], d[ok]
-    if d.size == 0:
-        return np.empty(0)
-    exact = depth[d == 0.0]
-    i = np.flatnonzero(d[:-1] * d[1:] < 0.0)
-    frac = d[i] / (d[i] - d[i + 1])
-    between = depth[i] + frac * (depth[i + 1] - depth[i])
-    return np.unique(np.concatenate((exact, between)))
-
-
-def _zone_intervals(depth: np.ndarray, tvdss: np.ndarray, top: float,
-                    base: float) -> list[tuple[float, float]]:
-    """Plot-depth intervals [m] where the well lies inside TVDSS window [top, base] [m].
-
-    Ends are interpolated to the exact top or base between the samples either side;
-    where the window runs past the log, the interval stops at the end of the log.
-    A deviated well that leaves and re-enters the window gives several intervals.
-    """
-    ok = np.isfinite(depth) & np.isfinite(tvdss)
-    depth, t = depth[ok], tvdss[ok]
-    if t.size == 0 or not (np.isfinite(top) and np.isfinite(base)):
-        return []
-    lo, hi = min(top, base), max(top, base)
-    inside = (t >= lo) & (t <= hi)
-    edges = np.diff(np.concatenate(([0], inside.astype(np.int8), [0])))
-    starts = np.flatnonzero(edges == 1)
-    ends = np.flatnonzero(edges == -1) - 1
-    out = []
-    for i0, i1 in zip(starts, ends):  # one pass per interval, not per sample
-        a, b = depth[i0], depth[i1]
-        if i0 > 0:
-            level = lo if t[i0 - 1] < lo else hi
-            a = depth[i0 - 1] + (level - t[i0 - 1]) / (t[i0] - t[i0 - 1]) * (depth[i0] - depth[i0 - 1])
-        if i1 < t.size - 1:
-            level = lo if t[i1 + 1] < lo else hi
-            b = depth[i1] + (level - t[i1]) / (t[i1 + 1] - t[i1]) * (depth[i1 + 1] - depth[i1])
-        out.append((float(min(a, b)), float(max(a, b))))
-    return out
+    @property
+    def last(self):
+        return list(self.axes.values())[-1]
 
 
 # ------------------------------------------------------------------------ helpers
@@ -215,9 +95,8 @@ def _positive(a: np.ndarray) -> np.ndarray:
     return np.where(np.isfinite(a) & (a > 0.0), a, np.nan)
 
 
-def _number(obj, attr: str) -> float:
-    """``obj.attr`` as a float, NaN when missing, None or not a number."""
-    v = getattr(obj, attr, None)
+def _number(v) -> float:
+    """``v`` as a float, NaN when None or not a number."""
     try:
         return float(v) if v is not None else float("nan")
     except (TypeError, ValueError):
@@ -283,27 +162,41 @@ def _twin(ax):
     return tw
 
 
-# --------------------------------------------------------------------- figure
+def _level_depths(f: _Frame, level: float) -> np.ndarray:
+    """Plot depths [display unit] where the well passes TVDSS ``level`` [m]."""
+    if f.depth_axis == "tvdss":
+        inside = f.y_top * f.scale <= level <= f.y_base * f.scale
+        ys = np.array([level]) if inside else np.empty(0)
+    else:
+        ys = level_crossings(f.md, f.tvdss, level) if f.have_tvdss else np.empty(0)
+    return ys / f.scale
 
 
-def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metric",
-                  title: str | None = None) -> Figure:
-    """Build the track-plot figure (see :func:`track_plot`) without writing it."""
+def _hline_all(f: _Frame, yy: float, label: str, colour: str, lw: float, ls) -> None:
+    """A level across every track, labelled at the right of the last track."""
+    for ax in f.axes.values():
+        ax.axhline(yy, color=colour, lw=lw, ls=ls, zorder=3.5)
+    f.last.text(0.97, yy, label, transform=f.last.get_yaxis_transform(), ha="right",
+                va="bottom", fontsize=8, color=BLUE if colour == _COLOURS["fwl"] else colour,
+                zorder=6, bbox=dict(facecolor="white", edgecolor="none", alpha=0.7, pad=0.5))
+
+
+# ------------------------------------------------------------------- checking
+
+
+def _checked_depths(result: WellResult, depth_axis: str, units: str):
+    """Validate the arguments and the result's shapes; MD and TVDSS arrays [m]."""
     if depth_axis not in _DEPTH_AXES:
         raise DepthError(f"unknown depth axis {depth_axis!r}", where="depth_axis",
                          hint="use 'md' or 'tvdss'")
     if units not in UNIT_SYSTEMS:
         raise UnitError(f"unknown unit system {units!r}", where="units",
                         hint="use 'metric' (m) or 'field' (ft)")
-    length_unit = UNIT_SYSTEMS[units]["length"]
-    scale = factor(length_unit, "length")  # display unit -> m
-
-    well = result.well
-    md = np.asarray(well.md, dtype=float)
+    md = np.asarray(result.well.md, dtype=float)
     tvdss = np.asarray(result.tvdss, dtype=float)
     n = md.size
     shm = result.shm
-    where = f"well {well.name!r}"
+    where = f"well {result.well.name!r}"
     for name, arr in (("tvdss", tvdss), ("phi", result.phi), ("k", result.k),
                       ("shm.sw", shm.sw), ("shm.hafwl", shm.hafwl), ("shm.j", shm.j),
                       ("shm.flag", shm.flag), ("shm.zone", shm.zone),
@@ -314,242 +207,254 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
     if n == 0 or not np.isfinite(md).any():
         raise DepthError("the well has no depth samples to plot", where=where,
                          hint="check the depth index of the LAS file")
-
-    md_fin, tv_fin = _monotone_pairs(md, tvdss)
-    have_tvdss = md_fin.size >= 1
-    if depth_axis == "tvdss" and not have_tvdss:
+    if depth_axis == "tvdss" and monotone_pairs(md, tvdss)[0].size == 0:
         raise DepthError("TVDSS is missing at every sample, cannot plot against TVDSS",
                          where=where, hint="give a deviation survey or plot with depth_axis='md'")
+    return md, tvdss
 
-    primary_si = md if depth_axis == "md" else tvdss
-    y = primary_si / scale
-    rng = _finite_range(y)
-    y_top, y_base = rng
+
+# --------------------------------------------------------------------- layout
+
+
+def _track_list(result: WellResult, gr) -> list[tuple[str, float]]:
+    """(key, width [inch]) of each track, left to right."""
+    tracks = [("gr", 1.45)] if gr is not None else []
+    tracks.append(("phik", 1.9))
+    if result.rt is not None:
+        tracks.append(("rt", 1.55))
+    tracks += [("sw", 1.9), ("h", 1.8)]
+    return tracks
+
+
+def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks) -> _Frame:
+    """The figure with one axes per track sharing the depth scale (depth down)."""
+    length_unit = UNIT_SYSTEMS[units]["length"]
+    scale = factor(length_unit, "length")  # display unit -> m
+    y = (md if depth_axis == "md" else tvdss) / scale
+    y_top, y_base = _finite_range(y)
     if y_base - y_top <= 0.0:
         y_top, y_base = y_top - 1.0, y_base + 1.0
     length_m = (y_base - y_top) * scale
-
-    # -- which tracks
-    gr = _gr_curve(result)
-    tracks = []
-    if gr is not None:
-        tracks.append(_Track("gr", 1.45))
-    tracks.append(_Track("phik", 1.9))
-    if result.rt is not None:
-        tracks.append(_Track("rt", 1.55))
-    tracks.append(_Track("sw", 1.9))
-    tracks.append(_Track("h", 1.8))
-
-    widths = [t.width for t in tracks]
+    widths = [w for _, w in tracks]
     fig_w = _LEFT + sum(widths) + _GAP * (len(tracks) - 1) + _RIGHT
     fig_h = float(np.clip(_TOP + _BOTTOM + length_m / _METRES_PER_INCH, *_HEIGHT_LIMITS))
     fig = Figure(figsize=(fig_w, fig_h), dpi=DPI)
     FigureCanvasAgg(fig)
-
     plot_h = (fig_h - _TOP - _BOTTOM) / fig_h
-    bottom = _BOTTOM / fig_h
-    axes = {}
-    x = _LEFT
-    first = None
-    for t in tracks:
-        ax = fig.add_axes((x / fig_w, bottom, t.width / fig_w, plot_h), sharey=first)
+    axes, x, first = {}, _LEFT, None
+    for key, width in tracks:
+        ax = fig.add_axes((x / fig_w, _BOTTOM / fig_h, width / fig_w, plot_h), sharey=first)
         if first is None:
             first = ax
         else:
             ax.tick_params(axis="y", labelleft=False)
         ax.grid(True, axis="both", which="major", color=_COLOURS["grid"], lw=0.6, zorder=0.5)
         ax.tick_params(axis="y", labelsize=8)
-        axes[t.key] = ax
-        x += t.width + _GAP
+        axes[key] = ax
+        x += width + _GAP
     first.set_ylim(y_base, y_top)  # depth increases downwards
+    md_fin, _ = monotone_pairs(md, tvdss)
+    return _Frame(fig=fig, axes=axes, y=y, scale=scale, length_unit=length_unit,
+                  depth_axis=depth_axis, y_top=y_top, y_base=y_base, md=md, tvdss=tvdss,
+                  have_tvdss=md_fin.size >= 1)
 
-    handles: list = []
 
-    # -- depth scales
-    primary_name = "MD" if depth_axis == "md" else "TVDSS"
-    other_name = "TVDSS" if depth_axis == "md" else "MD"
-    first.set_ylabel(f"{primary_name} [{length_unit}]", fontsize=9)
-    if have_tvdss and md_fin.size >= 2:
-        if depth_axis == "md":
-            fwd_si, inv_si = _mapping(md_fin, tv_fin), _mapping(tv_fin, md_fin)
-        else:
-            fwd_si, inv_si = _mapping(tv_fin, md_fin), _mapping(md_fin, tv_fin)
-        sec = first.secondary_yaxis(
-            -0.72 / tracks[0].width,
-            functions=(lambda v: fwd_si(np.asarray(v) * scale) / scale,
-                       lambda v: inv_si(np.asarray(v) * scale) / scale))
-        sec.yaxis.set_ticks_position("left")  # labels outside, clear of the primary scale
-        sec.yaxis.set_label_position("left")
-        sec.set_ylabel(f"{other_name} [{length_unit}]", fontsize=9, color="#555555")
-        sec.tick_params(axis="y", labelsize=8, colors="#555555")
+def _depth_scales(f: _Frame, first_width: float) -> None:
+    """Main depth scale on the first track, the other one as a second scale to its left."""
+    first = next(iter(f.axes.values()))
+    primary = "MD" if f.depth_axis == "md" else "TVDSS"
+    other = "TVDSS" if f.depth_axis == "md" else "MD"
+    first.set_ylabel(f"{primary} [{f.length_unit}]", fontsize=9)
+    md_fin, tv_fin = monotone_pairs(f.md, f.tvdss)
+    if not (f.have_tvdss and md_fin.size >= 2):
+        return
+    if f.depth_axis == "md":
+        fwd_si, inv_si = mapping(md_fin, tv_fin), mapping(tv_fin, md_fin)
+    else:
+        fwd_si, inv_si = mapping(tv_fin, md_fin), mapping(md_fin, tv_fin)
+    scale = f.scale
+    sec = first.secondary_yaxis(
+        -0.72 / first_width,
+        functions=(lambda v: fwd_si(np.asarray(v) * scale) / scale,
+                   lambda v: inv_si(np.asarray(v) * scale) / scale))
+    sec.yaxis.set_ticks_position("left")  # labels outside, clear of the primary scale
+    sec.yaxis.set_label_position("left")
+    sec.set_ylabel(f"{other} [{f.length_unit}]", fontsize=9, color=GREY)
+    sec.tick_params(axis="y", labelsize=8, colors=GREY)
 
-    # -- zones: bands on every track, names at the right, FWL lines
-    zones = list(result.zones or [])
-    last = axes[tracks[-1].key]
+
+# ------------------------------------------------------------------ zones, levels
+
+
+def _zone_depths(f: _Frame, zone) -> list[tuple[float, float]]:
+    """Plot-depth intervals [m] of one zone window."""
+    top, base = _number(zone.top), _number(zone.base)
+    if f.depth_axis == "tvdss":
+        if not (np.isfinite(top) and np.isfinite(base)):
+            return []
+        lo = max(min(top, base), f.y_top * f.scale)
+        hi = min(max(top, base), f.y_base * f.scale)
+        return [(lo, hi)] if hi > lo else []
+    return zone_intervals(f.md, f.tvdss, top, base) if f.have_tvdss else []
+
+
+def _draw_zones(f: _Frame, zones) -> dict[float, list[str]]:
+    """Zone bands on every track with names at the right; FWL -> names of its zones."""
     fwl_groups: dict[float, list[str]] = {}
-    zone_drawn = False
+    drawn = False
     for iz, zone in enumerate(zones):  # one pass per zone, not per sample
-        zname = safe_text(getattr(zone, "name", f"zone {iz + 1}"))
-        top, base = _number(zone, "top"), _number(zone, "base")
-        if depth_axis == "tvdss":
-            ivs = []
-            if np.isfinite(top) and np.isfinite(base):
-                lo, hi = max(min(top, base), y_top * scale), min(max(top, base), y_base * scale)
-                if hi > lo:
-                    ivs = [(lo, hi)]
-        else:
-            ivs = _zone_intervals(md, tvdss, top, base) if have_tvdss else []
-        fill = _ZONE_FILLS[iz % 2]
-        for a_si, b_si in ivs:
-            a, b = a_si / scale, b_si / scale
-            for ax in axes.values():
-                ax.axhspan(a, b, color=fill, zorder=0.2, lw=0)
+        zname = safe_text(zone.name)
+        for a_si, b_si in _zone_depths(f, zone):
+            a, b = a_si / f.scale, b_si / f.scale
+            for ax in f.axes.values():
+                ax.axhspan(a, b, color=_ZONE_FILLS[iz % 2], zorder=0.2, lw=0)
                 ax.axhline(a, color=_COLOURS["zone_edge"], lw=0.6, zorder=0.6)
                 ax.axhline(b, color=_COLOURS["zone_edge"], lw=0.6, zorder=0.6)
-            last.text(1.04, 0.5 * (a + b), zname, transform=last.get_yaxis_transform(),
-                      ha="left", va="center", fontsize=8, clip_on=False)
-            zone_drawn = True
-        fwl = _number(zone, "fwl")
+            f.last.text(1.04, 0.5 * (a + b), zname, transform=f.last.get_yaxis_transform(),
+                        ha="left", va="center", fontsize=8, clip_on=False)
+            drawn = True
+        fwl = _number(zone.fwl)
         if np.isfinite(fwl):
             fwl_groups.setdefault(fwl, []).append(zname)
-    if zone_drawn:
-        handles.append(Patch(facecolor=_ZONE_FILLS[1], edgecolor=_COLOURS["zone_edge"],
-                             label="Zone"))
+    if drawn:
+        f.handles.append(Patch(facecolor=_ZONE_FILLS[1], edgecolor=_COLOURS["zone_edge"],
+                               label="Zone"))
+    return fwl_groups
 
-    outside_notes = []
+
+def _draw_fwls(f: _Frame, fwl_groups: dict[float, list[str]]) -> list[str]:
+    """FWL lines across every track; notes for levels outside the plotted interval."""
+    notes = []
     for fwl, names in fwl_groups.items():
         label = "FWL " + ", ".join(names)
-        if depth_axis == "tvdss":
-            ys = np.array([fwl]) if y_top * scale <= fwl <= y_base * scale else np.empty(0)
-        else:
-            ys = _level_crossings(md, tvdss, fwl) if have_tvdss else np.empty(0)
-        for yy in ys / scale:
-            for ax in axes.values():
-                ax.axhline(yy, color=_COLOURS["fwl"], lw=1.6, ls=(0, (6, 2)), zorder=3.5)
-            last.text(0.97, yy, label, transform=last.get_yaxis_transform(), ha="right",
-                      va="bottom", fontsize=8, color=_BLUE, zorder=6,
-                      bbox=dict(facecolor="white", edgecolor="none", alpha=0.7, pad=0.5))
+        ys = _level_depths(f, fwl)
+        for yy in ys:
+            _hline_all(f, yy, label, _COLOURS["fwl"], 1.6, (0, (6, 2)))
         if ys.size == 0:
-            side = "below" if (have_tvdss and fwl > np.nanmax(tvdss)) else "above"
-            outside_notes.append(f"{label} {side} the log "
-                                 f"({fwl / scale:.1f} {length_unit} TVDSS)")
+            side = "below" if (f.have_tvdss and fwl > np.nanmax(f.tvdss)) else "above"
+            notes.append(f"{label} {side} the log ({fwl / f.scale:.1f} {f.length_unit} TVDSS)")
     if fwl_groups:
-        handles.append(Line2D([], [], color=_COLOURS["fwl"], lw=1.6, ls=(0, (6, 2)),
-                              label="Free-water level"))
-    # free-oil (gas-oil) level of zones with a gas cap over an oil leg
-    gol_drawn = False
+        f.handles.append(Line2D([], [], color=_COLOURS["fwl"], lw=1.6, ls=(0, (6, 2)),
+                                label="Free-water level"))
+    return notes
+
+
+def _draw_free_oil_levels(f: _Frame, zones) -> None:
+    """Free-oil (gas-oil) level of zones with a gas cap over an oil leg."""
+    drawn = False
     for zone in zones:
-        gol = _number(zone, "gas_oil_level")
+        gol = _number(zone.gas_oil_level)
         if not np.isfinite(gol):
             continue
-        if depth_axis == "tvdss":
-            ys = np.array([gol]) if y_top * scale <= gol <= y_base * scale else np.empty(0)
-        else:
-            ys = _level_crossings(md, tvdss, gol) if have_tvdss else np.empty(0)
-        label = "Free-oil level " + safe_text(getattr(zone, "name", ""))
-        for yy in ys / scale:
-            for ax in axes.values():
-                ax.axhline(yy, color=_GOL_COLOUR, lw=1.4, ls=(0, (2, 2)), zorder=3.5)
-            last.text(0.97, yy, label, transform=last.get_yaxis_transform(), ha="right",
-                      va="bottom", fontsize=8, color=_GOL_COLOUR, zorder=6,
-                      bbox=dict(facecolor="white", edgecolor="none", alpha=0.7, pad=0.5))
-            gol_drawn = True
-    if gol_drawn:
-        handles.append(Line2D([], [], color=_GOL_COLOUR, lw=1.4, ls=(0, (2, 2)),
-                              label="Free-oil (gas-oil) level"))
+        for yy in _level_depths(f, gol):
+            _hline_all(f, yy, "Free-oil level " + safe_text(zone.name), _COLOURS["gol"],
+                       1.4, (0, (2, 2)))
+            drawn = True
+    if drawn:
+        f.handles.append(Line2D([], [], color=_COLOURS["gol"], lw=1.4, ls=(0, (2, 2)),
+                                label="Free-oil (gas-oil) level"))
 
-    # -- (1) gamma ray
-    if gr is not None:
-        ax = axes["gr"]
-        curve, data = gr
-        unit = safe_text(curve.unit, 12)
-        r = _finite_range(data)
-        gmax = _GR_DEFAULT_MAX
-        if r is not None and r[1] > gmax:
-            gmax = float(np.ceil(np.nanpercentile(data, 99.5) / 50.0) * 50.0) or gmax
-        mnem = safe_text(curve.mnemonic, 12)
-        _header(ax, f"{mnem} [{unit}]" if unit else mnem, _COLOURS["gr"], 0.0, gmax)
-        ax.plot(data, y, color=_COLOURS["gr"], lw=0.8, zorder=3)
-        handles.append(Line2D([], [], color=_COLOURS["gr"], lw=1, label=f"{mnem} (gamma ray)"))
 
-    # -- (2) porosity and permeability
-    ax = axes["phik"]
+# ------------------------------------------------------------------------ tracks
+
+
+def _draw_gr(f: _Frame, gr) -> None:
+    curve, data = gr
+    r = _finite_range(data)
+    gmax = _GR_DEFAULT_MAX
+    if r is not None and r[1] > gmax:
+        gmax = float(np.ceil(np.nanpercentile(data, 99.5) / 50.0) * 50.0) or gmax
+    mnem = safe_text(curve.mnemonic, 12)
+    _header(f.axes["gr"], unit_label(curve.mnemonic, curve.unit, 12), _COLOURS["gr"], 0.0, gmax)
+    f.axes["gr"].plot(data, f.y, color=_COLOURS["gr"], lw=0.8, zorder=3)
+    f.handles.append(Line2D([], [], color=_COLOURS["gr"], lw=1, label=f"{mnem} (gamma ray)"))
+
+
+def _draw_phik(f: _Frame, result: WellResult) -> None:
+    ax = f.axes["phik"]
     tw = _twin(ax)  # before the header: twiny moves the original scale to the bottom
     _header(ax, "Porosity [fraction]", _COLOURS["phi"], *_PHI_RANGE,
             ticks=[0.0, 0.1, 0.2, 0.3, 0.4])
-    ax.plot(np.asarray(result.phi, dtype=float), y, color=_COLOURS["phi"], lw=0.8, zorder=3,
+    ax.plot(np.asarray(result.phi, dtype=float), f.y, color=_COLOURS["phi"], lw=0.8, zorder=3,
             label="Porosity")
     _header(tw, "Permeability [mD]", _COLOURS["k"], *_K_RANGE_MD, log=True,
             ticks=[0.01, 1.0, 100.0, 1.0e4], outward=34)
     k_md = _positive(np.asarray(result.k, dtype=float) / C.MILLIDARCY)
-    tw.plot(k_md, y, color=_COLOURS["k"], lw=0.8, zorder=3, label="Permeability")
-    handles.append(Line2D([], [], color=_COLOURS["phi"], lw=1, label="Porosity"))
-    handles.append(Line2D([], [], color=_COLOURS["k"], lw=1, label="Permeability"))
+    tw.plot(k_md, f.y, color=_COLOURS["k"], lw=0.8, zorder=3, label="Permeability")
+    f.handles.append(Line2D([], [], color=_COLOURS["phi"], lw=1, label="Porosity"))
+    f.handles.append(Line2D([], [], color=_COLOURS["k"], lw=1, label="Permeability"))
 
-    # -- (3) resistivity
-    if result.rt is not None:
-        ax = axes["rt"]
-        rt_name = (result.roles or {}).get("resistivity") or "RT"
-        _header(ax, f"Resistivity {safe_text(rt_name, 12)} [ohm.m]", _COLOURS["rt"],
-                *_RT_RANGE, log=True, ticks=[0.2, 2.0, 20.0, 200.0, 2000.0])
-        ax.grid(True, axis="x", which="minor", color=_COLOURS["grid"], lw=0.3, zorder=0.5)
-        ax.plot(_positive(result.rt), y, color=_COLOURS["rt"], lw=0.8, zorder=3,
-                label="Resistivity")
-        handles.append(Line2D([], [], color=_COLOURS["rt"], lw=1, label="Resistivity"))
 
-    # -- (4) water saturation
-    ax = axes["sw"]
+def _draw_rt(f: _Frame, result: WellResult) -> None:
+    ax = f.axes["rt"]
+    rt_name = (result.roles or {}).get("resistivity") or "RT"
+    _header(ax, f"Resistivity {safe_text(rt_name, 12)} [ohm.m]", _COLOURS["rt"],
+            *_RT_RANGE, log=True, ticks=[0.2, 2.0, 20.0, 200.0, 2000.0])
+    ax.grid(True, axis="x", which="minor", color=_COLOURS["grid"], lw=0.3, zorder=0.5)
+    ax.plot(_positive(result.rt), f.y, color=_COLOURS["rt"], lw=0.8, zorder=3,
+            label="Resistivity")
+    f.handles.append(Line2D([], [], color=_COLOURS["rt"], lw=1, label="Resistivity"))
+
+
+def _hydrocarbon_kind(result: WellResult) -> np.ndarray:
+    """Hydrocarbon name of each sample's zone (``""`` outside zones)."""
+    zones = result.zones or []
+    kinds = np.array([str(z.hydrocarbon).lower() for z in zones] + [""], dtype=object)
+    zone_idx = _int_array(result.shm.zone, -1)
+    valid = (zone_idx >= 0) & (zone_idx < len(zones))
+    return kinds[np.where(valid, zone_idx, len(zones))]
+
+
+def _draw_sw(f: _Frame, result: WellResult) -> None:
+    ax = f.axes["sw"]
     _header(ax, "Water saturation [fraction]", _COLOURS["sw_shm"], 0.0, 1.0,
             ticks=[0.0, 0.25, 0.5, 0.75, 1.0])
-    sw = np.asarray(shm.sw, dtype=float)
-    sw_ok = np.isfinite(sw) & np.isfinite(y)
-    zone_idx = _int_array(shm.zone, -1)
-    kinds = np.array([str(getattr(z, "hydrocarbon", "")).lower() for z in zones] + [""],
-                     dtype=object)
-    valid_idx = (zone_idx >= 0) & (zone_idx < len(zones))
-    kind = kinds[np.where(valid_idx, zone_idx, len(zones))]
+    sw = np.asarray(result.shm.sw, dtype=float)
+    sw_ok = np.isfinite(sw) & np.isfinite(f.y)
+    kind = _hydrocarbon_kind(result)
     for hc in sorted(set(kind[sw_ok & (sw < 1.0)].tolist())):
         colour = _HC_FILLS.get(hc, _HC_OTHER)
-        ax.fill_betweenx(y, sw, 1.0, where=sw_ok & (kind == hc), color=colour, alpha=0.55,
+        ax.fill_betweenx(f.y, sw, 1.0, where=sw_ok & (kind == hc), color=colour, alpha=0.55,
                          lw=0, zorder=1)
-        handles.append(Patch(facecolor=colour, alpha=0.55,
-                             label=f"{safe_text(hc.capitalize(), 12) or 'Hydrocarbon'} "
-                                   f"(1 \u2212 SHM Sw)"))
+        f.handles.append(Patch(facecolor=colour, alpha=0.55, label=hydrocarbon_label(hc)))
     if result.sw_log is not None:
         sw_log = np.asarray(result.sw_log, dtype=float)
         both = sw_ok & np.isfinite(sw_log)
         if both.any():
-            ax.fill_betweenx(y, sw_log, sw, where=both, facecolor="none",
+            ax.fill_betweenx(f.y, sw_log, sw, where=both, facecolor="none",
                              edgecolor=_COLOURS["sw_diff"], hatch="////", lw=0, zorder=2)
-            handles.append(Patch(facecolor="none", edgecolor=_COLOURS["sw_diff"], hatch="////",
-                                 label="Log Sw \u2212 SHM Sw"))
-        src = result.sw_log_source or ""
-        src_txt = ("Archie" if src == "archie" else
-                   safe_text(src.split(":", 1)[1], 12) if src.startswith("curve:") else "")
-        log_label = f"Log Sw ({src_txt})" if src_txt else "Log Sw"
-        ax.plot(sw_log, y, color=_COLOURS["sw_log"], lw=0.9, zorder=3)
-        handles.append(Line2D([], [], color=_COLOURS["sw_log"], lw=1, label=log_label))
-    ax.plot(sw, y, color=_COLOURS["sw_shm"], lw=1.1, zorder=3.2)
-    handles.append(Line2D([], [], color=_COLOURS["sw_shm"], lw=1.2, label="SHM Sw"))
-    # flag strip at the left edge: x in axes fraction, y in data
-    flag = _int_array(shm.flag, 0)
+            f.handles.append(Patch(facecolor="none", edgecolor=_COLOURS["sw_diff"],
+                                   hatch="////", label="Log Sw \u2212 SHM Sw"))
+        ax.plot(sw_log, f.y, color=_COLOURS["sw_log"], lw=0.9, zorder=3)
+        f.handles.append(Line2D([], [], color=_COLOURS["sw_log"], lw=1,
+                                label=log_sw_label(result.sw_log_source)))
+    ax.plot(sw, f.y, color=_COLOURS["sw_shm"], lw=1.1, zorder=3.2)
+    f.handles.append(Line2D([], [], color=_COLOURS["sw_shm"], lw=1.2, label="SHM Sw"))
+    _draw_flags(f, ax, result.shm.flag)
+
+
+def _draw_flags(f: _Frame, ax, flag) -> None:
+    """Flag strip at the left edge of the Sw track: x in axes fraction, y in data."""
+    flag = _int_array(flag, 0)
     only_no_zone = flag == FLAG_NO_ZONE
     other_flags = (flag != 0) & ~only_no_zone
     strip = ax.get_yaxis_transform()
     if only_no_zone.any():
-        ax.fill_betweenx(y, 0.0, 0.035, where=only_no_zone, transform=strip,
+        ax.fill_betweenx(f.y, 0.0, 0.035, where=only_no_zone, transform=strip,
                          color=_COLOURS["no_zone"], lw=0, zorder=4)
-        handles.append(Patch(color=_COLOURS["no_zone"], label="Outside every zone"))
+        f.handles.append(Patch(color=_COLOURS["no_zone"], label="Outside every zone"))
     if other_flags.any():
-        ax.fill_betweenx(y, 0.0, 0.035, where=other_flags, transform=strip,
+        ax.fill_betweenx(f.y, 0.0, 0.035, where=other_flags, transform=strip,
                          color=_COLOURS["flag"], lw=0, zorder=4.1)
-        handles.append(Patch(color=_COLOURS["flag"],
-                             label="Flagged (bad input or J outside range)"))
+        f.handles.append(Patch(color=_COLOURS["flag"],
+                               label="Flagged (bad input or J outside range)"))
 
-    # -- (5) height above FWL and J
-    ax = axes["h"]
+
+def _draw_height(f: _Frame, result: WellResult, units: str, notes: list[str]) -> None:
+    """Height above the FWL and J (log scale) in the last track."""
+    ax = f.axes["h"]
     tw = _twin(ax)
-    h = np.asarray(shm.hafwl, dtype=float) / scale
+    h = np.asarray(result.shm.hafwl, dtype=float) / f.scale
     hr = _finite_range(h)
     if hr is None:
         hlo, hhi = (-10.0, 100.0) if units == "metric" else (-30.0, 300.0)
@@ -557,11 +462,11 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
         hlo, hhi = min(hr[0], 0.0), max(hr[1], 0.0)
         pad = 0.05 * (hhi - hlo) or 1.0
         hlo, hhi = hlo - pad, hhi + pad
-    _header(ax, f"Height above FWL [{length_unit}]", _COLOURS["hafwl"], hlo, hhi)
+    _header(ax, f"Height above FWL [{f.length_unit}]", _COLOURS["hafwl"], hlo, hhi)
     ax.axvline(0.0, color=_COLOURS["zone_edge"], lw=0.8, zorder=0.7)
-    ax.plot(h, y, color=_COLOURS["hafwl"], lw=1.0, zorder=3)
-    handles.append(Line2D([], [], color=_COLOURS["hafwl"], lw=1, label="Height above FWL"))
-    jpos = _positive(shm.j)
+    ax.plot(h, f.y, color=_COLOURS["hafwl"], lw=1.0, zorder=3)
+    f.handles.append(Line2D([], [], color=_COLOURS["hafwl"], lw=1, label="Height above FWL"))
+    jpos = _positive(result.shm.j)
     jr = _finite_range(jpos)
     if jr is None:
         jlo, jhi = 0.01, 10.0
@@ -571,50 +476,36 @@ def _track_figure(result: WellResult, depth_axis: str = "md", units: str = "metr
         if jhi <= jlo:
             jhi = jlo * 10.0
     _header(tw, "J [-]", _COLOURS["j"], jlo, jhi, log=True, outward=34)
-    tw.plot(jpos, y, color=_COLOURS["j"], lw=0.8, zorder=3)
-    handles.append(Line2D([], [], color=_COLOURS["j"], lw=1, label="J"))
-    if outside_notes:
-        ax.text(0.03, 0.005, "\n".join(outside_notes), transform=ax.transAxes, ha="left",
-                va="bottom", fontsize=7, color=_BLUE, zorder=6,
+    tw.plot(jpos, f.y, color=_COLOURS["j"], lw=0.8, zorder=3)
+    f.handles.append(Line2D([], [], color=_COLOURS["j"], lw=1, label="J"))
+    if notes:
+        ax.text(0.03, 0.005, "\n".join(notes), transform=ax.transAxes, ha="left",
+                va="bottom", fontsize=7, color=BLUE, zorder=6,
                 bbox=dict(facecolor="white", edgecolor="none", alpha=0.8, pad=1.0))
 
-    # -- title and legend
-    name = safe_text(title if title is not None else well.name, 80)
-    fig.text(0.5, 1.0 - 0.18 / fig_h, name, ha="center", va="top", fontsize=13,
-             fontweight="bold")
-    sub = f"Depth: {primary_name} [{length_unit}]"
+
+def _title_and_legend(f: _Frame, result: WellResult, title: str | None) -> None:
+    fig_w, fig_h = f.fig.get_size_inches()
+    name = safe_text(title if title is not None else result.well.name, 80)
+    f.fig.text(0.5, 1.0 - 0.18 / fig_h, name, ha="center", va="top", fontsize=13,
+               fontweight="bold")
+    primary = "MD" if f.depth_axis == "md" else "TVDSS"
+    sub = f"Depth: {primary} [{f.length_unit}]"
     if result.datum_elevation:
-        sub += f"; depth datum {result.datum_elevation / scale:.6g} {length_unit} above sea level"
-    fig.text(0.5, 1.0 - 0.48 / fig_h, sub, ha="center", va="top", fontsize=8, color="#444444")
+        sub += (f"; depth datum {result.datum_elevation / f.scale:.6g} {f.length_unit} "
+                "above sea level")
+    f.fig.text(0.5, 1.0 - 0.48 / fig_h, sub, ha="center", va="top", fontsize=8, color="#444444")
     ncol = max(1, min(5, int((fig_w - 0.4) // 2.1)))
-    fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.05 / fig_h),
-               ncol=ncol, fontsize=8, frameon=False, handlelength=2.2)
-    return fig
+    f.fig.legend(handles=f.handles, loc="lower center", bbox_to_anchor=(0.5, 0.05 / fig_h),
+                 ncol=ncol, fontsize=8, frameon=False, handlelength=2.2)
 
 
-# --------------------------------------------------------------------- writing
+# ---------------------------------------------------------------------- the plot
 
 
-def _save_atomic(fig: Figure, targets: list[tuple[Path, str]]) -> list[Path]:
-    """Save ``fig`` to each (path, format) through :func:`satheight.io.atomic.atomic_save_figure`.
-
-    Every target gets a flushed and fsynced temp file in its folder; all are renamed into
-    place only after all saved. If any save fails, the targets are untouched.
-    """
-    return atomic_save_figure(fig, targets, dpi=DPI)
-
-
-def _target(path, fmt: str, key: str) -> Path:
-    p = Path(path)
-    if not p.parent.is_dir():
-        raise InputFileError(f"folder {str(p.parent)!r} for the {fmt.upper()} plot does not exist",
-                             where=key, hint="create the folder or choose another output path")
-    return p
-
-
-def track_plot(result: WellResult, png_path, pdf_path=None, depth_axis: str = "md",
-               units: str = "metric", title: str | None = None) -> list[Path]:
-    """Draw one well's track plot and write it as PNG (and PDF if asked).
+def track_plot(result: WellResult, depth_axis: str = "md", units: str = "metric",
+               title: str | None = None) -> Figure:
+    """One well's track plot as a figure (the caller writes it).
 
     Tracks, left to right: gamma ray (only if the well has a curve named ``GR``, any
     case) in the file's unit; porosity [fraction] on 0-0.4 with permeability [mD]
@@ -631,12 +522,9 @@ def track_plot(result: WellResult, png_path, pdf_path=None, depth_axis: str = "m
     ----------
     result : WellResult
         Computed results of one well; not modified. ``result.zones`` items need
-        ``name``, ``top``, ``base`` and ``fwl`` (TVDSS [m], positive down) and
-        ``hydrocarbon`` (``"oil"``, ``"gas"`` or ``"air"``).
-    png_path : str or pathlib.Path
-        PNG file to write; an existing file is replaced.
-    pdf_path : str or pathlib.Path, optional
-        PDF file to write as well.
+        ``name``, ``top``, ``base``, ``fwl`` and ``gas_oil_level`` (TVDSS [m],
+        positive down, the last None for two-phase zones) and ``hydrocarbon``
+        (``"oil"``, ``"gas"`` or ``"air"``).
     depth_axis : {"md", "tvdss"}
         Main depth scale; the other is shown as a second scale on the left. TVDSS
         is ``result.tvdss`` [m]; MD <-> TVDSS is interpolated between samples.
@@ -647,8 +535,8 @@ def track_plot(result: WellResult, png_path, pdf_path=None, depth_axis: str = "m
 
     Returns
     -------
-    list of pathlib.Path
-        The files written: the PNG, then the PDF if asked.
+    matplotlib.figure.Figure
+        The figure, with an Agg canvas.
 
     Raises
     ------
@@ -656,195 +544,23 @@ def track_plot(result: WellResult, png_path, pdf_path=None, depth_axis: str = "m
         Unknown ``depth_axis``; no depth samples; TVDSS asked but all missing.
     UnitError
         Unknown ``units``.
-    InputFileError
-        The folder of an output path does not exist.
     SatHeightError
         A result array does not match the well's number of samples.
     """
-    targets = [(_target(png_path, "png", "png_path"), "png")]
-    if pdf_path is not None:
-        targets.append((_target(pdf_path, "pdf", "pdf_path"), "pdf"))
-    fig = _track_figure(result, depth_axis=depth_axis, units=units, title=title)
-    return _save_atomic(fig, targets)
-
-
-# ------------------------------------------------------------------ field section
-
-
-def section_positions(results, locations=None) -> tuple[list[np.ndarray], bool, np.ndarray]:
-    """Distance of every sample of every well along one section line [m].
-
-    Parameters
-    ----------
-    results : sequence of WellResult
-        Wells with ``north``/``east`` offsets from their well heads [m] (``None`` = 0).
-    locations : dict[str, tuple[float, float]], optional
-        Well-head map position (east, north) [m] by well name.
-
-    Returns
-    -------
-    distances : list of numpy.ndarray
-        Per well, distance of each sample along the line [m], the smallest being 0.
-    mapped : bool
-        True when every well has a location: the line is the best-fitting straight
-        line (first principal axis) through the wells' horizontal positions, oriented
-        west to east (south to north if it runs north-south), and distances are true
-        map distances projected on it. False: the wells are set side by side at a
-        fixed spacing (schematic), each keeping its own horizontal reach along the
-        direction from its head to its deepest sample.
-    direction : numpy.ndarray
-        Unit vector (east, north) of the line (schematic: (1, 0)).
-    """
-    locations = locations or {}
-    pts = []
-    for r in results:
-        n = np.zeros(r.tvdss.shape) if getattr(r, "north", None) is None else np.asarray(r.north, float)
-        e = np.zeros(r.tvdss.shape) if getattr(r, "east", None) is None else np.asarray(r.east, float)
-        pts.append(np.stack([e, n], axis=-1))
-    mapped = bool(results) and all(locations.get(r.well.name) is not None for r in results)
-    if mapped:
-        xy = [p + np.asarray(locations[r.well.name], float) for p, r in zip(pts, results)]
-        allp = np.concatenate([x[np.all(np.isfinite(x), axis=1)] for x in xy])
-        centre = allp.mean(axis=0)
-        u = np.array([1.0, 0.0])
-        if allp.shape[0] >= 2 and np.ptp(allp, axis=0).max() > 0:
-            _, _, vt = np.linalg.svd(allp - centre, full_matrices=False)
-            u = vt[0]
-        if u[0] < -1e-12 or (abs(u[0]) <= 1e-12 and u[1] < 0):
-            u = -u
-        d = [(x - centre) @ u for x in xy]
-    else:
-        u = np.array([1.0, 0.0])
-        d = []
-        for i, p in enumerate(pts):
-            fin = np.all(np.isfinite(p), axis=1)
-            far = p[fin][-1] if fin.any() else np.zeros(2)
-            reach = float(np.hypot(*far))
-            v = far / reach if reach > 0 else np.array([1.0, 0.0])
-            d.append(p @ v)
-        spans = [float(np.nanmax(x) - min(0.0, float(np.nanmin(x)))) if np.isfinite(x).any() else 0.0
-                 for x in d]
-        spacing = max(max(spans, default=0.0) * 1.5, 500.0)
-        d = [x + i * spacing for i, x in enumerate(d)]
-    low = min((float(np.nanmin(x)) for x in d if np.isfinite(x).any()), default=0.0)
-    return [x - low for x in d], mapped, u
-
-
-def section_plot(results, png_path, units: str = "metric", locations=None,
-                 title: str | None = None, pdf_path=None) -> list[Path]:
-    """Field cross-section: every well's path in TVDSS against distance along a line.
-
-    Each well is drawn as its path (distance along the section line, TVDSS positive
-    down), coloured by saturation-height Sw [fraction] where it was computed and
-    grey elsewhere, with its name at the top. Where a well enters and leaves each
-    zone, a short tick marks the zone top and base (TVDSS of that well's zone
-    window); the tops of a zone are joined from well to well by a thin line. Each
-    zone's free-water level is a dashed horizontal line across the section.
-
-    Parameters
-    ----------
-    results : sequence of WellResult
-        Computed wells; not modified. Uses ``tvdss`` [m], ``north``/``east`` [m]
-        (offsets from the well head; ``None`` = vertical), ``shm.sw`` and ``zones``.
-    png_path : str or pathlib.Path
-        PNG file to write.
-    units : {"metric", "field"}
-        Distances and depths shown in m or ft.
-    locations : dict[str, tuple[float, float]], optional
-        Well-head map position (east, north) [m] by well name. With a position for
-        every well the section follows the line of best fit through the wells (see
-        :func:`section_positions`); otherwise the wells are set side by side
-        (schematic distances, said in the axis label).
-    title : str, optional
-    pdf_path : str or pathlib.Path, optional
-        PDF file to write as well.
-
-    Returns
-    -------
-    list of pathlib.Path
-        Files written.
-
-    Raises
-    ------
-    UnitError
-        Unknown ``units``.
-    DepthError
-        No well, or no well with any finite TVDSS.
-    InputFileError
-        The folder of an output path does not exist.
-    """
-    if units not in UNIT_SYSTEMS:
-        raise UnitError(f"unknown unit system {units!r}", where="section_plot units",
-                        hint="use 'metric' or 'field'")
-    results = list(results)
-    if not results or not any(np.isfinite(np.asarray(r.tvdss, float)).any() for r in results):
-        raise DepthError("no well with TVDSS to draw in the field section", where="section_plot",
-                         hint="compute at least one well first")
-    targets = [(_target(png_path, "png", "png_path"), "png")]
-    if pdf_path is not None:
-        targets.append((_target(pdf_path, "pdf", "pdf_path"), "pdf"))
-    unit = UNIT_SYSTEMS[units]["length"]
-    scale = factor(unit, "length")
-    dist, mapped, u = section_positions(results, locations)
-
-    fig = Figure(figsize=(11.0, 7.5), dpi=DPI)
-    FigureCanvasAgg(fig)
-    ax = fig.add_axes((0.08, 0.1, 0.76, 0.8))
-    cax = fig.add_axes((0.87, 0.1, 0.018, 0.8))
-    import matplotlib as mpl
-    from matplotlib.collections import LineCollection
-
-    cmap = mpl.colormaps["cividis_r"]
-    norm = mpl.colors.Normalize(0.0, 1.0)
-    zone_tops: dict[str, list[tuple[float, float]]] = {}
-    fwls: dict[str, float] = {}
-    for r, x in zip(results, dist):
-        z = np.asarray(r.tvdss, float)
-        ok = np.isfinite(x) & np.isfinite(z)
-        xs, zs = x[ok] / scale, z[ok] / scale
-        if xs.size == 0:
-            continue
-        ax.plot(xs, zs, color=_COLOURS["no_zone"], lw=1.0, zorder=2)
-        sw = np.asarray(r.shm.sw, float)[ok]
-        if xs.size >= 2:
-            seg = np.stack([np.column_stack([xs[:-1], zs[:-1]]), np.column_stack([xs[1:], zs[1:]])], axis=1)
-            swm = 0.5 * (sw[:-1] + sw[1:])
-            good = np.isfinite(swm)
-            lc = LineCollection(seg[good], colors=cmap(norm(swm[good])), linewidths=4.0, zorder=3)
-            ax.add_collection(lc)
-        ax.text(xs[0], zs[0], safe_text(r.well.name) + "\n", ha="center", va="bottom", fontsize=8)
-        for zn in r.zones:
-            fwls.setdefault(zn.name, float(zn.fwl))
-            for level, kind in ((zn.top, "top"), (zn.base, "base")):
-                xc = np.interp(level, z[ok], x[ok]) if np.all(np.diff(z[ok]) > 0) else np.nan
-                if not (np.nanmin(z[ok]) <= level <= np.nanmax(z[ok])) or not np.isfinite(xc):
-                    continue
-                ax.plot([xc / scale], [level / scale], marker="_", ms=18, mew=2.0, color=_BLACK, zorder=5)
-                if kind == "top":
-                    zone_tops.setdefault(zn.name, []).append((xc / scale, level / scale))
-    for name, pts in zone_tops.items():
-        pts = sorted(pts)
-        ax.plot([p[0] for p in pts], [p[1] for p in pts], color="#555555", lw=0.8, zorder=4)
-        ax.text(pts[0][0], pts[0][1], " " + safe_text(name), ha="left", va="bottom", fontsize=8,
-                color="#333333", zorder=6)
-    x_all = np.concatenate([d[np.isfinite(d)] for d in dist]) / scale
-    x0, x1 = float(x_all.min()), float(x_all.max())
-    pad = max(0.05 * (x1 - x0), 50.0 / scale * 3.0)
-    for name, fwl in fwls.items():
-        ax.plot([x0 - pad, x1 + pad], [fwl / scale] * 2, ls="--", lw=1.2, color=_COLOURS["fwl"], zorder=4)
-        ax.text(x1 + pad, fwl / scale, f"FWL {safe_text(name)} ", ha="right", va="bottom",
-                fontsize=8, color=_BLUE, zorder=6)
-    ax.set_xlim(x0 - pad, x1 + pad)
-    ax.invert_yaxis()
-    ax.set_ylabel(f"TVDSS [{unit}]", fontsize=9)
-    if mapped:
-        bearing = (np.degrees(np.arctan2(u[0], u[1])) + 360.0) % 360.0
-        ax.set_xlabel(f"distance along the section line, bearing {bearing:.0f} deg [{unit}]", fontsize=9)
-    else:
-        ax.set_xlabel(f"wells side by side (schematic spacing; each well's own reach) [{unit}]",
-                      fontsize=9)
-    ax.grid(True, color=_COLOURS["grid"], lw=0.5)
-    sm = mpl.cm.ScalarMappable(norm=norm, cmap=cmap)
-    fig.colorbar(sm, cax=cax).set_label("Sw from the saturation-height model [fraction]", fontsize=8)
-    ax.set_title(safe_text(title if title is not None else "Field section, TVDSS", 80), fontsize=12)
-    return _save_atomic(fig, targets)
+    md, tvdss = _checked_depths(result, depth_axis, units)
+    gr = _gr_curve(result)
+    tracks = _track_list(result, gr)
+    f = _frame(result, md, tvdss, depth_axis, units, tracks)
+    _depth_scales(f, tracks[0][1])
+    zones = list(result.zones or [])
+    notes = _draw_fwls(f, _draw_zones(f, zones))
+    _draw_free_oil_levels(f, zones)
+    if gr is not None:
+        _draw_gr(f, gr)
+    _draw_phik(f, result)
+    if result.rt is not None:
+        _draw_rt(f, result)
+    _draw_sw(f, result)
+    _draw_height(f, result, units, notes)
+    _title_and_legend(f, result, title)
+    return f.fig

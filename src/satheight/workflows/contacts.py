@@ -17,6 +17,8 @@ from .io.atomic import atomic_write_text
 from .io.pressures import read_pressure_points, resolve_tvdss
 from .pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
 from .project import load_project
+from ..plots import misfit_plot, pressure_plot
+from .figures import save_figure
 
 __all__ = ["run_fwl", "run_pressures"]
 
@@ -80,10 +82,8 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True, **
         atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
         files.append(path)
         if plot:
-            from .contact_plots import misfit_plot
-
-            files.append(misfit_plot(res, out / f"fwl_{_safe(name)}_misfit.png",
-                                     units=project.unit_system))
+            files += save_figure(misfit_plot(res, units=project.unit_system),
+                                 out / f"fwl_{_safe(name)}_misfit.png")
     return {"project": str(project.path), "units": lu, "zones": summary, "notes": notes,
             "files": files, "results": results}
 
@@ -180,11 +180,9 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
                              f"(gap {c['gap_m'] / lf:.2f} {lu})")
         summary[name] = d
         if plot:
-            from .contact_plots import pressure_plot
-
             lg = (log[name].best, log[name].low, log[name].high) if name in log else None
-            files.append(pressure_plot(zp, out / f"pressures_{_safe(name or 'all')}.png",
-                                       units=system, log_fwl=lg))
+            files += save_figure(pressure_plot(zp, units=system, log_fwl=lg),
+                                 out / f"pressures_{_safe(name or 'all')}.png")
     doc = {"file": str(points.source), "units": {"depth": lu, "pressure": pu,
                                                   "density": "g/cm3", "gradient": f"{pu}/{lu}"},
            "qualities_fitted": list(qualities), "zones": summary, "notes": notes}

@@ -27,6 +27,8 @@ from .io.core_data import read_core_files
 from .models import get_family
 from .models.store import models_to_dict, save_models
 from .rocktypes import RockTypeRule, plug_rock_types
+from ..plots import j_sw_plot, pc_plot
+from .figures import save_figure
 
 
 @dataclass(frozen=True)
@@ -179,10 +181,8 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None) -> FitRun:
     atomic_write_text(pts, points_csv(points))
     files.append(pts)
     if s.plots:
-        from .core_plots import pc_plot, j_sw_plot
-
-        files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
-        files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
+        files += save_figure(j_sw_plot(points, fits), out / "core_j_sw.png")
+        files += save_figure(pc_plot(points, s.reservoir), out / "core_pc.png")
     for rt, e in fits.items():
         for fam, msg in e["errors"].items():
             warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")

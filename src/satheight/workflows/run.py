@@ -28,6 +28,8 @@ from .project_types import Project, WellSpec, ZoneSpec
 from .results import FLAG_MEANINGS, WellResult
 from .roles import detect_roles, require_role, role_values
 from .well import Curve, HeaderItem, Well
+from ..plots import section_plot, track_plot
+from .figures import save_figure
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -478,11 +480,9 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
     if plot:
-        from .plots import track_plot
-
-        files += track_plot(result, out_dir / f"{stem}_tracks.png",
-                            pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
-                            units=project.unit_system, depth_axis=depth_axis)
+        files += save_figure(track_plot(result, units=project.unit_system, depth_axis=depth_axis),
+                             out_dir / f"{stem}_tracks.png",
+                             (out_dir / f"{stem}_tracks.pdf") if pdf else None)
     return files
 
 
@@ -557,12 +557,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
                   if o.ok and (o.result is not None or o.section is not None)]
     if plot and ok_results:
-        from .plots import section_plot
-
         try:
-            section_file = section_plot(ok_results, out_dir / "field_section.png",
-                                        units=project.unit_system, locations=locations,
-                                        title=f"{project.name}: field section, TVDSS")[0]
+            section_file = save_figure(section_plot(ok_results, units=project.unit_system,
+                                                    locations=locations,
+                                                    title=f"{project.name}: field section, TVDSS"),
+                                       out_dir / "field_section.png")[0]
         except SatHeightError as exc:
             notes.append(f"field section not drawn: {exc}")
     unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
