@@ -227,7 +227,7 @@ def test_all_nan_curves(tmp_path):
 
 def test_all_nan_tvdss_md_axis_works_and_tvdss_axis_is_a_clear_error(tmp_path):
     res = make_result(tvdss=np.full(1200, np.nan))
-    save_figure(plots.track_plot(res), tmp_path / "w.png")
+    save_figure(plots.track_plot(res, depth_axis="md"), tmp_path / "w.png")
     with pytest.raises(DepthError, match="TVDSS"):
         save_figure(plots.track_plot(res, depth_axis="tvdss"), tmp_path / "w2.png")
     assert not (tmp_path / "w2.png").exists()
@@ -287,7 +287,7 @@ def test_both_depth_axes(tmp_path, depth_axis):
     save_figure(plots.track_plot(res, depth_axis=depth_axis), out)
     assert out.read_bytes()[:8] == PNG_SIGNATURE
 
-    fig = plots.track_plot(res, depth_axis=depth_axis)
+    fig = plots.track_plot(res, depth_axis=depth_axis, interval="all")
     ax = fig.axes[0]
     depth = res.well.md if depth_axis == "md" else res.tvdss
     lo, hi = ax.get_ylim()
@@ -300,7 +300,7 @@ def test_both_depth_axes(tmp_path, depth_axis):
 
 def test_field_units_in_feet():
     res = make_result()
-    fig = plots.track_plot(res, units="field")
+    fig = plots.track_plot(res, units="field", depth_axis="md", interval="all")
     ax = fig.axes[0]
     lo, hi = ax.get_ylim()
     assert lo == pytest.approx(res.well.md.max() / FOOT_M)
@@ -401,7 +401,7 @@ def test_hydrocarbon_fill_and_flags_in_legend():
 
 def test_permeability_plotted_in_millidarcy():
     res = make_result()
-    fig = plots.track_plot(res)
+    fig = plots.track_plot(res, interval="all")
     lines = [ln for ax in fig.axes for ln in ax.get_lines() if ln.get_label() == "Permeability"]
     assert len(lines) == 1
     k_md = np.asarray(lines[0].get_xdata(), dtype=float)

@@ -28,8 +28,9 @@ from .project_types import Project, WellSpec, ZoneSpec
 from .results import FLAG_MEANINGS, WellResult
 from .roles import detect_roles, require_role, role_values
 from .well import Curve, HeaderItem, Well
-from ..plots import section_plot, track_plot
-from .figures import save_figure
+from .. import plots
+from ..plots.crossplot import crossplot_data
+from .figures import save_crossplots, save_figure
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -458,7 +459,8 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
 
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,
-                  plot: bool = True, depth_axis: str = "md") -> list[Path]:
+                  plot: bool = True, depth_axis: str = "md",
+                  plot_interval: str = "zones") -> list[Path]:
     """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = _safe_name(result.well.name)
@@ -480,7 +482,9 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
     if plot:
-        files += save_figure(track_plot(result, units=project.unit_system, depth_axis=depth_axis),
+        fig = plots.track_plot(result, units=project.unit_system, depth_axis=depth_axis,
+                               interval=plot_interval)
+        files += save_figure(fig,
                              out_dir / f"{stem}_tracks.png",
                              (out_dir / f"{stem}_tracks.pdf") if pdf else None)
     return files
@@ -501,7 +505,7 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "md", workers: int = 1,
-                keep_results: bool = True) -> RunReport:
+                keep_results: bool = True, plot_interval: str = "zones") -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
@@ -539,11 +543,13 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     names_seen: set[str] = set()
     locations: dict = {}
     if workers > 1 and len(project.wells) > 1:
-        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis)
+        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis,
+                                       plot_interval)
         locations = {o.name: getattr(spec, "location", None)
                      for spec, o in zip(project.wells, outcomes) if o.ok}
     for spec in (project.wells if not outcomes else ()):
-        outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen)
+        outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen,
+                               plot_interval)
         if outcome.ok:
             locations[outcome.name] = getattr(spec, "location", None)
             if not keep_results:
@@ -554,16 +560,22 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         outcomes.append(outcome)
     notes = []
     section_file = None
+    cross_files = []
     ok_results = [o.result if o.result is not None else o.section for o in outcomes
                   if o.ok and (o.result is not None or o.section is not None)]
     if plot and ok_results:
         try:
-            section_file = save_figure(section_plot(ok_results, units=project.unit_system,
+            section_file = save_figure(plots.section_plot(ok_results, units=project.unit_system,
                                                     locations=locations,
                                                     title=f"{project.name}: field section, TVDSS"),
                                        out_dir / "field_section.png")[0]
         except SatHeightError as exc:
             notes.append(f"field section not drawn: {exc}")
+        cross = [crossplot_data(r) if isinstance(r, WellResult) else r.cross for r in ok_results]
+        try:
+            cross_files = save_crossplots(cross, out_dir, project.unit_system)
+        except SatHeightError as exc:
+            notes.append(f"crossplots not drawn: {exc}")
     unused = sorted(set(getattr(project, "tops_pending", {})) - {o.name for o in outcomes})
     if unused:
         notes.append(f"tops file {project.tops_file}: rows of well(s) " + ", ".join(map(repr, unused))
@@ -580,6 +592,8 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     }
     if section_file is not None:
         summary["field_section"] = section_file.name
+    if cross_files:
+        summary["crossplots"] = [p.name for p in cross_files]
     if notes:
         summary["notes"] = notes
     summary["inputs"] = input_record(project)
@@ -613,11 +627,13 @@ def _section_view(result: WellResult, max_points: int = 4000):
     return SimpleNamespace(well=SimpleNamespace(name=result.well.name), zones=result.zones,
                            tvdss=thin(result.tvdss), north=thin(getattr(result, "north", None)),
                            east=thin(getattr(result, "east", None)),
-                           shm=SimpleNamespace(sw=thin(result.shm.sw)))
+                           shm=SimpleNamespace(sw=thin(result.shm.sw)),
+                           cross=crossplot_data(result))
 
 
 def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: bool,
-              depth_axis: str = "md", names_seen: set | None = None
+              depth_axis: str = "md", names_seen: set | None = None,
+              plot_interval: str = "zones"
               ) -> tuple[WellOutcome, str | None]:
     """Load, compute and write one well into ``out_dir``; never raises for that well.
 
@@ -639,7 +655,7 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: 
                 names_seen.add(safe)
             out_dir.mkdir(parents=True, exist_ok=True)
             files = write_outputs(result, project, out_dir, pdf=pdf, plot=plot,
-                                  depth_axis=depth_axis)
+                                  depth_axis=depth_axis, plot_interval=plot_interval)
         msgs += [str(c.message) for c in caught]
         return WellOutcome(result.well.name, True, files, None, msgs, result, result.summary), safe
     except SatHeightError as exc:
@@ -652,13 +668,15 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: 
 
 
 def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
-              depth_axis: str = "md") -> tuple[WellOutcome, str | None]:
+              depth_axis: str = "md", plot_interval: str = "zones"
+              ) -> tuple[WellOutcome, str | None]:
     """One well in a worker process (:func:`_one_well` into ``work_dir``).
 
     Returns the outcome without the arrays (``result`` None; with plots, the thinned
     view the field section needs) and the well's output name.
     """
-    outcome, safe = _one_well(project, spec, work_dir, pdf, plot, depth_axis)
+    outcome, safe = _one_well(project, spec, work_dir, pdf, plot, depth_axis,
+                              plot_interval=plot_interval)
     if outcome.result is not None:
         outcome.section = _section_view(outcome.result) if plot else None
         outcome.result = None
@@ -666,7 +684,8 @@ def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot:
 
 
 def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
-                        workers: int, depth_axis: str = "md") -> list[WellOutcome]:
+                        workers: int, depth_axis: str = "md",
+                        plot_interval: str = "zones") -> list[WellOutcome]:
     """Run the wells in ``workers`` processes; place their files in project order."""
     import os
     import shutil
@@ -678,7 +697,8 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
     names_seen: set[str] = set()
     try:
         with ProcessPoolExecutor(max_workers=min(workers, len(project.wells))) as pool:
-            futures = [pool.submit(_well_job, project, spec, work / str(i), pdf, plot, depth_axis)
+            futures = [pool.submit(_well_job, project, spec, work / str(i), pdf, plot, depth_axis,
+                                   plot_interval)
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
                 outcome, safe = fut.result()
