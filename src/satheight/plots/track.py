@@ -22,7 +22,8 @@ from dataclasses import dataclass
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
-from matplotlib.ticker import MultipleLocator
+from matplotlib.collections import LineCollection
+from matplotlib.ticker import MultipleLocator, NullLocator
 
 from ..errors import DepthError, SatHeightError, UnitError
 from ..results import WellResult
@@ -191,6 +192,31 @@ def _figure_size(tracks, length_m: float, page: str) -> tuple[float, float, floa
     return _LEFT + widths + _RIGHT, fig_h, 1.0
 
 
+#: gid of the minor depth ticks (one line collection, not one tick object each).
+MINOR_TICKS_GID = "depth minor ticks"
+
+
+def _minor_ticks(ax, top: float, base: float, minor: float, major: float) -> None:
+    """Short tick marks every ``minor`` step on the depth scale, outside the track's left edge."""
+    ys = np.arange(np.ceil(top / minor) * minor, base + minor * 1e-9, minor)
+    ys = ys[np.abs(np.remainder(ys + 0.5 * minor, major) - 0.5 * minor) > 1e-6 * minor]
+    length = 2.0 / 72.0 / (ax.get_position().width * ax.figure.get_size_inches()[0])  # 2 pt
+    segs = np.stack([np.column_stack([np.full_like(ys, -length), ys]),
+                     np.column_stack([np.zeros_like(ys), ys])], axis=1)
+    ax.add_collection(LineCollection(segs, colors="black", linewidths=0.6, clip_on=False,
+                                     transform=ax.get_yaxis_transform(), gid=MINOR_TICKS_GID))
+
+
+def _depth_grid(ax, top: float, base: float, minor: float, major: float) -> None:
+    """Horizontal grid lines at every minor and major depth step, as two line collections."""
+    for step, lw in ((minor, 0.3), (major, 0.7)):
+        ys = np.arange(np.ceil(top / step) * step, base + step * 1e-9, step)
+        segs = np.stack([np.column_stack([np.zeros_like(ys), ys]),
+                         np.column_stack([np.ones_like(ys), ys])], axis=1)
+        ax.add_collection(LineCollection(segs, colors=GRID_COLOUR, linewidths=lw, zorder=0.5,
+                                         transform=ax.get_yaxis_transform()))
+
+
 def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
            interval: str, page: str) -> Frame:
     """The figure with one axes per track sharing the depth scale (depth down)."""
@@ -208,24 +234,24 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
     fig = Figure(figsize=(fig_w, fig_h), dpi=DPI)
     FigureCanvasAgg(fig)
     plot_h = fig_h - _TOP - _BOTTOM
-    axes, x, first = {}, _LEFT, None
-    for key, width in tracks:
-        ax = fig.add_axes((x / fig_w, _BOTTOM / fig_h, width * k / fig_w, plot_h / fig_h),
-                          sharey=first)
-        if first is None:
-            first = ax
+    minor, major = depth_ticks(units, y_base - y_top, plot_h)
+    axes, x = {}, _LEFT
+    for i, (key, width) in enumerate(tracks):
+        # no shared y axis: each track would build its own hidden tick objects, the
+        # largest fixed cost of a figure; the limits are set alike instead
+        ax = fig.add_axes((x / fig_w, _BOTTOM / fig_h, width * k / fig_w, plot_h / fig_h))
+        ax.set_ylim(y_base, y_top)  # depth increases downwards
+        ax.yaxis.set_minor_locator(NullLocator())
+        if i == 0:
+            ax.yaxis.set_major_locator(MultipleLocator(major))
+            ax.tick_params(axis="y", labelsize=8)
+            _minor_ticks(ax, y_top, y_base, minor, major)
         else:
-            ax.tick_params(axis="y", which="both", labelleft=False)
+            ax.yaxis.set_major_locator(NullLocator())
         ax.grid(True, axis="x", which="major", color=GRID_COLOUR, lw=0.6, zorder=0.5)
-        ax.grid(True, axis="y", which="major", color=GRID_COLOUR, lw=0.7, zorder=0.5)
-        ax.grid(True, axis="y", which="minor", color=GRID_COLOUR, lw=0.3, zorder=0.5)
-        ax.tick_params(axis="y", labelsize=8)
+        _depth_grid(ax, y_top, y_base, minor, major)
         axes[key] = ax
         x += (width + _GAP) * k
-    first.set_ylim(y_base, y_top)  # depth increases downwards
-    minor, major = depth_ticks(units, y_base - y_top, plot_h)
-    first.yaxis.set_major_locator(MultipleLocator(major))
-    first.yaxis.set_minor_locator(MultipleLocator(minor))
     sel = _selection(y_si / scale, y_top, y_base)
     return Frame(fig=fig, axes=axes, sel=sel, y=y_si[sel] / scale, scale=scale,
                  length_unit=length_unit, depth_axis=depth_axis, y_top=y_top, y_base=y_base,
@@ -260,9 +286,9 @@ def _depth_scales(f: Frame, units: str) -> None:
     sec.yaxis.set_label_position("left")
     sec.set_ylabel(f"{other} [{f.length_unit}]", fontsize=9, color=GREY)
     sec.tick_params(axis="y", which="both", labelsize=8, colors=GREY)
-    minor, major = depth_ticks(units, f.y_base - f.y_top, f.plot_height)
+    _, major = depth_ticks(units, f.y_base - f.y_top, f.plot_height)
     sec.yaxis.set_major_locator(MultipleLocator(major))
-    sec.yaxis.set_minor_locator(MultipleLocator(minor))
+    sec.yaxis.set_minor_locator(NullLocator())  # labels every 50 m; ticks every 10 m on TVDSS
 
 
 def _points_depth(f: Frame, pts: DepthPoints) -> np.ndarray:

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import numpy as np
+from matplotlib.collections import LineCollection
 from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
 
@@ -60,7 +61,13 @@ def draw_rt(f: Frame, rt, name: str) -> None:
     ax = f.axes["rt"]
     header(ax, f"Resistivity {safe_text(name, 12)} [ohm.m]", BLACK, *RT_RANGE, log=True,
            ticks=[0.2, 2.0, 20.0, 200.0, 2000.0])
-    ax.grid(True, axis="x", which="minor", color="#D9D9D9", lw=0.3, zorder=0.5)
+    decades = np.arange(np.floor(np.log10(RT_RANGE[0])), np.ceil(np.log10(RT_RANGE[1])))
+    xs = (10.0 ** decades[:, None] * np.arange(2, 10)[None, :]).ravel()
+    xs = xs[(xs > RT_RANGE[0]) & (xs < RT_RANGE[1])]
+    ax.add_collection(LineCollection(  # minor grid of the log scale, without tick objects
+        np.stack([np.column_stack([xs, np.zeros_like(xs)]),
+                  np.column_stack([xs, np.ones_like(xs)])], axis=1),
+        colors="#D9D9D9", linewidths=0.3, zorder=0.5, transform=ax.get_xaxis_transform()))
     f.line(ax, positive(f.take(rt)), color=BLACK, lw=0.8, zorder=3, label="Resistivity")
     f.handles.append(Line2D([], [], color=BLACK, lw=1, label="Resistivity"))
 
@@ -89,12 +96,13 @@ def draw_sw(f: Frame, sw, sw_log, source: str, kind) -> None:
         f.handles.append(Patch(facecolor=colour, alpha=_HC_ALPHA, label=hydrocarbon_label(hc)))
     if sw_log is not None:
         both = sw_ok & np.isfinite(sw_log)
-        wetter, drier = both & (sw_log > sw), both & (sw_log < sw)
-        if wetter.any():
-            f.fill(ax, sw, sw_log, wetter, color=_WETTER, alpha=0.75, lw=0, zorder=2)
+        # one fill each between SHM Sw and max / min of the two curves: zero width where
+        # the other side holds, so a noisy log gives one shape, not one per crossing
+        if (both & (sw_log > sw)).any():
+            f.fill(ax, sw, np.fmax(sw, sw_log), both, color=_WETTER, alpha=0.75, lw=0, zorder=2)
             f.handles.append(Patch(color=_WETTER, alpha=0.75, label="Log Sw above SHM Sw"))
-        if drier.any():
-            f.fill(ax, sw_log, sw, drier, color=_DRIER, alpha=0.6, lw=0, zorder=2)
+        if (both & (sw_log < sw)).any():
+            f.fill(ax, np.fmin(sw, sw_log), sw, both, color=_DRIER, alpha=0.6, lw=0, zorder=2)
             f.handles.append(Patch(color=_DRIER, alpha=0.6, label="Log Sw below SHM Sw"))
     f.line(ax, sw, color=BLACK, lw=2.0, zorder=3.0, label="SHM Sw")
     f.handles.append(Line2D([], [], color=BLACK, lw=2.0, label="SHM Sw"))

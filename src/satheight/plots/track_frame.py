@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 from matplotlib.figure import Figure
-from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter
+from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter, NullLocator
 
 from .decimate import BINS_PER_INCH, envelope_indices
 from .depths import level_crossings
@@ -147,6 +147,7 @@ def header(ax, label: str, colour: str, lo: float, hi: float, log: bool = False,
         ax.xaxis.set_major_locator(LogLocator(base=10, numticks=5))
         ax.xaxis.set_major_formatter(FuncFormatter(_plain_format))
     if log:
+        ax.xaxis.set_minor_locator(NullLocator())   # minor ticks: many tick objects, no reading
         ax.xaxis.set_minor_formatter(NullFormatter())
 
 
