@@ -12,7 +12,7 @@ import pytest
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
-from satheight.plots.decimate import envelope_indices
+from satheight.plots.decimate import BINS_PER_INCH, envelope_indices
 
 
 def per_bin_extremes(y, x, lo, hi, bins):
@@ -104,7 +104,7 @@ def _render(y, x, height_in=10.0):
 def test_thinned_line_renders_like_the_whole_line(spiky):
     """Agg's picture of the thinned curve matches that of all 200,000 samples."""
     y, x, _, _ = spiky
-    bins = int(10.0 * 220)                         # two bins per pixel row at 110 dpi
+    bins = int(10.0 * BINS_PER_INCH)               # the plot's own thinning on 10 inch
     i = envelope_indices(y, [x], y.min(), y.max(), bins)
     full, thin = _render(y, x), _render(y[i], x[i])
     differ = np.abs(full - thin) > 64              # more than a quarter of the grey scale

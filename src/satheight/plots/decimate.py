@@ -15,7 +15,9 @@ import numpy as np
 
 __all__ = ["envelope_indices", "BINS_PER_INCH"]
 
-#: Depth bins per inch of track: two per pixel row at 110 dots per inch.
+#: Depth bins per inch of track: two per pixel row at 110 dots per inch (each bin keeps
+#: up to four samples per curve: first, last, smallest, largest). One bin per row
+#: changes about 1 % of the pixels of a spiky curve, two about 0.2 %.
 BINS_PER_INCH = 220
 
 
@@ -70,4 +72,7 @@ def envelope_indices(y, curves, lo: float, hi: float, bins: int, categories=None
         v0 = np.where(finite, v, 0.0)  # non-finite runs: their first sample stands for them
         keep.append(_extreme_index(v0, starts, run_of, idx, n, np.minimum))
         keep.append(_extreme_index(v0, starts, run_of, idx, n, np.maximum))
-    return np.unique(np.concatenate(keep))
+    chosen = np.zeros(n, dtype=bool)
+    for k in keep:
+        chosen[k] = True
+    return np.flatnonzero(chosen)
