@@ -154,3 +154,16 @@ def test_no_log_sw_gives_no_data_and_class_roots_ignore_bad_samples():
     roots = class_roots([cw], [np.ones(4, bool)])
     # only the first sample is usable: sqrt(1e-13 / 0.25) (computed)
     np.testing.assert_allclose(roots, np.sqrt(1e-13 / 0.25))
+
+
+def test_run_writes_one_png_per_zone_with_safe_distinct_names(tmp_path):
+    from satheight.workflows.figures import save_crossplots
+
+    a, b = power_zone("Sand/A"), power_zone("Sand A")   # both become "Sand_A" in a file name
+    wa = make_well("W1", np.sqrt(1e-13 / 0.25), zone=a)
+    wb = make_well("W2", np.sqrt(1e-13 / 0.25), zone=b)
+    files = save_crossplots([crossplot_data(wa), None, crossplot_data(wb)], tmp_path)
+    assert [p.name for p in files] == ["crossplot_Sand_A.png", "crossplot_Sand_A_2.png"]
+    for p in files:
+        assert p.read_bytes()[:8] == PNG_SIGNATURE
+    assert sorted(x.name for x in tmp_path.iterdir()) == [p.name for p in files]
