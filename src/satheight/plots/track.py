@@ -45,7 +45,7 @@ _INTERVALS = ("zones", "all")
 _LEFT = 1.75        # room for the two depth scales
 _RIGHT = 1.35       # room for zone names
 _TOP = 1.75         # title and the two stacked scale headers of each track
-_BOTTOM = 1.05      # legend
+_BOTTOM = {"screen": 1.05, "a4": 1.5}   # legend
 _GAP = 0.22
 _HEIGHT_LIMITS = (10.0, 30.0)
 _METRES_PER_INCH = 25.0
@@ -188,7 +188,7 @@ def _figure_size(tracks, length_m: float, page: str) -> tuple[float, float, floa
     if page == "a4":
         fig_w, fig_h = PAGES["a4"]
         return fig_w, fig_h, (fig_w - _LEFT - _RIGHT) / widths
-    fig_h = float(np.clip(_TOP + _BOTTOM + length_m / _METRES_PER_INCH, *_HEIGHT_LIMITS))
+    fig_h = float(np.clip(_TOP + _BOTTOM[page] + length_m / _METRES_PER_INCH, *_HEIGHT_LIMITS))
     return _LEFT + widths + _RIGHT, fig_h, 1.0
 
 
@@ -233,13 +233,14 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
     fig_w, fig_h, k = _figure_size(tracks, (y_base - y_top) * scale, page)
     fig = Figure(figsize=(fig_w, fig_h), dpi=DPI)
     FigureCanvasAgg(fig)
-    plot_h = fig_h - _TOP - _BOTTOM
+    bottom = _BOTTOM[page]
+    plot_h = fig_h - _TOP - bottom
     minor, major = depth_ticks(units, y_base - y_top, plot_h)
     axes, x = {}, _LEFT
     for i, (key, width) in enumerate(tracks):
         # no shared y axis: each track would build its own hidden tick objects, the
         # largest fixed cost of a figure; the limits are set alike instead
-        ax = fig.add_axes((x / fig_w, _BOTTOM / fig_h, width * k / fig_w, plot_h / fig_h))
+        ax = fig.add_axes((x / fig_w, bottom / fig_h, width * k / fig_w, plot_h / fig_h))
         ax.set_ylim(y_base, y_top)  # depth increases downwards
         ax.yaxis.set_minor_locator(NullLocator())
         if i == 0:
@@ -341,9 +342,10 @@ def _title_and_legend(f: Frame, result: WellResult, title: str | None) -> None:
         sub += (f"; depth datum {result.datum_elevation / f.scale:.6g} {f.length_unit} "
                 "above sea level")
     f.fig.text(0.5, 1.0 - 0.48 / fig_h, sub, ha="center", va="top", fontsize=8, color="#444444")
-    ncol = max(1, min(5, int((fig_w - 0.4) // 2.1)))
+    ncol = max(1, min(5, int((fig_w - 0.4) // 2.1))) if fig_w >= 9 else 4
     f.fig.legend(handles=f.handles, loc="lower center", bbox_to_anchor=(0.5, 0.05 / fig_h),
-                 ncol=ncol, fontsize=7 if fig_w < 9 else 8, frameon=False, handlelength=2.2)
+                 ncol=ncol, fontsize=6.5 if fig_w < 9 else 8, frameon=False,
+                 handlelength=2.2 if fig_w >= 9 else 1.6, columnspacing=1.0)
 
 
 def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metric",

@@ -6,6 +6,7 @@ import numpy as np
 from matplotlib.collections import LineCollection
 from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
+from matplotlib.ticker import MaxNLocator
 
 from .. import constants as C
 from ..results import FLAG_NO_ZONE
@@ -139,7 +140,9 @@ def draw_pressure_header(f: Frame, values, unit: str) -> None:
     """Scale of the pressure track from the points shown [display unit]."""
     r = finite_range(values) or (0.0, 1.0)
     pad = 0.05 * (r[1] - r[0]) or max(abs(r[0]) * 0.01, 1.0)
-    header(f.axes["p"], f"Pressure [{safe_text(unit, 8)}]", BLACK, r[0] - pad, r[1] + pad)
+    ax = f.axes["p"]
+    header(ax, f"Pressure [{safe_text(unit, 8)}]", BLACK, r[0] - pad, r[1] + pad)
+    ax.xaxis.set_major_locator(MaxNLocator(2))
 
 
 def draw_height(f: Frame, h, j, units: str, notes: list[str], j_range) -> None:

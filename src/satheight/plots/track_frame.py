@@ -138,8 +138,11 @@ def header(ax, label: str, colour: str, lo: float, hi: float, log: bool = False,
     ax.xaxis.set_ticks_position("top")
     ax.xaxis.set_label_position("top")
     ax.spines["top"].set_position(("outward", outward))
-    ax.set_xlabel(label, color=colour, fontsize=9, labelpad=3)
-    ax.tick_params(axis="x", colors=colour, labelsize=7, pad=1, length=3)
+    narrow = ax.get_position().width * ax.figure.get_size_inches()[0] < 1.3   # [inch]
+    if narrow:   # a narrow track (A4 page): the unit under the name, smaller text
+        label = label.replace(" [", "\n[", 1)
+    ax.set_xlabel(label, color=colour, fontsize=7.5 if narrow else 9, labelpad=3)
+    ax.tick_params(axis="x", colors=colour, labelsize=6 if narrow else 7, pad=1, length=3)
     if ticks is not None:
         ax.xaxis.set_major_locator(FixedLocator(ticks))
         ax.xaxis.set_major_formatter(FuncFormatter(_plain_format))
