@@ -115,7 +115,7 @@ def test_same_j_scale_in_every_well():
         (j_ax,) = [ax for ax in fig.axes if ax.get_xlabel() == "J [-]"]
         lims.append(j_ax.get_xlim())
     assert lims[0] == pytest.approx(lims[1])
-    assert lims[0] == pytest.approx((1e-3, 1e2))
+    assert lims[0] == pytest.approx((1e-3, 1e2))   # the plot's stated fixed J scale
 
 
 # ----------------------------------------------------------------- measured points
@@ -130,11 +130,11 @@ def test_core_plug_sw_and_pressures_on_their_tracks():
     fig = plots.track_plot(res, core_sw=core, pressures=press)
     marks = [ln for ax in fig.axes for ln in ax.get_lines() if ln.get_linestyle() == "None"]
     assert len(marks) == 2
-    by_len = {tuple(np.round(ln.get_xdata(), 6)): ln for ln in marks}
+    by_len = {tuple(np.round(np.asarray(ln.get_xdata(), float), 6)): ln for ln in marks}
     core_line = by_len[(0.3, 0.6)]
     # vertical well: TVDSS = MD - datum (make_result)
     np.testing.assert_allclose(core_line.get_ydata(), [1575.0, 1725.0])
-    p_line = by_len[(18000.0, 18200.0)]   # Pa -> kPa
+    p_line = by_len[tuple(np.round(np.array([18.0e6, 18.2e6]) / KPA, 6))]   # Pa -> kPa (SI)
     np.testing.assert_allclose(p_line.get_ydata(), [1600.0, 1700.0])
     assert "Pressure [kPa]" in [ax.get_xlabel() for ax in fig.axes]
     assert "Core \\$plug\\$ Sw" in legend_labels(fig)
