@@ -355,17 +355,17 @@ def case_well(args) -> dict:
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     r, _ = P.compute_well(warm, warm.wells[0])             # imports and first-call costs
-    O.write_outputs(r, warm, out, plot=False)
+    O.write_outputs(r, warm, out, O.NO_PLOTS)
     project = load_project(args.project)
     spec = project.wells[0]
     res = {"load": _measure(lambda: read_las(spec.las), args.repeat)}
     result, _ = P.compute_well(project, spec)
-    res["write"] = _measure(lambda: O.write_outputs(result, project, out, plot=False), args.repeat)
+    res["write"] = _measure(lambda: O.write_outputs(result, project, out, O.NO_PLOTS), args.repeat)
     del result
 
     def e2e():
         res_, _ = P.compute_well(project, spec)
-        return O.write_outputs(res_, project, out, plot=False)
+        return O.write_outputs(res_, project, out, O.NO_PLOTS)
 
     res["e2e"] = _measure(e2e, args.repeat)
     return res
@@ -416,7 +416,8 @@ def case_montecarlo(args) -> dict:
     """Monte Carlo of one well (``well_uncertainty``: realisations and tornado) against one
     deterministic no-plot run of the same well (compute, write LAS, CSV, JSON)."""
     from satheight.project.reader import load_project
-    from satheight.workflows import run as R
+    from satheight.workflows import outputs as O
+    from satheight.workflows import well as W
     from satheight.workflows.uncertainty import well_uncertainty
 
     det = load_project(args.project)
@@ -424,15 +425,15 @@ def case_montecarlo(args) -> dict:
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     spec = det.wells[0]
-    result, _ = R.compute_well(det, spec)                  # imports and first-call costs
-    R.write_outputs(result, det, out, plot=False)
+    result, _ = W.compute_well(det, spec)                  # imports and first-call costs
+    O.write_outputs(result, det, out, O.NO_PLOTS)
 
     def e2e():
-        res_, _ = R.compute_well(det, spec)
-        return R.write_outputs(res_, det, out, plot=False)
+        res_, _ = W.compute_well(det, spec)
+        return O.write_outputs(res_, det, out, O.NO_PLOTS)
 
     res = {"deterministic": _measure(e2e, args.repeat)}
-    result, _ = R.compute_well(unc, spec)
+    result, _ = W.compute_well(unc, spec)
     res["montecarlo"] = _measure(lambda: well_uncertainty(unc, result), args.repeat)
     s = unc.uncertainty.settings
     res.update(realisations=s.realisations, samples=int(result.tvdss.size), memory_mb=s.memory_mb)

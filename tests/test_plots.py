@@ -1,4 +1,4 @@
-"""Tests of the well track plot (satheight.plots).
+"""Tests of the well track plot (satheight.plots.track) and of writing it (workflows.figures).
 
 All well data here is invented: smooth synthetic logs with a simple power-law
 J-Sw relation, built only to exercise the plot.
@@ -16,6 +16,8 @@ from matplotlib import cbook
 from matplotlib.figure import Figure
 
 from satheight import plots
+from satheight.plots.depths import zone_intervals
+from satheight.workflows.figures import save_figure
 from satheight.errors import DepthError, InputFileError, UnitError
 from satheight.results import FLAG_BAD_POROSITY, FLAG_NO_ZONE, ShmResult, WellResult
 from satheight.well import Curve, Well
@@ -32,7 +34,8 @@ FOOT_M = 0.3048
 
 def zone(name, top, base, fwl, hydrocarbon="oil"):
     """Stand-in for the engine's zone object (only the attributes the plot reads)."""
-    return SimpleNamespace(name=name, top=top, base=base, fwl=fwl, hydrocarbon=hydrocarbon)
+    return SimpleNamespace(name=name, top=top, base=base, fwl=fwl, hydrocarbon=hydrocarbon,
+                           gas_oil_level=None)
 
 
 def make_result(n=1200, top_md=1500.0, step=0.5, datum=25.0, gr=True, rt=True, sw_log=True,
@@ -103,8 +106,7 @@ def legend_labels(fig):
 
 def test_png_written_with_signature(tmp_path):
     out = tmp_path / "well.png"
-    written = plots.track_plot(make_result(), out)
-    # README (Outputs): <WELL>_tracks.png, .pdf only with --pdf
+    written = save_figure(plots.track_plot(make_result()), out)
     assert written == [out]
     data = out.read_bytes()
     assert len(data) > 1000
@@ -113,23 +115,20 @@ def test_png_written_with_signature(tmp_path):
 
 def test_pdf_written_when_asked(tmp_path):
     png, pdf = tmp_path / "w.png", tmp_path / "w.pdf"
-    written = plots.track_plot(make_result(), png, pdf_path=pdf)
-    # README (Outputs): the PNG and, with --pdf, the PDF
+    written = save_figure(plots.track_plot(make_result()), png, pdf)
     assert written == [png, pdf]
     assert pdf.read_bytes()[:5] == PDF_HEADER
     assert png.read_bytes()[:8] == PNG_SIGNATURE
 
 
 def test_no_pdf_unless_asked(tmp_path):
-    plots.track_plot(make_result(), tmp_path / "w.png")
-    # README (Outputs): no temporary file left behind
+    save_figure(plots.track_plot(make_result()), tmp_path / "w.png")
     assert sorted(p.name for p in tmp_path.iterdir()) == ["w.png"]
 
 
 def test_no_temp_file_left_behind(tmp_path):
-    plots.track_plot(make_result(), tmp_path / "a.png", pdf_path=tmp_path / "a.pdf")
+    save_figure(plots.track_plot(make_result()), tmp_path / "a.png", tmp_path / "a.pdf")
     names = sorted(os.listdir(tmp_path))
-    # README (Outputs): the PDF only when asked
     assert names == ["a.pdf", "a.png"]
     assert not any(n.startswith(".") or n.endswith(".tmp") for n in names)
 
@@ -137,8 +136,7 @@ def test_no_temp_file_left_behind(tmp_path):
 def test_existing_file_is_replaced(tmp_path):
     out = tmp_path / "w.png"
     out.write_bytes(b"old content")
-    plots.track_plot(make_result(), out)
-    # rfc2083: the PNG signature; README (Outputs): an existing file is replaced whole
+    save_figure(plots.track_plot(make_result()), out)
     assert out.read_bytes()[:8] == PNG_SIGNATURE
 
 
@@ -152,8 +150,7 @@ def test_failed_save_keeps_old_file_and_leaves_no_temp(tmp_path, monkeypatch):
 
     monkeypatch.setattr(Figure, "savefig", broken_savefig)
     with pytest.raises(RuntimeError, match="simulated"):
-        plots.track_plot(make_result(), png, pdf_path=pdf)
-    # README (Outputs): a failed save keeps the old complete file
+        save_figure(plots.track_plot(make_result()), png, pdf)
     assert png.read_bytes() == b"old png"
     assert pdf.read_bytes() == b"old pdf"
     assert sorted(os.listdir(tmp_path)) == ["w.pdf", "w.png"]
@@ -172,15 +169,14 @@ def test_failed_pdf_save_keeps_old_png_too(tmp_path, monkeypatch):
 
     monkeypatch.setattr(Figure, "savefig", savefig_pdf_fails)
     with pytest.raises(RuntimeError, match="simulated"):
-        plots.track_plot(make_result(), png, pdf_path=pdf)
-    # README (Outputs): a PNG and PDF of one figure are renamed only when both are saved
+        save_figure(plots.track_plot(make_result()), png, pdf)
     assert png.read_bytes() == b"old png"
     assert sorted(os.listdir(tmp_path)) == ["w.png"]
 
 
 def test_missing_output_folder_is_a_clear_error(tmp_path):
     with pytest.raises(InputFileError, match="does not exist"):
-        plots.track_plot(make_result(), tmp_path / "nope" / "w.png")
+        save_figure(plots.track_plot(make_result()), tmp_path / "nope" / "w.png")
 
 
 def test_input_not_modified(tmp_path):
@@ -188,9 +184,8 @@ def test_input_not_modified(tmp_path):
     before = {k: np.copy(getattr(res, k)) for k in ("tvdss", "phi", "k", "rt", "sw_log")}
     shm_before = {k: np.copy(getattr(res.shm, k)) for k in ("sw", "hafwl", "j", "flag", "zone")}
     md_before = res.well.md.copy()
-    plots.track_plot(res, tmp_path / "w.png")
+    save_figure(plots.track_plot(res), tmp_path / "w.png")
     for k, v in before.items():
-        # common practice (the project's rule): inputs are never modified (exact copies)
         np.testing.assert_array_equal(getattr(res, k), v)
     for k, v in shm_before.items():
         np.testing.assert_array_equal(getattr(res.shm, k), v)
@@ -201,16 +196,14 @@ def test_input_not_modified(tmp_path):
 
 
 def test_tracks_follow_available_curves():
-    full = plots._track_figure(make_result())
+    full = plots.track_plot(make_result())
     labels = " | ".join(all_xlabels(full))
-    # README (Outputs): the track plot's tracks (GR, resistivity, log Sw) when the curves exist
     assert "Gr [GAPI]" in labels
     assert "Resistivity" in labels
     assert "Log Sw (SWE)" in legend_labels(full)
 
-    bare = plots._track_figure(make_result(gr=False, rt=False, sw_log=False))
+    bare = plots.track_plot(make_result(gr=False, rt=False, sw_log=False))
     labels = " | ".join(all_xlabels(bare))
-    # README (Outputs): tracks without data are left out
     assert "Gr" not in labels and "Resistivity" not in labels
     for needed in ("Porosity", "Permeability", "Water saturation", "Height above FWL", "J"):
         assert needed in labels
@@ -221,23 +214,22 @@ def test_tracks_follow_available_curves():
 
 def test_missing_optional_curves_write_a_png(tmp_path):
     out = tmp_path / "w.png"
-    plots.track_plot(make_result(gr=False, rt=False, sw_log=False), out)
+    save_figure(plots.track_plot(make_result(gr=False, rt=False, sw_log=False)), out)
     assert out.read_bytes()[:8] == PNG_SIGNATURE
 
 
 def test_all_nan_curves(tmp_path):
     out = tmp_path / "w.png"
-    plots.track_plot(make_result(all_nan=True), out, pdf_path=tmp_path / "w.pdf")
+    save_figure(plots.track_plot(make_result(all_nan=True)), out, tmp_path / "w.pdf")
     assert out.read_bytes()[:8] == PNG_SIGNATURE
     assert (tmp_path / "w.pdf").read_bytes()[:5] == PDF_HEADER
 
 
 def test_all_nan_tvdss_md_axis_works_and_tvdss_axis_is_a_clear_error(tmp_path):
     res = make_result(tvdss=np.full(1200, np.nan))
-    plots.track_plot(res, tmp_path / "w.png")
+    save_figure(plots.track_plot(res, depth_axis="md"), tmp_path / "w.png")
     with pytest.raises(DepthError, match="TVDSS"):
-        plots.track_plot(res, tmp_path / "w2.png", depth_axis="tvdss")
-    # README (Bad input): an all-NaN TVDSS axis is a clear error and writes no file
+        save_figure(plots.track_plot(res, depth_axis="tvdss"), tmp_path / "w2.png")
     assert not (tmp_path / "w2.png").exists()
 
 
@@ -245,7 +237,7 @@ def test_no_zones(tmp_path):
     res = make_result()
     res.zones = []
     res.shm.zone[:] = -1
-    plots.track_plot(res, tmp_path / "w.png")
+    save_figure(plots.track_plot(res), tmp_path / "w.png")
     assert (tmp_path / "w.png").stat().st_size > 0
 
 
@@ -264,15 +256,13 @@ def test_dollar_and_backslash_in_names_do_not_raise(tmp_path):
     res = make_result(name=nasty, zones=zones)
     res.well.curves["Gr"].mnemonic = "G$\\r{$"
     out = tmp_path / "w.png"
-    plots.track_plot(res, out, pdf_path=tmp_path / "w.pdf")
+    save_figure(plots.track_plot(res), out, tmp_path / "w.pdf")
     assert out.read_bytes()[:8] == PNG_SIGNATURE
 
 
 def test_safe_text_is_not_mathtext_and_shows_the_original():
     for raw in ["A$b$c", "x\\$y$", "$\\frac{1}{2}$", "plain"]:
         safe = plots.safe_text(raw)
-        # README (Bad input, Project file): text from inputs reaches plot titles with $ escaped;
-        # library: matplotlib.cbook.is_math_text
         assert not cbook.is_math_text(safe)
         # matplotlib shows "\$" as "$" outside math mode (matplotlib Text docs)
         assert safe.replace("\\$", "$") == raw
@@ -280,10 +270,9 @@ def test_safe_text_is_not_mathtext_and_shows_the_original():
 
 
 def test_title_is_the_well_name_unless_given():
-    fig = plots._track_figure(make_result(name="Well $A$"))
-    # README (Bad input, Project file): $ escaped in titles
+    fig = plots.track_plot(make_result(name="Well $A$"))
     assert "Well \\$A\\$" in all_texts(fig)
-    fig = plots._track_figure(make_result(name="Well A"), title="My title")
+    fig = plots.track_plot(make_result(name="Well A"), title="My title")
     texts = all_texts(fig)
     assert "My title" in texts and "Well A" not in texts
 
@@ -295,14 +284,13 @@ def test_title_is_the_well_name_unless_given():
 def test_both_depth_axes(tmp_path, depth_axis):
     res = make_result(datum=25.0)
     out = tmp_path / f"{depth_axis}.png"
-    plots.track_plot(res, out, depth_axis=depth_axis)
+    save_figure(plots.track_plot(res, depth_axis=depth_axis), out)
     assert out.read_bytes()[:8] == PNG_SIGNATURE
 
-    fig = plots._track_figure(res, depth_axis=depth_axis)
+    fig = plots.track_plot(res, depth_axis=depth_axis, interval="all")
     ax = fig.axes[0]
     depth = res.well.md if depth_axis == "md" else res.tvdss
     lo, hi = ax.get_ylim()
-    # common practice: depth increases downwards on a log track; limits = the data's range
     assert lo == pytest.approx(depth.max()) and hi == pytest.approx(depth.min())  # depth down
     assert ax.get_ylabel() == ("MD [m]" if depth_axis == "md" else "TVDSS [m]")
     other = [c for c in ax.child_axes]
@@ -312,10 +300,9 @@ def test_both_depth_axes(tmp_path, depth_axis):
 
 def test_field_units_in_feet():
     res = make_result()
-    fig = plots._track_figure(res, units="field")
+    fig = plots.track_plot(res, units="field", depth_axis="md", interval="all")
     ax = fig.axes[0]
     lo, hi = ax.get_ylim()
-    # nist2008: m -> ft (FOOT_M); common practice: depth down
     assert lo == pytest.approx(res.well.md.max() / FOOT_M)
     assert hi == pytest.approx(res.well.md.min() / FOOT_M)
     assert ax.get_ylabel() == "MD [ft]"
@@ -324,21 +311,20 @@ def test_field_units_in_feet():
 
 def test_secondary_axis_maps_md_to_tvdss():
     res = make_result(datum=40.0)
-    fig = plots._track_figure(res, depth_axis="md")
+    fig = plots.track_plot(res, depth_axis="md")
     fig.canvas.draw()
     main_ax = fig.axes[0]
     sec = main_ax.child_axes[0]
     lo, hi = main_ax.get_ylim()
-    # closed form: vertical well, TVDSS = MD - datum (40 m given)
     np.testing.assert_allclose(sec.get_ylim(), (lo - 40.0, hi - 40.0))
 
 
 def test_bad_arguments():
     res = make_result()
     with pytest.raises(DepthError, match="depth axis"):
-        plots._track_figure(res, depth_axis="tvd")
+        plots.track_plot(res, depth_axis="tvd")
     with pytest.raises(UnitError, match="unit system"):
-        plots._track_figure(res, units="imperial")
+        plots.track_plot(res, units="imperial")
 
 
 # ------------------------------------------------------------- zones and FWL
@@ -346,26 +332,24 @@ def test_bad_arguments():
 
 def test_zone_intervals_vertical_and_deviated():
     md = np.linspace(1000.0, 2000.0, 1001)
-    # closed form: vertical, TVDSS = MD - 30
-    ivs = plots._zone_intervals(md, md - 30.0, 1200.0, 1300.5)
+    # vertical: TVDSS = MD - 30 (computed)
+    ivs = zone_intervals(md, md - 30.0, 1200.0, 1300.5)
     assert ivs == [pytest.approx((1230.0, 1330.5))]
-    # closed form: constant 60 deg inclination, TVDSS = MD cos 60 = MD / 2
-    ivs = plots._zone_intervals(md, md * 0.5, 600.0, 700.0)
+    # constant 60 deg inclination: TVDSS = MD cos 60 = MD / 2 (computed)
+    ivs = zone_intervals(md, md * 0.5, 600.0, 700.0)
     assert ivs == [pytest.approx((1200.0, 1400.0))]
     # window running past the log stops at the log ends
-    # closed form: the window clipped to the log's 1000-2000 m; none outside it
-    assert plots._zone_intervals(md, md, 500.0, 1100.0) == [pytest.approx((1000.0, 1100.0))]
+    assert zone_intervals(md, md, 500.0, 1100.0) == [pytest.approx((1000.0, 1100.0))]
     # window outside the log
-    assert plots._zone_intervals(md, md, 2500.0, 2600.0) == []
+    assert zone_intervals(md, md, 2500.0, 2600.0) == []
 
 
 def test_zone_intervals_well_passing_window_twice():
     md = np.linspace(0.0, 400.0, 401)
     tv = np.where(md <= 200.0, md, 400.0 - md)  # down to 200 then back up (invented)
-    ivs = plots._zone_intervals(md, tv, 150.0, 250.0)
-    # closed form: down to 200 m and back up; a window crossed twice gives two MD intervals
+    ivs = zone_intervals(md, tv, 150.0, 250.0)
     assert ivs == [pytest.approx((150.0, 250.0))]
-    ivs = plots._zone_intervals(md, tv, 100.0, 150.0)
+    ivs = zone_intervals(md, tv, 100.0, 150.0)
     assert ivs == [pytest.approx((100.0, 150.0)), pytest.approx((250.0, 300.0))]
 
 
@@ -373,15 +357,13 @@ def test_fwl_line_and_zone_name_drawn_at_md_of_fwl():
     datum = 25.0
     zones = [zone("Sand A", 1600.0, 1800.0, 1750.0, "oil")]
     res = make_result(datum=datum, zones=zones)
-    fig = plots._track_figure(res, depth_axis="md")
+    fig = plots.track_plot(res, depth_axis="md")
     texts = all_texts(fig)
-    # README (Outputs): zone bands and FWL lines on the track plot
     assert "FWL Sand A" in texts and "Sand A" in texts
     fwl_md = 1750.0 + datum  # vertical well: MD = TVDSS + datum elevation
     for ax in fig.axes[:1]:
         ys = [ln.get_ydata()[0] for ln in ax.get_lines()
               if len(ln.get_ydata()) == 2 and ln.get_ydata()[0] == ln.get_ydata()[1]]
-        # closed form worked above: MD = TVDSS + datum
         assert any(y == pytest.approx(fwl_md) for y in ys)
 
 
@@ -390,25 +372,22 @@ def test_free_oil_level_drawn_for_gas_cap_zone():
     z = zone("Cap", 1600.0, 1800.0, 1750.0, "oil")
     z.gas_oil_level = 1680.0
     res = make_result(datum=datum, zones=[z])
-    fig = plots._track_figure(res, depth_axis="md")
-    # README (Fluid densities, gas caps): the free-oil level is drawn for a gas-cap zone
+    fig = plots.track_plot(res, depth_axis="md")
     assert "Free-oil level Cap" in all_texts(fig)
     ys = [ln.get_ydata()[0] for ln in fig.axes[0].get_lines()
           if len(ln.get_ydata()) == 2 and ln.get_ydata()[0] == ln.get_ydata()[1]]
-    assert any(y == pytest.approx(1680.0 + datum) for y in ys)  # closed form: MD = TVDSS + datum
+    assert any(y == pytest.approx(1680.0 + datum) for y in ys)  # vertical: MD = TVDSS + datum
 
 
 def test_fwl_below_log_gets_a_note():
     zones = [zone("Deep", 1600.0, 1800.0, 5000.0, "gas")]
-    fig = plots._track_figure(make_result(zones=zones))
-    # README (Bad input, Values): FWL below a zone's deepest sample gives a note
+    fig = plots.track_plot(make_result(zones=zones))
     assert any("FWL Deep below the log" in t for t in all_texts(fig))
 
 
 def test_hydrocarbon_fill_and_flags_in_legend():
-    fig = plots._track_figure(make_result())
+    fig = plots.track_plot(make_result())
     labels = legend_labels(fig)
-    # README (Outputs): the hydrocarbon fill and the flags in the legend
     assert any(lbl.startswith("Gas") for lbl in labels)
     assert any(lbl.startswith("Oil") for lbl in labels)
     assert "Outside every zone" in labels
@@ -416,19 +395,16 @@ def test_hydrocarbon_fill_and_flags_in_legend():
 
     res = make_result()
     res.shm.flag[:] = 0
-    labels = legend_labels(plots._track_figure(res))
-    # README (Outputs): legend entries only for what is drawn
+    labels = legend_labels(plots.track_plot(res))
     assert not any(lbl.startswith("Flagged") or lbl == "Outside every zone" for lbl in labels)
 
 
 def test_permeability_plotted_in_millidarcy():
     res = make_result()
-    fig = plots._track_figure(res)
+    fig = plots.track_plot(res, interval="all")
     lines = [ln for ax in fig.axes for ln in ax.get_lines() if ln.get_label() == "Permeability"]
-    # README (Outputs): permeability on a log scale in mD (nist2008 factor below)
     assert len(lines) == 1
     k_md = np.asarray(lines[0].get_xdata(), dtype=float)
-    # nist2008: m^2 -> mD (MD_IN_M2)
     np.testing.assert_allclose(k_md, res.k / MD_IN_M2, rtol=1e-12)
 
 
@@ -436,7 +412,6 @@ def test_every_figure_file_is_fsynced_through_atomic(tmp_path, monkeypatch):
     """Figures go through io/atomic.py: each written file is fsynced before its rename."""
     import stat
 
-    from satheight import contact_plots, core_plots
     from satheight.io import atomic
 
     synced = []
@@ -449,14 +424,19 @@ def test_every_figure_file_is_fsynced_through_atomic(tmp_path, monkeypatch):
 
     monkeypatch.setattr(atomic.os, "fsync", counting_fsync)
     png, pdf = tmp_path / "w.png", tmp_path / "w.pdf"
-    plots.track_plot(make_result(), png, pdf_path=pdf)
-    # README (Outputs): figure files go through io/atomic.py, flushed to disk before the rename
+    save_figure(plots.track_plot(make_result()), png, pdf)
     assert len(synced) == 2
     fig = Figure()
     fig.add_subplot().plot([0, 1], [1, 0])
-    for save in (core_plots._save, contact_plots._save):
-        before = len(synced)
-        save(fig, tmp_path / "x.png")
-        assert len(synced) == before + 1
+    save_figure(fig, tmp_path / "x.png")
+    assert len(synced) == 3
     assert (tmp_path / "x.png").read_bytes()[:8] == PNG_SIGNATURE
     assert sorted(os.listdir(tmp_path)) == ["w.pdf", "w.png", "x.png"]
+
+
+def test_plots_return_figures_and_write_nothing(tmp_path, monkeypatch):
+    """The plot functions only build figures: no file appears (the caller writes)."""
+    monkeypatch.chdir(tmp_path)
+    fig = plots.track_plot(make_result())
+    assert isinstance(fig, Figure)
+    assert os.listdir(tmp_path) == []

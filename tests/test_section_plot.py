@@ -10,6 +10,7 @@ import pytest
 
 from satheight.errors import DepthError, UnitError
 from satheight.plots import section_plot, section_positions
+from satheight.workflows.figures import save_figure
 
 # PNG signature: PNG specification (ISO/IEC 15948:2004, section 5.2)
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
@@ -23,7 +24,7 @@ def well(name, tvdss, north=None, east=None, zones=()):
 
 
 def test_map_positions_on_line_of_best_fit():
-    # closed form: two vertical wells 500 m apart (3-4-5 triangle) and a deviated one on the line
+    # two vertical wells 500 m apart (3-4-5 triangle, computed) and a deviated one on the line
     z = np.linspace(1000, 1100, 11)
     a = well("A", z)
     b = well("B", z)
@@ -33,17 +34,15 @@ def test_map_positions_on_line_of_best_fit():
     assert mapped
     np.testing.assert_allclose(np.abs(u), [0.6, 0.8], atol=1e-9)
     np.testing.assert_allclose(d[1] - d[0], 500.0, atol=1e-9)
-    # closed form: C starts halfway and moves 100 m along the line (hypot(60, 80))
+    # C starts halfway and moves 100 m along the line (computed: hypot(60, 80))
     np.testing.assert_allclose(d[2][0] - d[0][0], 250.0, atol=1e-9)
     np.testing.assert_allclose(d[2][-1] - d[2][0], 100.0, atol=1e-9)
-    # closed form: distances are measured from the first point on the line
     assert min(x.min() for x in d) == 0.0
 
 
 def test_line_runs_west_to_east():
     z = np.linspace(0, 10, 3)
     d, _, u = section_positions([well("E", z), well("W", z)], {"E": (1000.0, 0.0), "W": (0.0, 0.0)})
-    # closed form: a west-east line runs left to right (common practice for sections)
     assert u[0] > 0 and d[1][0] < d[0][0]   # the western well is on the left
 
 
@@ -51,10 +50,9 @@ def test_schematic_without_locations():
     z = np.linspace(0, 10, 3)
     dev = well("D", z, north=np.array([0.0, 30.0, 40.0]), east=np.array([0.0, 40.0, 30.0]))
     d, mapped, _ = section_positions([well("V", z), dev], {"V": (0.0, 0.0)})
-    # closed form: without locations the wells are set side by side (README: Outputs, field_section.png)
     assert not mapped
     assert np.all(d[0] == d[0][0])              # a vertical well stays a vertical line
-    # closed form: the deviated well keeps its reach towards its last position: hypot(30, 40) = 50 m
+    # the deviated well keeps its reach towards its last position: 50 m (computed)
     assert d[1][-1] - d[1][0] == pytest.approx(50.0)
     assert d[1][0] > d[0][0]                    # set beside the first well
 
@@ -64,9 +62,8 @@ def test_section_plot_writes_png(tmp_path):
     z = np.linspace(1000, 1100, 101)
     wells = [well("A", z, zones=[zone]),
              well("B", z, north=np.linspace(0, 200, 101), east=np.zeros(101), zones=[zone])]
-    out = section_plot(wells, tmp_path / "s.png", units="field",
-                       locations={"A": (0.0, 0.0), "B": (0.0, 1000.0)})
-    # README (Outputs): field_section.png; $ escaped in names (README: Bad input, Project file)
+    fig = section_plot(wells, units="field", locations={"A": (0.0, 0.0), "B": (0.0, 1000.0)})
+    out = save_figure(fig, tmp_path / "s.png")
     assert out == [tmp_path / "s.png"]
     assert (tmp_path / "s.png").read_bytes()[:8] == PNG_SIGNATURE
     assert [p.name for p in tmp_path.iterdir()] == ["s.png"]   # no temp files left
@@ -74,6 +71,6 @@ def test_section_plot_writes_png(tmp_path):
 
 def test_section_plot_errors(tmp_path):
     with pytest.raises(DepthError):
-        section_plot([], tmp_path / "s.png")
+        section_plot([])
     with pytest.raises(UnitError):
-        section_plot([well("A", [1.0, 2.0])], tmp_path / "s.png", units="imperial")
+        section_plot([well("A", [1.0, 2.0])], units="imperial")

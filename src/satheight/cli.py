@@ -326,9 +326,12 @@ def _pressures(args, out) -> int:
 def _common_run_options(sp):
     sp.add_argument("--pdf", action="store_true", help="also write each track plot as PDF")
     sp.add_argument("--no-plots", action="store_true", help="skip the plots (faster)")
-    sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="md",
-                    help="main depth scale of the track plots: measured depth (default) or "
-                         "TVDSS (true vertical depth below datum); the other is the second scale")
+    sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="tvdss",
+                    help="main depth scale of the track plots: TVDSS (true vertical depth below "
+                         "datum, default) or measured depth; the other is the second scale")
+    sp.add_argument("--whole-log", action="store_true",
+                    help="track plots show the whole log (default: the zones with 20 m above "
+                         "and below)")
     sp.add_argument("--workers", metavar="N|auto", type=_workers, default=1,
                     help="run N wells at a time in separate processes (default 1; auto: one per "
                          "available core)")
@@ -477,7 +480,8 @@ def _dispatch(args) -> int:
     report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
                          depth_axis=args.depth_axis, workers=args.workers,
                          keep_results=False, overwrite=args.overwrite,
-                         progress=progress_wanted(sys.stderr, args.quiet))
+                         progress=progress_wanted(sys.stderr, args.quiet),
+                         plot_interval="all" if args.whole_log else "zones")
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK

@@ -8,26 +8,23 @@
   free-oil level with their intervals.
 
 Figures use :class:`matplotlib.figure.Figure` with the Agg canvas (no pyplot
-state) and are written atomically (temporary file, then rename).
+state) and are returned; the caller writes them.
 """
 
 from __future__ import annotations
-
-from pathlib import Path
 
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from ..fwlsearch import FwlSearch
-from ..io.atomic import atomic_save_figure
-from .track import safe_text
 from ..pressures import ZonePressures
 from ..units import UNIT_SYSTEMS, factor
+from .style import DPI
+from .text import safe_text
 
 __all__ = ["misfit_plot", "pressure_plot"]
 
-DPI = 110
 
 # Okabe & Ito (2008) colour-blind-safe set; roles are our own choice.
 _WELL_COLOURS = ("#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#F0E442")
@@ -35,32 +32,28 @@ _FLUID_COLOURS = {"water": "#0072B2", "oil": "#009E73", "gas": "#D55E00", "unkno
 _FLUID_MARKERS = {"water": "o", "oil": "s", "gas": "^", "unknown": "x"}
 
 
-def _save(fig: Figure, path) -> Path:
-    p = Path(path)
-    fmt = p.suffix.lstrip(".").lower() or "png"
+def _figure(figsize) -> Figure:
+    fig = Figure(figsize=figsize, dpi=DPI)
     FigureCanvasAgg(fig)
-    atomic_save_figure(fig, [(p, fmt)], dpi=DPI)
-    return p
+    return fig
 
 
-def misfit_plot(search: FwlSearch, path, units: str = "metric") -> Path:
+def misfit_plot(search: FwlSearch, units: str = "metric") -> Figure:
     """Misfit versus FWL depth per well and joint; chosen FWL, interval, project FWL.
 
     Parameters
     ----------
     search : FwlSearch
-    path : str or pathlib.Path
-        Output file (``.png`` or ``.pdf``); its folder must exist.
     units : str
         ``"metric"`` or ``"field"``: depth unit of the axis.
 
     Returns
     -------
-    pathlib.Path
+    matplotlib.figure.Figure
     """
     lu = UNIT_SYSTEMS[units]["length"]
     f = factor(lu, "length")
-    fig = Figure(figsize=(10.0, 6.0))
+    fig = _figure((10.0, 6.0))
     depth = search.candidates / f
 
     def scaled(y, sel):
@@ -104,18 +97,16 @@ def misfit_plot(search: FwlSearch, path, units: str = "metric") -> Path:
             ax.legend(loc="lower right", fontsize=8, framealpha=0.9)
     fig.suptitle(f"FWL from log Sw: {safe_text(search.zone)}")
     fig.tight_layout()
-    return _save(fig, path)
+    return fig
 
 
-def pressure_plot(zp: ZonePressures, path, units: str = "metric",
-                  log_fwl: tuple[float, float, float] | None = None) -> Path:
+def pressure_plot(zp: ZonePressures, units: str = "metric",
+                  log_fwl: tuple[float, float, float] | None = None) -> Figure:
     """Pressure versus TVDSS with fitted lines and free levels.
 
     Parameters
     ----------
     zp : ZonePressures
-    path : str or pathlib.Path
-        Output file (``.png`` or ``.pdf``).
     units : str
         ``"metric"`` (m, kPa) or ``"field"`` (ft, psi).
     log_fwl : (best, low, high), optional
@@ -123,14 +114,14 @@ def pressure_plot(zp: ZonePressures, path, units: str = "metric",
 
     Returns
     -------
-    pathlib.Path
+    matplotlib.figure.Figure
     """
     lu = UNIT_SYSTEMS[units]["length"]
     pu = UNIT_SYSTEMS[units]["pressure"]
     f = factor(lu, "length")
     fp = factor(pu, "pressure")
     pts = zp.points
-    fig = Figure(figsize=(7.0, 7.5))
+    fig = _figure((7.0, 7.5))
     ax = fig.add_subplot(1, 1, 1)
     used = np.zeros(len(pts), bool)
     for lf in zp.lines.values():
@@ -174,4 +165,4 @@ def pressure_plot(zp: ZonePressures, path, units: str = "metric",
     ax.grid(True, color="#DDDDDD", lw=0.6)
     ax.legend(loc="upper right", fontsize=8, framealpha=0.9)
     fig.tight_layout()
-    return _save(fig, path)
+    return fig

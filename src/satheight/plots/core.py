@@ -9,12 +9,10 @@ reservoir fluids the converted reservoir Pc against Sw with the equivalent heigh
 above the FWL on a secondary axis.
 
 Figures use :class:`matplotlib.figure.Figure` with the Agg canvas (no pyplot
-state) and are written atomically.
+state) and are returned; the caller writes them.
 """
 
 from __future__ import annotations
-
-from pathlib import Path
 
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -22,46 +20,44 @@ from matplotlib.figure import Figure
 
 from .. import constants as C
 from ..coreplugs import CorePoints
-from ..io.atomic import atomic_save_figure
 from ..models import get_family
-from .track import safe_text
+from .style import DPI, series_style
+from .text import safe_text
 
 __all__ = ["j_sw_plot", "pc_plot"]
 
-DPI = 110
 _MARKERS = {"mercury_air": "o", "air_brine": "s", "gas_brine": "D", "oil_brine": "^", "air_oil": "v"}
 
 
 def _colours(names):
-    from matplotlib import colormaps
-
-    cmap = colormaps["tab10"]
-    return {n: cmap(i % 10) for i, n in enumerate(names)}
+    """Colour-blind-safe colour of each rock type (see :mod:`satheight.plots.style`)."""
+    return {n: series_style(i)[0] for i, n in enumerate(names)}
 
 
-def _save(fig: Figure, path: Path) -> Path:
-    path = Path(path)
+def _figure(figsize) -> Figure:
+    fig = Figure(figsize=figsize, dpi=DPI)
     FigureCanvasAgg(fig)
-    atomic_save_figure(fig, [(path, path.suffix.lstrip(".") or "png")], dpi=DPI)
-    return path
+    return fig
 
 
 def _rock_names(points: CorePoints):
     return list(dict.fromkeys(str(x) or "all" for x in points.rock_type))
 
 
-def j_sw_plot(points: CorePoints, fits: dict, path) -> Path:
+def j_sw_plot(points: CorePoints, fits: dict) -> Figure:
     """J versus Sw with plug points coloured by rock type and the fitted curves.
 
     Parameters
     ----------
     points : CorePoints
     fits : dict
-        Output of :func:`satheight.core.fit_rock_types`.
-    path : path
-        PNG (or PDF) file to write.
+        Output of :func:`satheight.coreplugs.fit_rock_types`.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
     """
-    fig = Figure(figsize=(8.0, 6.0))
+    fig = _figure((8.0, 6.0))
     ax = fig.add_subplot(1, 1, 1)
     names = _rock_names(points)
     colours = _colours(names)
@@ -96,25 +92,28 @@ def j_sw_plot(points: CorePoints, fits: dict, path) -> Path:
     ax.grid(True, which="both", alpha=0.3)
     ax.legend(fontsize=7, loc="upper right")
     fig.tight_layout()
-    return _save(fig, path)
+    return fig
 
 
-def pc_plot(points: CorePoints, reservoir: dict, path) -> Path:
+def pc_plot(points: CorePoints, reservoir: dict) -> Figure:
     """Lab Pc and converted reservoir Pc versus Sw, with height above the FWL.
 
     Parameters
     ----------
     points : CorePoints
     reservoir : dict
-        Rock type (or ``"*"``) -> :class:`satheight.core_workflow.ReservoirFluids`.
-    path : path
+        Rock type (or ``"*"``) -> :class:`satheight.workflows.fit.ReservoirFluids`.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
     """
     names = _rock_names(points)
     colours = _colours(names)
     labels = np.array([str(x) or "all" for x in points.rock_type], dtype=object)
     with_res = [rt for rt in names if np.isfinite(points.pc_res[labels == rt]).any()]
     n = 1 + len(with_res)
-    fig = Figure(figsize=(5.0 * n, 5.0))
+    fig = _figure((5.0 * n, 5.0))
     ax = fig.add_subplot(1, n, 1)
     for pid in dict.fromkeys(points.plug.tolist()):  # one line per plug
         for system in dict.fromkeys(points.system[points.plug == pid].tolist()):
@@ -156,4 +155,4 @@ def pc_plot(points: CorePoints, reservoir: dict, path) -> Path:
             sec.set_ylabel(f"height above FWL [m] (Δρ {fluids.delta_rho:g} kg/m³)")
         a.set_title(title, fontsize=9)
     fig.tight_layout()
-    return _save(fig, path)
+    return fig

@@ -25,6 +25,7 @@ from ..io.atomic import atomic_write_text
 from ..io.las import read_las
 from ..io.pressures import read_pressure_points, resolve_tvdss
 from ..plots.contacts import misfit_plot, pressure_plot
+from .figures import save_figure
 from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
 from ..project.types import Project
 from ..results import WellResult
@@ -153,8 +154,8 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
             atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
             files.append(path)
             if plot:
-                files.append(misfit_plot(res, session.work / f"fwl_{_safe(name)}_misfit.png",
-                                         units=project.unit_system))
+                files += save_figure(misfit_plot(res, units=project.unit_system),
+                                     session.work / f"fwl_{_safe(name)}_misfit.png")
         files = session.commit(files)
     return {"project": str(project.path), "units": lu, "zones": summary, "notes": notes,
             "files": files, "results": results}
@@ -231,8 +232,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         files = [path]
         for name, zp in analysis.items() if plot else ():
             lg = (log[name].best, log[name].low, log[name].high) if name in log else None
-            files.append(pressure_plot(zp, session.work / f"pressures_{_safe(name or 'all')}.png",
-                                       units=system, log_fwl=lg))
+            files += save_figure(pressure_plot(zp, units=system, log_fwl=lg),
+                                 session.work / f"pressures_{_safe(name or 'all')}.png")
         files = session.commit(files[1:] + files[:1])
     files = files[-1:] + files[:-1]
     return {"file": str(points.source), "units": doc["units"], "zones": summary,

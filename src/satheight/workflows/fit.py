@@ -31,6 +31,7 @@ from ..models import get_family
 from ..plots.core import j_sw_plot, pc_plot
 from ..rocktypes import RockTypeRule, check_rock_type_names, plug_rock_types
 from ..units import parse_quantity
+from .figures import save_figure
 from .output_folder import InputFiles, OutputSession
 
 
@@ -204,8 +205,8 @@ def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: di
     atomic_write_text(pts, points_csv(points))
     files.append(pts)
     if s.plots:
-        files.append(j_sw_plot(points, fits, out / "core_j_sw.png"))
-        files.append(pc_plot(points, s.reservoir, out / "core_pc.png"))
+        files += save_figure(j_sw_plot(points, fits), out / "core_j_sw.png")
+        files += save_figure(pc_plot(points, s.reservoir), out / "core_pc.png")
     return files
 
 

@@ -6,6 +6,7 @@ Every file goes through :mod:`satheight.io.atomic` (a temporary file, then a ren
 from __future__ import annotations
 
 import json
+from dataclasses import dataclass
 import os
 from pathlib import Path
 
@@ -19,13 +20,14 @@ from ..errors import InputFileError, ProjectFileError
 from ..io.atomic import atomic_open, atomic_write_text
 from ..io.las import write_las
 from ..io.las_fast import csv_rows
-from ..plots.track import track_plot
+from .. import plots
 from ..project.reader import load_project
 from ..project.types import Project
 from ..results import WellResult
 from ..well import Curve, Well
 from .output_folder import InputFiles, check_input_file
 from .field_tables import write_well_table
+from .figures import save_figure
 from .report import REPORT_NAME
 from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
                           well_uncertainty, write_tornado)
@@ -64,8 +66,23 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
             f.write(block)
 
 
-def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool = False,
-                  plot: bool = True, depth_axis: str = "md") -> list[Path]:
+@dataclass(frozen=True)
+class PlotOptions:
+    """What a run draws. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
+    ``depth_axis``: main depth scale of the track plots (``"tvdss"`` or ``"md"``);
+    ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``)."""
+
+    draw: bool = True
+    pdf: bool = False
+    depth_axis: str = "tvdss"
+    interval: str = "zones"
+
+
+NO_PLOTS = PlotOptions(draw=False)
+
+
+def write_outputs(result: WellResult, project: Project, out_dir: Path,
+                  opts: PlotOptions = PlotOptions()) -> list[Path]:
     """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = safe_name(result.well.name)
@@ -92,10 +109,11 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path, pdf: bool
     atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
-    if plot:
-        files += track_plot(result, out_dir / f"{stem}_tracks.png",
-                            pdf_path=(out_dir / f"{stem}_tracks.pdf") if pdf else None,
-                            units=project.unit_system, depth_axis=depth_axis)
+    if opts.draw:
+        fig = plots.track_plot(result, units=project.unit_system, depth_axis=opts.depth_axis,
+                               interval=opts.interval)
+        files += save_figure(fig, out_dir / f"{stem}_tracks.png",
+                             (out_dir / f"{stem}_tracks.pdf") if opts.pdf else None)
         if mc is not None:
             files += write_tornado(mc, out_dir / f"{stem}_tornado.png",
                                    f"{result.well.name}: tornado", length_unit)

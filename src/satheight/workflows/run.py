@@ -22,13 +22,15 @@ import numpy as np
 from .. import __version__
 from ..errors import OutputWriteError, ProjectFileError, SatHeightError
 from ..io.atomic import atomic_write_text
-from ..plots.track import section_plot
+from .. import plots
+from ..plots.crossplot import crossplot_data
 from ..project.types import Project, WellSpec
 from ..results import WellResult
 from .output_folder import WORK_PREFIX, InputFiles, OutputSession
-from .outputs import (CAUTION, check_wells, input_record, open_project, project_inputs,
+from .outputs import (CAUTION, PlotOptions, check_wells, input_record, open_project, project_inputs,
                       reserved_stem, safe_name, write_outputs)
 from .field_tables import write_field_tables
+from .figures import save_crossplots, save_figure
 from .console import SCHEMA_VERSION, Progress
 from .report import input_files, write_report
 from .well import compute_well
@@ -69,13 +71,14 @@ class RunReport:
 
 
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
-                plot: bool = True, depth_axis: str = "md", workers: int = 1,
+                plot: bool = True, depth_axis: str = "tvdss", workers: int = 1,
                 keep_results: bool = True, overwrite: bool = False,
-                progress: bool = False) -> RunReport:
+                progress: bool = False, plot_interval: str = "zones") -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
-    ``depth_axis`` (``"md"`` or ``"tvdss"``) is the main depth scale of the track
-    plots. With plots on, the field cross-section of all computed wells is written
+    ``depth_axis`` (``"tvdss"`` or ``"md"``) is the main depth scale of the track
+    plots and ``plot_interval`` (``"zones"``: the zones with a margin, or ``"all"``) the
+    depths they show. With plots on, the field cross-section of all computed wells is written
     as ``field_section.png`` (a failure there is a note, not a failed run).
 
     A well that fails (missing curve, bad file) is reported and the others still
@@ -115,12 +118,13 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         work = session.work
         bar = Progress(len(project.wells), enabled=progress)  # progress on stderr
         try:
-            outcomes, locations = _run_wells(project, work, pdf, plot, workers, depth_axis,
-                                             keep_results, bar)
+            opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval)
+            outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar)
         finally:
             bar.close()
         notes: list[str] = []
         section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
+        cross_files = _crossplots(project, outcomes, work, notes) if plot else []
         unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
         if unused:
             notes.append(f"tops file {project.tops_file}: rows of well(s) "
@@ -130,9 +134,9 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                                     [f for o in outcomes if o.ok for f in o.files
                                      if f.suffix == ".parquet"], work, project)
         report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
-                                         tables)
+                                         tables, cross_files)
         files = ([f for o in outcomes for f in o.files] + [section_file, report, summary]
-                 + list(tables))
+                 + list(tables) + cross_files)
         session.commit([f for f in files if f is not None])
     for o in outcomes:
         o.files = [out_dir / f.name for f in o.files]
@@ -141,50 +145,67 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                      section_file=None if section_file is None else out_dir / section_file.name)
 
 
-def _run_wells(project: Project, out_dir: Path, pdf: bool, plot: bool, workers: int,
-               depth_axis: str, keep_results: bool,
-               bar: Progress) -> tuple[list[WellOutcome], dict]:
+def _run_wells(project: Project, out_dir: Path, opts: PlotOptions, workers: int,
+               keep_results: bool, bar: Progress) -> tuple[list[WellOutcome], dict]:
     """Every well's outcome in project order, and the map location of each computed well."""
     if workers > 1 and len(project.wells) > 1:
-        outcomes = _run_wells_parallel(project, out_dir, pdf, plot, workers, depth_axis, bar)
+        outcomes = _run_wells_parallel(project, out_dir, opts, workers, bar)
         locations = {o.name: spec.location for spec, o in zip(project.wells, outcomes) if o.ok}
         return outcomes, locations
     outcomes, locations = [], {}
     names_seen: set[str] = set()
     for spec in project.wells:
         bar.start(spec.name or spec.las.stem)
-        outcome, _ = _one_well(project, spec, out_dir, pdf, plot, depth_axis, names_seen)
+        outcome, _ = _one_well(project, spec, out_dir, opts, names_seen)
         bar.done(outcome.name, outcome.ok, outcome.error)
         if outcome.ok:
             locations[outcome.name] = spec.location
             if not keep_results:
                 # keep_results=False drops each well's arrays once written (big projects); the
                 # field section then gets a thinned view of the few arrays it draws
-                outcome.section = _section_view(outcome.result) if plot else None
+                outcome.section = _section_view(outcome.result) if opts.draw else None
                 outcome.result = None
         outcomes.append(outcome)
     return outcomes, locations
 
 
+def _computed(outcomes: list[WellOutcome]) -> list:
+    """The arrays (or their thinned views) of the wells that ran."""
+    return [o.result if o.result is not None else o.section for o in outcomes
+            if o.ok and (o.result is not None or o.section is not None)]
+
+
 def _field_section(project: Project, outcomes: list[WellOutcome], locations: dict,
                    out_dir: Path, notes: list[str]) -> Path | None:
     """Draw ``field_section.png`` of the computed wells; a failure is a note in ``notes``."""
-    ok_results = [o.result if o.result is not None else o.section for o in outcomes
-                  if o.ok and (o.result is not None or o.section is not None)]
+    ok_results = _computed(outcomes)
     if not ok_results:
         return None
     try:
-        return section_plot(ok_results, out_dir / "field_section.png",
-                            units=project.unit_system, locations=locations,
-                            title=f"{project.name}: field section, TVDSS")[0]
+        fig = plots.section_plot(ok_results, units=project.unit_system, locations=locations,
+                                 title=f"{project.name}: field section, TVDSS")
+        return save_figure(fig, out_dir / "field_section.png")[0]
     except SatHeightError as exc:
         notes.append(f"field section not drawn: {exc}")
         return None
 
 
+def _crossplots(project: Project, outcomes: list[WellOutcome], out_dir: Path,
+                notes: list[str]) -> list[Path]:
+    """Draw ``crossplot_<zone>.png`` (log Sw against height and J, every well); a failure
+    is a note in ``notes``."""
+    cross = [crossplot_data(r) if isinstance(r, WellResult) else r.cross
+             for r in _computed(outcomes)]
+    try:
+        return save_crossplots(cross, out_dir, project.unit_system)
+    except SatHeightError as exc:
+        notes.append(f"crossplots not drawn: {exc}")
+        return []
+
+
 def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: Path | None,
                    notes: list[str], out_dir: Path, inputs: InputFiles,
-                   tables: list[Path]) -> tuple[Path, Path]:
+                   tables: list[Path], cross_files: list[Path]) -> tuple[Path, Path]:
     """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
         "schema_version": SCHEMA_VERSION,
@@ -198,6 +219,8 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
     }
     if section_file is not None:
         summary["field_section"] = section_file.name
+    if cross_files:
+        summary["crossplots"] = [p.name for p in cross_files]
     if notes:
         summary["notes"] = notes
     summary["inputs"] = input_record(project, inputs)
@@ -229,12 +252,12 @@ def _section_view(result: WellResult, max_points: int = 4000):
     return SimpleNamespace(well=SimpleNamespace(name=result.well.name), zones=result.zones,
                            tvdss=thin(result.tvdss), north=thin(result.north),
                            east=thin(result.east),
-                           shm=SimpleNamespace(sw=thin(result.shm.sw)))
+                           shm=SimpleNamespace(sw=thin(result.shm.sw)),
+                           cross=crossplot_data(result))
 
 
-def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: bool,
-              depth_axis: str = "md", names_seen: set | None = None
-              ) -> tuple[WellOutcome, str | None]:
+def _one_well(project: Project, spec: WellSpec, out_dir: Path, opts: PlotOptions,
+              names_seen: set | None = None) -> tuple[WellOutcome, str | None]:
     """Load, compute and write one well into ``out_dir``; never raises for that well.
 
     With ``names_seen`` a well whose output name is already taken fails before
@@ -250,7 +273,7 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, pdf: bool, plot: 
             result, msgs = compute_well(project, spec)
             label, safe = result.well.name, safe_name(result.well.name)
             _check_name(project, result.well.name, names_seen)
-            files = _write_well(result, project, out_dir, pdf, plot, depth_axis)
+            files = _write_well(result, project, out_dir, opts)
         msgs += [str(c.message) for c in caught]
         return WellOutcome(result.well.name, True, files, None, msgs, result, result.summary), safe
     except OutputWriteError:
@@ -277,12 +300,12 @@ def _check_name(project: Project, name: str, names_seen: set | None) -> None:
         names_seen.add(stem.casefold())
 
 
-def _write_well(result: WellResult, project: Project, out_dir: Path, pdf: bool, plot: bool,
-                depth_axis: str) -> list[Path]:
+def _write_well(result: WellResult, project: Project, out_dir: Path,
+                opts: PlotOptions) -> list[Path]:
     """:func:`write_outputs`; an OSError while writing (full disk...) is an OutputWriteError."""
     try:
         out_dir.mkdir(parents=True, exist_ok=True)
-        return write_outputs(result, project, out_dir, pdf=pdf, plot=plot, depth_axis=depth_axis)
+        return write_outputs(result, project, out_dir, opts)
     except OSError as exc:
         # name the user's output folder, not the work folder inside it
         folder = next((p.parent for p in (out_dir, *out_dir.parents)
@@ -293,22 +316,21 @@ def _write_well(result: WellResult, project: Project, out_dir: Path, pdf: bool, 
                                     "nothing was placed in the output folder") from exc
 
 
-def _well_job(project: Project, spec: WellSpec, work_dir: Path, pdf: bool, plot: bool,
-              depth_axis: str = "md") -> tuple[WellOutcome, str | None]:
+def _well_job(project: Project, spec: WellSpec, work_dir: Path,
+              opts: PlotOptions) -> tuple[WellOutcome, str | None]:
     """One well in a worker process (:func:`_one_well` into ``work_dir``).
 
     Returns the outcome without the arrays (``result`` None; with plots, the thinned
     view the field section needs) and the well's output name.
     """
-    outcome, safe = _one_well(project, spec, work_dir, pdf, plot, depth_axis)
+    outcome, safe = _one_well(project, spec, work_dir, opts)
     if outcome.result is not None:
-        outcome.section = _section_view(outcome.result) if plot else None
+        outcome.section = _section_view(outcome.result) if opts.draw else None
         outcome.result = None
     return outcome, safe
 
 
-def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
-                        workers: int, depth_axis: str = "md",
+def _run_wells_parallel(project: Project, out_dir: Path, opts: PlotOptions, workers: int,
                         bar: Progress | None = None) -> list[WellOutcome]:
     """Run the wells in ``workers`` processes; place their files in project order."""
     work = out_dir / f".satheight-work-{uuid.uuid4().hex[:12]}"
@@ -316,7 +338,7 @@ def _run_wells_parallel(project: Project, out_dir: Path, pdf: bool, plot: bool,
     names_seen: set[str] = set()
     try:
         with ProcessPoolExecutor(max_workers=min(workers, len(project.wells))) as pool:
-            futures = [pool.submit(_well_job, project, spec, work / str(i), pdf, plot, depth_axis)
+            futures = [pool.submit(_well_job, project, spec, work / str(i), opts)
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
                 outcome, safe = fut.result()
