@@ -143,8 +143,9 @@ def test_project_per_depth_rock_typing(tmp_path):
     phi = np.full(2, 0.2)
     k = np.array([1.0, 500.0]) * MD          # FZI 0.50 -> A, 11.2 -> B (Amaefule form)
     res = compute_shm(np.full(2, 1050.0), phi, k, [zm])
-    fa = build_function("power_law", fits["A"]["fits"]["power_law"].params)
-    fb = build_function("power_law", fits["B"]["fits"]["power_law"].params)
+    # the parameters as the model file keeps them (rounded to their standard errors)
+    fa = build_function("power_law", f.by_rock_type["A"].params)
+    fb = build_function("power_law", f.by_rock_type["B"].params)
     np.testing.assert_allclose(res.sw, [fa.predict(res.j[0]), fb.predict(res.j[1])])
     # the ROCK_ID output curve numbers the rock types in the zone's table order
     import types

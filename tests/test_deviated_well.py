@@ -229,16 +229,16 @@ def test_cli_depth_axis_and_field_section(field, tmp_path, monkeypatch):
     import json
 
     from satheight.cli import main
-    from satheight.workflows import outputs
+    from satheight import plots
 
     seen = []
-    original = outputs.track_plot
+    original = plots.track_plot
 
     def spy(*args, **kwargs):
         seen.append(kwargs.get("depth_axis"))
         return original(*args, **kwargs)
 
-    monkeypatch.setattr(outputs, "track_plot", spy)
+    monkeypatch.setattr(plots, "track_plot", spy)
     code = main(["run", str(field / "p.toml"), "--out", str(tmp_path / "o"), "--depth-axis", "tvdss"])
     assert code == 0
     # the option given (--depth-axis tvdss), once per well
