@@ -20,7 +20,7 @@ from types import SimpleNamespace
 import numpy as np
 
 from .. import __version__
-from ..errors import OutputWriteError, ProjectFileError, SatHeightError
+from ..errors import InputFileError, OutputWriteError, ProjectFileError, SatHeightError
 from ..io.atomic import atomic_write_text
 from .. import plots
 from ..plots.crossplot import crossplot_data
@@ -280,8 +280,11 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, opts: PlotOptions
         raise                   # a full disk or a file-size limit stops the run, not one well
     except SatHeightError as exc:
         return WellOutcome(label, False, [], str(exc)), safe
+    except OSError as exc:      # reading the well's files (writing is an OutputWriteError)
+        return WellOutcome(label, False, [], f"{exc.filename or spec.las}: cannot read: "
+                           f"{exc.strerror or exc} (check the file and its permissions)"), safe
     except (MemoryError, RecursionError, ArithmeticError, LookupError, TypeError,
-            ValueError, OSError) as exc:
+            ValueError) as exc:
         # a program error on one well's data must not cost the other wells their results
         return WellOutcome(label, False, [], f"{spec.las}: internal error "
                            f"{type(exc).__name__}: {exc} (please report it)"), safe
@@ -306,6 +309,8 @@ def _write_well(result: WellResult, project: Project, out_dir: Path,
     try:
         out_dir.mkdir(parents=True, exist_ok=True)
         return write_outputs(result, project, out_dir, opts)
+    except InputFileError as exc:   # satheight.io.atomic's report of a failed write or rename
+        raise OutputWriteError(exc.what, where=exc.where, hint=exc.hint) from exc
     except OSError as exc:
         # name the user's output folder, not the work folder inside it
         folder = next((p.parent for p in (out_dir, *out_dir.parents)
