@@ -9,7 +9,8 @@ engine, core-plug conversion, contacts, plots) calls these functions.
 * ``J = Pc sqrt(k / phi) / (sigma cos theta)``: Leverett (1941);
 * ``Pc_res = Pc_lab (sigma cos theta)_res / (sigma cos theta)_lab``: one rock has one
   J curve whatever the fluid pair (Leverett 1941);
-* a gas cap over an oil leg: Pc and J accumulated over the two columns.
+* a gas cap over an oil leg: Pc and J accumulated over the two columns;
+* ``r = 2 |sigma cos theta| / Pc``: the pore-throat radius entered at Pc (Washburn 1921).
 
 Everything is SI: depth and height [m], pressure [Pa], density [kg/m^3],
 permeability [m^2], sigma*cos(theta) [N/m], porosity as a fraction. Functions take
@@ -31,7 +32,7 @@ from .constants import STANDARD_GRAVITY
 
 __all__ = ["height_above_fwl", "capillary_pressure_from_height", "height_from_pc",
            "leverett_j", "pc_from_j", "height_from_j", "sqrt_k_over_phi", "lab_to_reservoir_pc",
-           "sigma_cos_theta_ratio", "pc_per_height", "three_phase_pc_j"]
+           "sigma_cos_theta_ratio", "pc_per_height", "three_phase_pc_j", "washburn_radius"]
 
 
 def height_above_fwl(tvdss, fwl, out=None):
@@ -240,3 +241,25 @@ def three_phase_pc_j(h, root, oil_column, rho_water, rho_oil, rho_gas, sct_ow, s
     pc_o = (rho_water - rho_oil) * g * h_o
     pc_g = (rho_water - rho_gas) * g * h_g
     return pc_o + pc_g, root * (pc_o / sct_ow + pc_g / sct_gw)
+
+
+def washburn_radius(pc, sigma_cos_theta):
+    """Pore-throat radius [m] entered at capillary pressure ``pc`` (Washburn 1921).
+
+    ``r = 2 |sigma cos theta| / Pc``. With mercury sigma 480 mN/m and theta 140 deg,
+    ``r[um] = 106.66 / Pc[psi]``.
+
+    Parameters
+    ----------
+    pc : array_like
+        Capillary pressure [Pa], > 0.
+    sigma_cos_theta : float
+        |sigma*cos(theta)| [N/m].
+
+    References
+    ----------
+    Washburn, E. W., 1921. The dynamics of capillary flow. Physical Review 17, 273-283.
+    """
+    pc = np.asarray(pc, dtype=float)
+    with np.errstate(divide="ignore"):
+        return np.where(pc > 0, 2.0 * abs(float(sigma_cos_theta)) / pc, np.inf)

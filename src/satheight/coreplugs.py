@@ -9,7 +9,7 @@ From lab capillary-pressure curves of core plugs to points (J, Sw) ready for fit
 2. mercury injection: mercury saturation -> wetting-phase saturation
    (:func:`wetting_saturation_from_mercury`); closure (conformance) correction
    (:func:`closure_correction`, :func:`pick_closure_pressure`); pore-throat radius
-   by Washburn (:func:`washburn_radius`);
+   by Washburn (:func:`satheight.capillary.washburn_radius`);
 3. lab -> reservoir capillary pressure by the sigma*cos(theta) ratio, equivalent
    height above the FWL (:mod:`satheight.capillary`, re-exported here);
 4. Leverett J of every point from the plug's own porosity and permeability,
@@ -32,10 +32,10 @@ import numpy as np
 
 from . import constants as C
 from .capillary import (height_from_pc, lab_to_reservoir_pc, leverett_j,  # noqa: F401
-                        sigma_cos_theta_ratio)
+                        sigma_cos_theta_ratio, washburn_radius)
 from .errors import ModelError, SatHeightError
 from .models import FAMILIES, get_family, select_family
-from .plausible import outside_message
+from .plausible import require_plausible
 
 # ----------------------------------------------------------------------------------
 # fluid systems
@@ -156,11 +156,10 @@ def fluid_system(name: str, table: dict[str, FluidSystem] | None = None, *, sigm
 
 def _plausible(system: FluidSystem, table: dict, where: str) -> FluidSystem:
     """A given lab or reservoir system whose sigma*cos(theta) lies in its plausible range."""
-    rng = "sigma_cos_theta" if table is RESERVOIR_SYSTEMS else "lab_sigma_cos_theta"
     sct = system.sigma_cos_theta
-    msg = outside_message(rng, sct, f"sigma*cos(theta) of {system.name}", sct, "N/m", True)
-    if msg is not None:
-        raise SatHeightError(msg[0], where=where or None, hint=msg[1].rstrip("; ") or None)
+    require_plausible("sigma_cos_theta" if table is RESERVOIR_SYSTEMS else "lab_sigma_cos_theta",
+                      sct, f"sigma*cos(theta) of {system.name}", sct, "N/m", written=True,
+                      where=where or None)
     return system
 
 
@@ -253,28 +252,6 @@ def pick_closure_pressure(pc, s_nw) -> float:
     if not s[knee + 1] > max(MIN_CONFORMANCE, 3.0 * scatter):
         return float(pc[0])
     return float(pc[knee + 1])
-
-
-def washburn_radius(pc, sigma_cos_theta):
-    """Pore-throat radius [m] entered at capillary pressure ``pc`` (Washburn 1921).
-
-    ``r = 2 |sigma cos theta| / Pc``. With mercury sigma 480 mN/m and theta 140 deg,
-    ``r[um] = 106.66 / Pc[psi]``.
-
-    Parameters
-    ----------
-    pc : array_like
-        Capillary pressure [Pa], > 0.
-    sigma_cos_theta : float
-        |sigma*cos(theta)| [N/m].
-
-    References
-    ----------
-    Washburn, E. W., 1921. The dynamics of capillary flow. Physical Review 17, 273-283.
-    """
-    pc = np.asarray(pc, dtype=float)
-    with np.errstate(divide="ignore"):
-        return np.where(pc > 0, 2.0 * abs(float(sigma_cos_theta)) / pc, np.inf)
 
 
 def stress_correct(phi, k, phi_factor: float = 1.0, k_factor: float = 1.0):
@@ -516,10 +493,8 @@ def core_points(dataset: CoreDataset, *, closure="auto", phi_factor: float = 1.0
     if delta_rho is not None and not delta_rho > 0:
         raise SatHeightError(f"density difference must be > 0, got {delta_rho} kg/m3",
                              hint="give water minus hydrocarbon density at reservoir conditions")
-    msg = (None if delta_rho is None else
-           outside_message("delta_rho", delta_rho, "the density difference", delta_rho, "kg/m3"))
-    if msg is not None:
-        raise SatHeightError(msg[0], hint=msg[1] + "give water minus hydrocarbon density")
+    if delta_rho is not None:
+        require_plausible("delta_rho", delta_rho, "the density difference", delta_rho, "kg/m3")
     cols: dict[str, list] = {k: [] for k in ("plug", "system", "rock", "pc", "sw", "sw_raw",
                                              "phi", "k", "j", "pc_res", "r")}
     closures = {}

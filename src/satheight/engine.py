@@ -171,7 +171,7 @@ def compute_shm(tvdss, phi, k, zones: Sequence[Zone]) -> ShmResult:
         Porosity [fraction]. NaN, <= 0 or > 1 gives Sw NaN and FLAG_BAD_POROSITY.
     k : array_like
         Permeability [m^2]. NaN or <= 0 gives Sw NaN and FLAG_BAD_PERMEABILITY.
-    zones : sequence of ZoneModel
+    zones : sequence of Zone
 
     Returns
     -------
@@ -409,7 +409,7 @@ def column_pc_j(h, k, phi, zone: Zone, oil_column=None):
         Permeability [m^2], broadcastable to ``h``.
     phi : array_like
         Porosity [fraction], broadcastable to ``h``.
-    zone : ZoneModel
+    zone : Zone
     oil_column : float or array_like, optional
         Oil column thickness [m] (broadcastable to ``h``); default
         ``zone.fwl - zone.gas_oil_level``. Ignored for two-phase zones.

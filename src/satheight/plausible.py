@@ -18,6 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from . import constants as C
+from .errors import SatHeightError
 from .units import GRADIENT_UNITS, from_si, normalise_unit, to_si
 
 
@@ -186,6 +187,20 @@ def outside_message(name: str, value_si: float, shown: str, number: float | None
     fits = likely_units(number, read_unit or "", rng, written) if number is not None else []
     hint = (f"did you mean {number:g} {fits[0]}? " if fits else "check the value and its unit; ")
     return what, hint
+
+
+def require_plausible(name: str, value_si: float, shown: str, number: float | None = None,
+                      read_unit: str | None = None, *, written: bool = False,
+                      where: str | None = None, hint: str = "") -> float:
+    """``value_si`` if inside ``RANGES[name]``; else a :class:`SatHeightError` saying why.
+
+    For callers outside the project file (e.g. command-line values); the arguments are
+    those of :func:`outside_message`, ``hint`` is appended to its hint.
+    """
+    msg = outside_message(name, value_si, shown, number, read_unit, written)
+    if msg is not None:
+        raise SatHeightError(msg[0], where=where, hint=(msg[1] + hint).rstrip("; ") or None)
+    return value_si
 
 
 def fwl_outside_logs(fwl: float, tvdss_low: float, tvdss_high: float,

@@ -66,7 +66,7 @@ class WellResult:
     tvdss : numpy.ndarray
         True vertical depth below the depth datum (sea level) [m], positive down.
     zones : list
-        The :class:`satheight.engine.ZoneModel` objects used for this well (with
+        The :class:`satheight.engine.Zone` records used for this well (with
         this well's top and base).
     shm : ShmResult
         Saturation-height results.

@@ -208,23 +208,22 @@ class ValueReader:
         leaf = allow_as or key.rsplit(".", 1)[-1]
         if leaf in allowed:
             return
-        number, unit, shown = self._as_read(raw, RANGES[name].kind, leaf, derived)
-        written = isinstance(raw, str) and not shown.endswith(")")
+        number, unit, written, shown = self._as_read(raw, RANGES[name].kind, leaf, derived)
         msg = outside_message(name, value_si, shown, number, unit, written)
         if msg is not None:
             raise self.error(key, msg[0], hint=msg[1] + hint + "if the value is deliberate, add "
                              f'"{leaf}" to {ALLOW_KEY} = [...] in this table')
 
     def _as_read(self, raw: Any, kind: str, leaf: str, derived: str):
-        """(number, unit, text) of a value as read, for messages."""
+        """(number, unit, unit written?, text) of a value as read, for messages."""
         if raw is None:
-            return None, None, f"{leaf} {derived}".strip()
+            return None, None, False, f"{leaf} {derived}".strip()
         default = self.units.get(kind, "")
         if isinstance(raw, str):
             number, unit = split_quantity(raw)
-            return number, unit or default, f'{leaf} = "{raw}"' + (
+            return number, unit or default, bool(unit), f'{leaf} = "{raw}"' + (
                 "" if unit else f" (taken in {default})")
-        return float(raw), default, f"{leaf} = {raw!r} (a bare number, taken in {default})"
+        return float(raw), default, False, f"{leaf} = {raw!r} (a bare number, taken in {default})"
 
 
 def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) -> None:
