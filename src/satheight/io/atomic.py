@@ -23,6 +23,10 @@ __all__ = ["atomic_open", "atomic_write_text", "atomic_write_bytes", "atomic_sav
 _WRITE_MODES = {"w": False, "wt": False, "tw": False, "wb": True, "bw": True}
 
 
+#: Binary mode flag of os.open: exists on Windows only (0 elsewhere, where files are binary).
+_O_BINARY = os.O_BINARY if hasattr(os, "O_BINARY") else 0
+
+
 def _temp_path(path: Path) -> Path:
     """A fresh hidden temporary name beside ``path`` (``.name.<random>.tmp``)."""
     return path.with_name(f".{path.name}.{uuid.uuid4().hex[:12]}.tmp")
@@ -30,7 +34,7 @@ def _temp_path(path: Path) -> Path:
 
 def _create_temp(path: Path) -> tuple[Path, int]:
     """Create the temporary file exclusively; permissions follow the umask (like ``open``)."""
-    flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0)
+    flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | _O_BINARY
     for _ in range(5):
         tmp = _temp_path(path)
         try:

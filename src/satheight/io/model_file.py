@@ -31,6 +31,7 @@ import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from .. import __version__
 from ..errors import InputFileError, ModelError, SatHeightError
 from .atomic import atomic_write_text
 from ..rocktypes import RockTypeRule
@@ -135,8 +136,6 @@ def models_to_dict(fits: dict, rule: RockTypeRule, provenance: dict) -> dict:
     (:func:`round_to_error`), standard errors to two significant digits; each rock
     type carries ``delta_aic`` (AIC minus the lowest, per J family) beside ``selected``.
     """
-    from .. import __version__
-
     rts = {}
     for name, e in fits.items():
         rts[name] = {"plugs": list(e["plugs"]), "n_points": e["n_points"],

@@ -48,6 +48,7 @@ import numpy as np
 from .. import units as U
 from ..errors import DepthError, InputFileError, UnitError
 from ..trajectory import Trajectory, minimum_curvature
+from .las import read_las
 from .table import read_table
 
 __all__ = ["Survey", "read_survey", "survey_trajectory", "SURVEY_FORMATS"]
@@ -193,8 +194,6 @@ def _read_csv(path: Path) -> Survey:
 
 
 def _read_las_survey(path: Path) -> Survey:
-    from .las import read_las
-
     well = read_las(path)
     mnems = {m.upper(): m for m in well.curves}
 
