@@ -23,7 +23,7 @@ import pytest
 
 ROOT = Path(__file__).resolve().parents[1]
 # The last commit whose results are the expected ones (see the module docstring).
-REFERENCE_COMMIT = "85b93e7a8fe426b10d5840c9e76f4e1fd6a3573f"
+REFERENCE_COMMIT = "6aa83284017f99130c2d885a80b1c9f5bc985608"
 COMPARED_SUFFIXES = (".las", ".csv", ".json")
 # Files that carry the run's own provenance (tool version, input paths and checksums): not results.
 NOT_COMPARED = {"run_summary.json"}
