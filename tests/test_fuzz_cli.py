@@ -142,5 +142,5 @@ def test_cli_bad_las_one_line_error_and_exit_code(project_dir):
                            "--no-plots"])
     # README (Bad input): a LAS error fails that well only (exit code 3), naming the file and line
     assert code == 3
-    line = next(ln for ln in out.splitlines() if "FAILED" in ln)
+    line = next(ln for ln in err.splitlines() if "FAILED" in ln)  # failures on stderr
     assert "w.las" in line and "line" in line
