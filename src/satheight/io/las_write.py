@@ -113,11 +113,22 @@ def _header_lines(rows: Sequence[tuple[str, str, str, str]]) -> list[str]:
     """Aligned ``MNEM.UNIT  VALUE : DESCRIPTION`` lines."""
     if not rows:
         return []
+    rows = [(_one_line(m), _one_line(u), _one_line(v), d) for m, u, v, d in rows]
     w_m = max(len(r[0]) for r in rows)
     w_u = max(len(r[1]) for r in rows)
     w_v = max(len(r[2]) for r in rows)
     return [f" {m:<{w_m}}.{u:<{w_u}}  {v:<{w_v}} : {_description(d)}".rstrip()
             for m, u, v, d in rows]
+
+
+#: Control characters (C0, DEL, C1) and the Unicode line and paragraph separators: text from
+#: input files (a zone or project name) must not start a new header line or a terminal escape.
+_CONTROL = re.compile("[\x00-\x1f\x7f-\x9f\u2028\u2029]+")
+
+
+def _one_line(text) -> str:
+    """``text`` on one line: every run of control characters becomes one blank."""
+    return _CONTROL.sub(" ", str(text))
 
 
 def _description(text: str) -> str:
@@ -126,8 +137,8 @@ def _description(text: str) -> str:
     A LAS 2.0 header line splits value and description at its last colon, so a
     colon inside a description is written as a semicolon.
     """
-    # inner blanks are kept as read; only line breaks are joined
-    return " ".join(str(text).splitlines()).strip().replace(":", ";")
+    # inner blanks are kept as read; line breaks and other control characters become blanks
+    return _one_line(text).strip().replace(":", ";")
 
 
 def depth_step(index: np.ndarray, decimals: int) -> float:
