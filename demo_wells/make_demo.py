@@ -543,6 +543,10 @@ def project_text() -> str:
         "[comparison]                    # net-reservoir cutoffs for the SHM vs log Sw statistics",
         "min_porosity = 0.10             # shale breaks (porosity 0.03-0.08) are left out",
         "",
+        "[uncertainty]                   # Monte Carlo of the SHM (the spreads are invented too)",
+        "realisations = 1000",
+        "seed = 20241202",
+        "",
     ]
     for spec in WELLS:
         out += ["[[wells]]", f'las = "{spec["name"]}.las"          # relative to this file; {spec["note"]}']
@@ -575,7 +579,8 @@ def project_text() -> str:
         if CORE_MODEL_FILE:  # the functions fitted to the invented core data (make_core_demo.py)
             out += [f'file = "{CORE_MODEL_FILE}"      # fitted by satheight fit to the invented core data',
                     f'rock_type = "{z["name"]}"',
-                    f'family = "{z["family"]}"        # the J range comes from the core data', ""]
+                    f'family = "{z["family"]}"        # the J range comes from the core data']
+            out += _uncertainty_lines(z) + [""]
             continue
         if z["family"] == "power_law":
             out.append('family = "power_law"            # Sw = swirr + (1 - swirr) * a * J^-b')
@@ -585,6 +590,22 @@ def project_text() -> str:
         out += [f"j_min = {z['j_min']:g}                     # J range the (invented) calibration covered",
                 f"j_max = {z['j_max']:g}", ""]
     return "\n".join(out).rstrip("\n") + "\n"
+
+
+def _uncertainty_lines(z: dict) -> list[str]:
+    """The zone's invented input spreads for the Monte Carlo (``[zones.uncertainty]``)."""
+    return [
+        "[zones.uncertainty]             # invented spreads of this zone's inputs",
+        'fwl = { distribution = "normal", sd = "3 m" }                       # mean: the fwl above',
+        'water_density = { distribution = "normal", sd = "0.01 g/cm3" }',
+        'hydrocarbon_density = { distribution = "normal", sd = "0.02 g/cm3" }',
+        'sigma_cos_theta = { distribution = "truncated_normal", sd = "3 mN/m", '
+        'low = "15 mN/m", high = "60 mN/m" }',
+        'porosity_error = { distribution = "normal", sd = 0.01, correlation_length = "2 m" }      '
+        '# added [fraction]',
+        'permeability_error = { distribution = "normal", sd = 0.15, correlation_length = "2 m" }  '
+        '# decades: k x 10^e',
+    ]
 
 
 def write_atomic(path: Path, text: str) -> None:
