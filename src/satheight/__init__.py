@@ -2,7 +2,7 @@
 
 Public entry points:
 
-* :func:`satheight.pipeline.run_project` runs a project file end to end.
+* :func:`satheight.workflows.run.run_project` runs a project file end to end.
 * :mod:`satheight.engine` holds the pure per-depth computation.
 * :mod:`satheight.models` holds the J-Sw function families (fit/predict).
 """

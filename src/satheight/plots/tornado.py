@@ -16,7 +16,7 @@ from matplotlib.figure import Figure
 from matplotlib.patches import Patch
 
 from ..uncertainty import TornadoBar
-from .track import safe_text
+from .text import safe_text
 
 __all__ = ["tornado_figure"]
 

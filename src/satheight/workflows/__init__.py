@@ -6,5 +6,11 @@
 - :mod:`satheight.workflows.fit`: ``fit`` (core data to fitted J-Sw functions);
 - :mod:`satheight.workflows.contacts`: ``fwl`` and ``pressures``;
 - :mod:`satheight.workflows.inspect`: ``inspect`` (what a LAS file holds);
-- :mod:`satheight.workflows.report`: the HTML report of a run.
+- :mod:`satheight.workflows.report`: the HTML report of a run;
+- :mod:`satheight.workflows.setup`: ``start`` (a commented project file from a folder of LAS files);
+- :mod:`satheight.workflows.output_folder`: the output folder's lock, work folder and manifest;
+- :mod:`satheight.workflows.figures`: every figure written through :mod:`satheight.io.atomic`;
+- :mod:`satheight.workflows.field_tables`: the field summary and all-wells tables;
+- :mod:`satheight.workflows.uncertainty`: the Monte Carlo inside a run;
+- :mod:`satheight.workflows.console`: progress on stderr and JSON on stdout.
 """

@@ -3,7 +3,7 @@
 The command line calls :func:`run_fwl` and :func:`run_pressures`; they return
 plain dicts (what was found, which files were written) and never print.
 :func:`fwl_from_project` gathers each zone's samples over the project's wells and
-runs the search of :mod:`satheight.contacts`.
+runs the search of :mod:`satheight.fwlsearch`.
 """
 
 from __future__ import annotations

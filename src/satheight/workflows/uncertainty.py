@@ -15,12 +15,12 @@ from pathlib import Path
 import numpy as np
 
 from .. import units as U
-from ..io.atomic import atomic_save_figure
 from ..plots.tornado import tornado_figure
 from ..results import WellResult
 from ..uncertainty import (MonteCarloResult, TornadoBar, check_zone_uncertainty, monte_carlo,
                            tornado)
 from ..well import Curve
+from .figures import save_figure
 
 #: The percentile curves written beside the SHM curves, and their descriptions.
 UNCERTAINTY_CURVES = {
@@ -126,4 +126,4 @@ def write_tornado(wu: WellUncertainty | None, path: Path, title: str,
         return []
     fig = tornado_figure(wu.base_hcpt, wu.bars, title=title, length_unit=length_unit,
                          length_factor=U.factor(length_unit, "length"))
-    return atomic_save_figure(fig, [Path(path)], dpi=110)
+    return save_figure(fig, path)
