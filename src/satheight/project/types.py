@@ -95,11 +95,15 @@ class LogSwSpec:
     ----------
     method : str
         ``"curve"`` (use the well's Sw curve), ``"archie"`` (compute from Rt and
-        porosity) or ``"auto"`` (curve if the well has one, else Archie).
+        porosity), ``"auto"`` (curve if the well has one, else Archie), or a shaly-sand
+        equation from Rt, porosity and the shale-volume curve: ``"simandoux"``,
+        ``"indonesia"`` (:data:`satheight.logsw.SHALY_SAND`).
     a, m, n : float
         Archie tortuosity factor, cementation and saturation exponents.
     rw : float or None
         Formation-water resistivity at formation temperature [ohm.m].
+    rsh : float or None
+        Shale resistivity [ohm.m]; required by the shaly-sand methods.
     """
 
     method: str = "auto"
@@ -107,6 +111,7 @@ class LogSwSpec:
     m: float = 2.0
     n: float = 2.0
     rw: float | None = None
+    rsh: float | None = None
 
 
 @dataclass(frozen=True)
@@ -120,10 +125,14 @@ class ComparisonSpec:
         difference statistics and hydrocarbon pore thickness (net reservoir cutoff).
     min_permeability : float
         Samples with permeability below this [m^2] are left out likewise.
+    max_shale : float or None
+        Samples with shale volume (the ``shale`` curve role) above this [fraction]
+        are left out likewise; ``None``: no shale cutoff.
     """
 
     min_porosity: float = 0.0
     min_permeability: float = 0.0
+    max_shale: float | None = None
 
 
 @dataclass(frozen=True)

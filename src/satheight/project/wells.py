@@ -14,7 +14,7 @@ from .values import ALLOW_KEY, _label, _show
 _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "survey_format",
               "location", ALLOW_KEY)
 _SURVEY_FORMATS = ("csv", "las")
-_CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
+_CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw", "shale")
 
 
 def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:

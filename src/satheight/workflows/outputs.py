@@ -101,7 +101,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
-                               project.comparison.min_porosity, project.comparison.min_permeability)
+                               project.comparison.min_porosity, project.comparison.min_permeability,
+                               project.comparison.max_shale)
     _add_contacts(result, project, U.factor(length_unit, "length"))
     if mc is not None:
         result.summary["uncertainty"] = uncertainty_section(mc, length_unit)

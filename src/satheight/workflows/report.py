@@ -48,6 +48,8 @@ PRINT_HINT = ("To print or save as PDF: open this file in a web browser, choose 
 
 #: Readable words for where the log Sw came from (the run summary keeps short codes).
 _SW_SOURCES = {"archie": "Archie equation from the resistivity curve",
+               "simandoux": "Simandoux equation from the resistivity and shale-volume curves",
+               "indonesia": "Indonesia equation from the resistivity and shale-volume curves",
                "none": "none (no Sw curve and no resistivity with Rw)"}
 
 _ENV = jinja2.Environment(loader=jinja2.PackageLoader("satheight", "templates"),
@@ -214,6 +216,9 @@ def project_parameters(project: Project) -> dict:
                ("Log Sw method", ls.method),
                ("Archie a, m, n", f"{_sig(ls.a)}, {_sig(ls.m)}, {_sig(ls.n)}"),
                ("Rw at formation temperature", "" if ls.rw is None else f"{_sig(ls.rw)} ohm.m"),
+               *([("Shale resistivity Rsh", f"{_sig(ls.rsh)} ohm.m")] if ls.rsh is not None else []),
+               *([("Net-reservoir shale-volume cutoff", f"{_sig(cmp_.max_shale)} (fraction)")]
+                 if cmp_.max_shale is not None else []),
                ("Net-reservoir porosity cutoff", f"{_sig(cmp_.min_porosity)} (fraction)"),
                ("Net-reservoir permeability cutoff",
                 f"{_sig(U.from_si(cmp_.min_permeability, 'mD', 'permeability'))} mD")]
