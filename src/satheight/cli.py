@@ -335,6 +335,10 @@ def _common_run_options(sp):
     sp.add_argument("--workers", metavar="N|auto", type=_workers, default=1,
                     help="run N wells at a time in separate processes (default 1; auto: one per "
                          "available core)")
+    sp.add_argument("--existing", choices=("replace", "suffix"), default="replace",
+                    help="input LAS curves named like a computed curve (TVDSS, SW_SHM... of an "
+                         "earlier run's output): replace them with a note (default), or keep "
+                         "them and give the new curves a suffix (TVDSS_2)")
     _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
@@ -481,7 +485,8 @@ def _dispatch(args) -> int:
                          depth_axis=args.depth_axis, workers=args.workers,
                          keep_results=False, overwrite=args.overwrite,
                          progress=progress_wanted(sys.stderr, args.quiet),
-                         plot_interval="all" if args.whole_log else "zones")
+                         plot_interval="all" if args.whole_log else "zones",
+                         existing=args.existing)
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK

@@ -24,9 +24,11 @@ from ..logsw import SHALY_SAND, archie_sw
 from ..project import check_fwl_near_wells
 from ..project.types import Project, WellSpec, ZoneSpec
 from ..results import FLAG_MEANINGS, WellResult
-from ..roles import detect_roles, require_role, role_values
+from ..roles import ROLE_ALIASES, detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
+from .existing import USER_CURVES, prepare_input, role_aliases, suffixed
+from .uncertainty import UNCERTAINTY_CURVES
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -161,15 +163,26 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray, v
     return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n, clip=False), "archie", msgs
 
 
-def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
-    """Load one well and compute everything (no files written)."""
+def compute_well(project: Project, spec: WellSpec,
+                 existing: str = "replace") -> tuple[WellResult, list[str]]:
+    """Load one well and compute everything (no files written).
+
+    ``existing``: input curves named like a computed one are dropped (``"replace"``) or
+    kept (``"suffix"``: the new ones are renamed when written), with a note.
+    """
     well = read_las(spec.las)
     if spec.name:
         well.name = spec.name
     else:
         spec = pending_tops(project, spec, well.name)
     msgs = list(well.warnings)
-    roles = detect_roles(well, spec.curves)
+    computed = set(NEW_CURVES) | set(UNCERTAINTY_CURVES)
+    well, notes = prepare_input(well, computed, existing)
+    if existing == "suffix":
+        notes = suffixed([Curve(mn, "", "", well.md) for mn in sorted(computed - USER_CURVES)],
+                         well)[2]
+    msgs += notes
+    roles = detect_roles(well, spec.curves, role_aliases(ROLE_ALIASES, well, computed))
     phi_mn = require_role(well, "porosity", roles.get("porosity"))
     k_mn = require_role(well, "permeability", roles.get("permeability"))
     phi, w1 = role_values(well, "porosity", phi_mn)
