@@ -241,7 +241,8 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
         block["hcpt_shm"] = block.get(f"hcpt_{hc}_shm")
         block["hcpt_log"] = block.get(f"hcpt_{hc}_log")
         block.update({"top_tvdss": zn.top / length_factor, "base_tvdss": zn.base / length_factor,
-                      "fwl_tvdss": zn.fwl / length_factor, "hydrocarbon": zn.hydrocarbon,
+                      "fwl_tvdss": zn.fwl / length_factor, "fwl_source": zn.fwl_source,
+                      "hydrocarbon": zn.hydrocarbon,
                       "function": zn.function.name, "parameters": dict(zn.function.params_)})
         zones[zn.name] = block
     all_zones = result.shm.zone >= 0

@@ -40,12 +40,17 @@ File format
     location = { east = 1200, north = 800 }   # optional: well-head map position (project length unit), used by the field cross-section
     [wells.tops]                    # optional: zone name = [top, base] in this well's measured depth (project length unit for bare numbers)
     Upper = ["2010 m", "2120 m"]
+    [wells.fwl]                     # optional: zone name = this well's own FWL TVDSS (a compartment or stepped contact); wins over the zone's fwl and fwl_plane
+    Upper = "2065 m"
 
     [[zones]]
     name = "Upper"                  # required, unique
     top = "1980 m"                  # TVDSS, positive down; optional if wells give tops for this zone
     base = "2100 m"                 # TVDSS; top < base
-    fwl = "2060 m"                  # free-water level TVDSS, required
+    fwl = "2060 m"                  # free-water level TVDSS, required (at the plane's reference point when fwl_plane is given)
+    fwl_plane = { east = 1200, north = 800, gradient_east = 0.004, gradient_north = 0 }   # optional tilted FWL: plane through fwl at map point (east, north) (project length unit),
+                                    # deepening by gradient_east / gradient_north metres per metre (plain numbers, positive deeper); evaluated at each well's location (required then);
+                                    # |gradient| above 0.05 needs "fwl_plane" in allow_unusual
     hydrocarbon = "oil"             # "oil", "gas" or "air"
     water_density = "1.08 g/cm3"    # reservoir conditions; a density OR a pressure gradient ("0.468 psi/ft", "10.6 kPa/m") -> kg/m3
     hydrocarbon_density = "0.75 g/cm3"
@@ -142,13 +147,17 @@ _PROJECT_KEYS = ("name", "units", "tops_file")
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw", "rsh", ALLOW_KEY)
 _COMPARISON_KEYS = ("min_porosity", "min_permeability", "max_shale", ALLOW_KEY)
 _LOG_SW_METHODS = ("curve", "archie", "auto", "simandoux", "indonesia")
-_ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
+_ZONE_KEYS = ("name", "top", "base", "fwl", "fwl_plane", "hydrocarbon", "water_density",
               "hydrocarbon_density", "sigma_cos_theta", "function", ALLOW_KEY) + FLUID_ZONE_KEYS \
               + (UNCERTAINTY_ZONE_KEY,)
 #: Values of a [[zones]] entry that may be listed in its allow_unusual.
-ZONE_ALLOW = ("fwl", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
+ZONE_ALLOW = ("fwl", "fwl_plane", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
               "sigma_cos_theta", "gas_sigma_cos_theta") + CONDITION_ALLOW
 _HYDROCARBONS = ("oil", "gas", "air")
+_PLANE_KEYS = ("east", "north", "gradient_east", "gradient_north")
+#: Largest FWL tilt taken without allow_unusual [m/m]: hydrodynamic tilts are commonly
+#: a few metres per kilometre, rarely above a few tens (common practice).
+_MAX_FWL_TILT = 0.05
 
 
 # ----------------------------------------------------------------------------------
@@ -415,8 +424,30 @@ class _Reader(ValueReader):
             self.plausible("sigma_cos_theta", zf["gas_sigma_cos_theta"],
                            f"{key}.gas_sigma_cos_theta", t["gas_sigma_cos_theta"], allowed=allowed)
         function = read_function(self, t["function"], f"{key}.function")
+        plane = self.read_fwl_plane(t, key, allowed)
         return Zone(name=name, top=top, base=base, fwl=fwl, hydrocarbon=hydrocarbon,
-                    sigma_cos_theta=sigma, function=function, allow_unusual=allowed, **zf)
+                    sigma_cos_theta=sigma, function=function, allow_unusual=allowed,
+                    fwl_plane=plane, **zf)
+
+    def read_fwl_plane(self, t: dict, key: str, allowed: frozenset) -> tuple | None:
+        """``fwl_plane = { east, north, gradient_east, gradient_north }``: a tilted FWL
+        through ``fwl`` at map point (east, north) [m], gradients in m/m (positive deeper)."""
+        if "fwl_plane" not in t:
+            return None
+        k = f"{key}.fwl_plane"
+        p = self.table(t["fwl_plane"], k, _PLANE_KEYS, required=_PLANE_KEYS,
+                       what="a table { east, north, gradient_east, gradient_north }")
+        east = self.quantity(p["east"], f"{k}.east", "length")
+        north = self.quantity(p["north"], f"{k}.north", "length")
+        ge = self.number(p["gradient_east"], f"{k}.gradient_east")
+        gn = self.number(p["gradient_north"], f"{k}.gradient_north")
+        if "fwl_plane" not in allowed and (ge * ge + gn * gn) ** 0.5 > _MAX_FWL_TILT:
+            raise self.error(k, f"the FWL plane dips {(ge * ge + gn * gn) ** 0.5:g} m per m "
+                             f"(more than {_MAX_FWL_TILT:g}, about 3 degrees)",
+                             hint="gradients are depth change per horizontal distance (m/m or "
+                                  'ft/ft); if the tilt is deliberate, add "fwl_plane" to '
+                                  "allow_unusual = [...] of the zone")
+        return (east, north, ge, gn)
 
     def check_densities(self, t: dict, key: str, hydrocarbon: str, zf: dict,
                         allowed: frozenset) -> None:

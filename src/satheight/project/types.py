@@ -73,7 +73,10 @@ class WellSpec:
         Zone name -> (top, base) in TVDSS [m], positive down (from the tops file).
     location : tuple[float, float] or None
         Well-head position (east, north) [m] in the field's map coordinates, for
-        the field cross-section; ``None`` if not given.
+        the field cross-section and a tilted FWL (``fwl_plane``); ``None`` if not given.
+    fwl : dict[str, float]
+        Zone name -> this well's own FWL TVDSS [m] (``[wells.fwl]``), overriding the
+        zone's ``fwl`` and ``fwl_plane`` in this well (a compartment, a stepped contact).
     """
 
     name: str | None
@@ -85,6 +88,7 @@ class WellSpec:
     survey_format: str | None = None
     tops_tvdss: dict[str, tuple[float, float]] = field(default_factory=dict)
     location: tuple[float, float] | None = None
+    fwl: dict[str, float] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)

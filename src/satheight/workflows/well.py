@@ -27,6 +27,7 @@ from ..results import FLAG_MEANINGS, WellResult
 from ..roles import ROLE_ALIASES, detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
+from .fwl_per_well import well_fwl
 from .existing import USER_CURVES, prepare_input, role_aliases, suffixed
 from .uncertainty import UNCERTAINTY_CURVES
 
@@ -118,12 +119,15 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
             top, base = zs.top, zs.base
         else:
             continue
-        out.append(_zone_model(zs, float(top), float(base), project.path))
+        fwl, fwl_source = well_fwl(project, spec, zs)   # the well's own or a tilted FWL
+        out.append(_zone_model(zs, float(top), float(base), project.path, fwl, fwl_source))
     return out
 
 
-def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
-    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function")
+def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path, fwl=None,
+                fwl_source=None) -> ZoneModel:
+    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function",
+                         fwl=fwl, fwl_source=fwl_source)
 
 
 #: Log-Sw sources computed here from Rt (not a curve of the LAS file).
