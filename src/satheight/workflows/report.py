@@ -252,6 +252,8 @@ def _caption(well: str, name: str) -> str:
     stem = Path(name).stem
     if stem.endswith("_tracks"):
         return f"Track plot of {well}"
+    if stem.endswith("_tornado"):
+        return f"Tornado chart of {well}: HCPT swing per uncertain input"
     return f"{well}: {stem.replace('_', ' ')}"
 
 
@@ -263,6 +265,8 @@ def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str,
 
     field = [fig(n, "Field section, TVDSS") for n in [summary.get("field_section")] if n]
     field += [fig(n, Path(n).stem.replace("_", " ")) for n in summary.get("figures", [])]
+    field += [fig(n, "Log Sw against height above the FWL and against J, every well, zone "
+                  + Path(n).stem[len("crossplot_"):]) for n in summary.get("crossplots", [])]
     per_well = {}
     for w in summary.get("wells", []):
         per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n))
@@ -299,6 +303,26 @@ def _zone_tables(summary: dict) -> list[dict]:
     return list(zones.values())
 
 
+def _monte_carlo(wells: list[dict]) -> list[dict]:
+    """Per well with a Monte Carlo (``uncertainty`` in its summary): HCPT P90/P50/P10 rows."""
+    out = []
+    for w in wells:
+        mc = (w.get("summary") or {}).get("uncertainty")
+        if not mc:
+            continue
+        hc = mc.get("hcpt") or {}
+        rows = [{"what": f"zone {z}", "phase": b.get("phase", ""), **b}
+                for z, b in (hc.get("zones") or {}).items()]
+        rows += [{"what": f"all {p} zones", "phase": p, **b}
+                 for p, b in (hc.get("phases") or {}).items()]
+        bars = (mc.get("tornado") or {}).get("bars") or []
+        out.append({"well": w.get("name", ""), "rows": rows, "bars": bars,
+                    "realisations": mc.get("realisations"), "seed": mc.get("seed"),
+                    "unit": (mc.get("units") or {}).get("hcpt", ""),
+                    "convention": mc.get("convention", "")})
+    return out
+
+
 def report_context(summary: dict, title: str, out_dir=None, project: Project | None = None,
                    now: _dt.datetime | None = None) -> dict:
     """Everything the template shows, as plain values (numbers still numbers)."""
@@ -322,6 +346,7 @@ def report_context(summary: dict, title: str, out_dir=None, project: Project | N
         "parameters": project_parameters(project) if project is not None else None,
         "zones": _zone_tables(summary), "field_figures": field_figs,
         "notes": list(summary.get("notes", [])),
+        "monte_carlo": _monte_carlo(wells),
     }
 
 
