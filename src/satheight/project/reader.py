@@ -99,9 +99,10 @@ Rules
   unit probably meant ("did you mean 1.08 g/cm3?"). A deliberate unusual value is
   let through by naming it in the list ``allow_unusual`` of the same table, e.g.
   ``allow_unusual = ["hydrocarbon_density", "fwl"]`` in a ``[[zones]]`` entry,
-  ``allow_unusual = ["m"]`` in ``[log_sw]``, ``["min_porosity"]`` in
-  ``[comparison]``, ``["datum_elevation"]`` in a ``[[wells]]`` entry. A zone's list
-  may also name ``gas_oil_level``, ``gas_density``, ``sigma_cos_theta``,
+  ``allow_unusual = ["m"]`` in ``[log_sw]`` (also ``"rsh"``, shale resistivity
+  0.1-200 ohm.m), ``["min_porosity"]`` in ``[comparison]``, ``["datum_elevation"]`` or
+  ``["fwl"]`` (the ``[wells.fwl]`` values) in a ``[[wells]]`` entry. A zone's list
+  may also name ``fwl_plane`` (a tilt above 0.05 m/m), ``gas_oil_level``, ``gas_density``, ``sigma_cos_theta``,
   ``gas_sigma_cos_theta``, ``pressure``, ``temperature``, ``pressure_gradient`` and
   ``salinity``; other names are refused.
 * Explicit well names must be unique. A well without a name takes the LAS

@@ -188,6 +188,10 @@ def _zone_parameters(z, system: str) -> list[tuple[str, str]]:
     rows = [("Top TVDSS", _q(z.top, "length", system, 2) if z.top is not None else "per well"),
             ("Base TVDSS", _q(z.base, "length", system, 2) if z.base is not None else "per well"),
             ("FWL TVDSS", _q(z.fwl, "length", system, 2)),
+            *([("FWL plane", f"through the FWL at east {_q(z.fwl_plane[0], 'length', system, 2)}, "
+                             f"north {_q(z.fwl_plane[1], 'length', system, 2)}; deepening "
+                             f"{_sig(z.fwl_plane[2])} per unit east, {_sig(z.fwl_plane[3])} per "
+                             "unit north; evaluated at each well head")] if z.fwl_plane else []),
             ("Hydrocarbon", z.hydrocarbon),
             ("Water density", _q(z.water_density, "density", system)),
             ("Hydrocarbon density", _q(z.hydrocarbon_density, "density", system)),
@@ -228,7 +232,9 @@ def project_parameters(project: Project) -> dict:
                       "datum": ("from the LAS header" if spec.datum_elevation is None
                                 else _q(spec.datum_elevation, "length", system, 2)),
                       "survey": spec.survey.name if spec.survey is not None else "vertical",
-                      "curves": ", ".join(f"{r} = {m}" for r, m in spec.curves.items())})
+                      "curves": ", ".join(f"{r} = {m}" for r, m in spec.curves.items())
+                      + "".join(f"; FWL {zn} = {_q(v, 'length', system, 2)}"
+                                for zn, v in spec.fwl.items())})
     zones = [{"name": z.name, "rows": _zone_parameters(z, system)} for z in project.zones]
     return {"general": general, "wells": wells, "zones": zones}
 
