@@ -69,3 +69,21 @@ def test_rerun_with_suffix_keeps_both(first_run):
     np.testing.assert_allclose(las["SW_LOG_2"], _archie(las), atol=1e-5)   # archie1942
     notes = (folder / "out3" / "run_summary.json").read_text("utf-8")
     assert "TVDSS -> TVDSS_2" in notes
+
+
+def test_users_own_sw_log_curve_is_kept_as_log_sw(tmp_path):
+    """A LAS file not written by satheight with a curve SW_LOG: with method auto it is the
+    user's log Sw (an alias of the sw role), kept and used, never replaced by Archie."""
+    project = make_field(tmp_path)
+    las = tmp_path / "w0.las"
+    text = las.read_text(encoding="utf-8").replace("RT.OHMM : resistivity\n",
+                                                   "RT.OHMM : resistivity\nSW_LOG.V/V : log Sw\n")
+    head, data = text.split("~A\n")
+    rows = [r + " 0.3" for r in data.strip().splitlines()]
+    las.write_text(head + "~A\n" + "\n".join(rows) + "\n", encoding="utf-8")
+    run_project(project, tmp_path / "out", plot=False)
+    summary = json.loads((tmp_path / "out" / "W0_summary.json").read_text(encoding="utf-8"))
+    assert summary["sw_log_source"] == "curve:SW_LOG"
+    out = lasio.read(tmp_path / "out" / "W0.las")
+    # the file's values: 0.3 written above, kept as read
+    assert np.allclose(out["SW_LOG"], 0.3)

@@ -15,7 +15,9 @@ Two ways out, chosen by ``--existing``:
 
 In both modes the curves a previous run computed are never picked by the automatic
 curve roles (SW_LOG of a previous run is not log Sw from a file): name one under
-``curves`` in the project file to use it.
+``curves`` in the project file to use it (a curve named there is never dropped). In a
+file not written by this tool, a curve SW_LOG is the user's log Sw and kept as well,
+unless ``[log_sw] method`` computes log Sw (archie, simandoux, indonesia).
 """
 
 from __future__ import annotations
@@ -43,9 +45,10 @@ def written_by_satheight(well: Well) -> bool:
     return item is not None and str(item.value).strip().lower().startswith("satheight")
 
 
-def computed_in_input(well: Well, computed) -> list[str]:
-    """Keys of the input curves named like a curve of ``computed`` (mnemonics)."""
-    names = {c.upper() for c in computed}
+def computed_in_input(well: Well, computed, keep=()) -> list[str]:
+    """Keys of the input curves named like a curve of ``computed`` (mnemonics), except
+    those of ``keep`` (mnemonics the project names for a role, which are input)."""
+    names = {c.upper() for c in computed} - {k.upper() for k in keep}
     if not written_by_satheight(well):
         names -= USER_CURVES
     return [k for k in well.curves if k != well.index_mnemonic and _mnemonic(k) in names]
@@ -60,16 +63,17 @@ def role_aliases(aliases: dict, well: Well, computed) -> dict:
             for role, names in aliases.items()}
 
 
-def prepare_input(well: Well, computed, mode: str = "replace") -> tuple[Well, list[str]]:
+def prepare_input(well: Well, computed, mode: str = "replace",
+                  keep=()) -> tuple[Well, list[str]]:
     """The well to compute on and the notes, for ``mode`` (:data:`EXISTING_MODES`).
 
-    ``replace``: a copy without the input curves named like ``computed``; ``suffix``:
-    the well itself (the new curves are renamed by :func:`suffixed`). The input is
-    never modified.
+    ``replace``: a copy without the input curves named like ``computed`` (but those of
+    ``keep``); ``suffix``: the well itself (the new curves are renamed by
+    :func:`suffixed`). The input is never modified.
     """
     if mode not in EXISTING_MODES:
         raise ValueError(f"existing must be one of {EXISTING_MODES}, got {mode!r}")
-    clash = computed_in_input(well, computed)
+    clash = computed_in_input(well, computed, keep)
     if not clash or mode == "suffix":
         return well, []
     origin = ("written by a previous run of this tool" if written_by_satheight(well)

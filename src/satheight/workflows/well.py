@@ -28,7 +28,8 @@ from ..roles import ROLE_ALIASES, detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
 from .fwl_per_well import well_fwl
-from .existing import USER_CURVES, prepare_input, role_aliases, suffixed
+from .existing import (USER_CURVES, prepare_input, role_aliases, suffixed,
+                       written_by_satheight)
 from .uncertainty import UNCERTAINTY_CURVES
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
@@ -181,7 +182,10 @@ def compute_well(project: Project, spec: WellSpec,
         spec = pending_tops(project, spec, well.name)
     msgs = list(well.warnings)
     computed = set(NEW_CURVES) | set(UNCERTAINTY_CURVES)
-    well, notes = prepare_input(well, computed, existing)
+    keep = set(spec.curves.values())    # curves the project names are input, never dropped
+    if project.log_sw.method in ("curve", "auto") and not written_by_satheight(well):
+        keep.add("SW_LOG")              # a user's log Sw curve of that name
+    well, notes = prepare_input(well, computed, existing, keep)
     if existing == "suffix":
         notes = suffixed([Curve(mn, "", "", well.md) for mn in sorted(computed - USER_CURVES)],
                          well)[2]
