@@ -59,10 +59,10 @@ def project(tmp_path):
 def test_program_error_in_one_well_fails_that_well_only(project, tmp_path, monkeypatch, capsys):
     real = pipeline.compute_well
 
-    def broken(proj, spec):
+    def broken(proj, spec, *rest):
         if spec.las.name == "a.las":
             raise TypeError("simulated program error")
-        return real(proj, spec)
+        return real(proj, spec, *rest)
 
     monkeypatch.setattr(pipeline, "compute_well", broken)
     code = main(["run", str(project), "--out", str(tmp_path / "o"), "--no-plots"])

@@ -289,7 +289,8 @@ def test_detect_roles_by_preference_and_case(tmp_path):
     well = make_well(tmp_path, curves, [[1.0, 0.2, 0.18, 10, 5, 6], [2.0, 0.2, 0.18, 10, 5, 6]])
     roles = detect_roles(well)
     # README (Curve roles): aliases in the table's order, any letter case
-    assert roles == {"porosity": "phie", "permeability": "perm", "resistivity": "RT", "sw": None}
+    assert roles == {"porosity": "phie", "permeability": "perm", "resistivity": "RT", "sw": None,
+                     "shale": None}
 
 
 def test_role_overrides(tmp_path):

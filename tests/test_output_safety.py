@@ -64,11 +64,11 @@ def test_input_changed_during_the_run_is_an_error_naming_it(tmp_path, monkeypatc
     p = make_field(tmp_path / "in")
     real = run_module.compute_well
 
-    def compute_and_touch(project, spec):
+    def compute_and_touch(project, spec, *rest):
         if spec.las.name == "w1.las":
             with open(tmp_path / "in" / "w0.las", "a") as f:   # another program edits an input
                 f.write("\n")
-        return real(project, spec)
+        return real(project, spec, *rest)
 
     monkeypatch.setattr(run_module, "compute_well", compute_and_touch)
     out = tmp_path / "out"
@@ -84,9 +84,9 @@ def test_outputs_appear_only_when_the_run_ends(tmp_path, monkeypatch):
     seen = []
     real = run_module.compute_well
 
-    def compute_and_look(project, spec):
+    def compute_and_look(project, spec, *rest):
         seen.append(sorted(n for n in os.listdir(out) if not n.startswith(".")))
-        return real(project, spec)
+        return real(project, spec, *rest)
 
     monkeypatch.setattr(run_module, "compute_well", compute_and_look)
     assert run(p, out) == EXIT_OK

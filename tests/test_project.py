@@ -652,8 +652,9 @@ def test_function_only_one_j_bound(proj):
 # ----------------------------------------------------------------------------------
 def test_log_sw_unknown_method(proj):
     data = metric_data()
-    data["log_sw"]["method"] = "simandoux"
-    expect_error(data, proj, "log_sw.method", "'simandoux'", "'curve'", "'archie'", "'auto'")
+    data["log_sw"]["method"] = "dual_water"
+    expect_error(data, proj, "log_sw.method", "'dual_water'", "'curve'", "'archie'", "'auto'",
+                 "'simandoux'", "'indonesia'")
 
 
 def test_archie_without_rw(proj):

@@ -145,6 +145,7 @@ def _add_fit_parser(sub):
                         "needed for reservoir Pc, the height axis and height functions")
     f.add_argument("--no-plots", action="store_true", help="skip the plots")
     _overwrite_option(f)
+    _quiet_option(f)
     f.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
@@ -154,7 +155,8 @@ def _fit(args, out) -> int:
         k_factor=args.k_factor, group_by=args.group_by, k_classes=args.k_classes,
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
         reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots)
-    run = run_fit(args.files, args.out, settings, overwrite=args.overwrite)
+    run = run_fit(args.files, args.out, settings, overwrite=args.overwrite,
+                  progress=progress_wanted(sys.stderr, args.quiet))
     if args.json:  # the model file's content, the files written and the notes
         print_json("fit", {"model_file": run.model_path, "files": run.files, "notes": run.warnings,
                            "models": json.loads(Path(run.model_path).read_text(encoding="utf-8"))},
@@ -209,6 +211,7 @@ def _add_contact_commands(sub):
                    help="also fit this J-Sw parameter within bounds with the FWL; repeatable")
     f.add_argument("--no-plots", action="store_true", help="skip the misfit plots")
     _overwrite_option(f)
+    _quiet_option(f)
     f.add_argument("--json", action="store_true", help=JSON_HELP)
 
     pr = sub.add_parser("pressures", help="fluid gradients, FWL and free-oil level from pressures",
@@ -228,13 +231,15 @@ def _add_contact_commands(sub):
     pr.add_argument("--no-logs", action="store_true", help="skip the FWL search from log Sw")
     pr.add_argument("--no-plots", action="store_true", help="skip the pressure-depth plots")
     _overwrite_option(pr)
+    _quiet_option(pr)
     pr.add_argument("--json", action="store_true", help=JSON_HELP)
 
 
 def _fwl(args, out) -> int:
     project = Path(args.project)
     rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
-                  plot=not args.no_plots, overwrite=args.overwrite, window=args.window, step=args.step,
+                  plot=not args.no_plots, overwrite=args.overwrite,
+                  progress=progress_wanted(sys.stderr, args.quiet), window=args.window, step=args.step,
                   misfit=args.misfit, delta=args.delta, n_boot=args.resamples,
                   block_length=args.block, seed=args.seed, tolerance=args.tolerance,
                   shale_curve=args.shale_curve, max_shale=args.max_shale,
@@ -284,7 +289,7 @@ def _pressures(args, out) -> int:
     rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
                         zone=args.zone, units=args.units, qualities=quals,
                         with_logs=not args.no_logs, plot=not args.no_plots,
-                        overwrite=args.overwrite)
+                        overwrite=args.overwrite, progress=progress_wanted(sys.stderr, args.quiet))
     if args.json:
         print_json("pressures", rep, out)
         return EXIT_OK
@@ -335,12 +340,22 @@ def _common_run_options(sp):
     sp.add_argument("--workers", metavar="N|auto", type=_workers, default=1,
                     help="run N wells at a time in separate processes (default 1; auto: one per "
                          "available core)")
+    sp.add_argument("--existing", choices=("replace", "suffix"), default="replace",
+                    help="input LAS curves named like a computed curve (TVDSS, SW_SHM... of an "
+                         "earlier run's output): replace them with a note (default), or keep "
+                         "them and give the new curves a suffix (TVDSS_2)")
     _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
     sp.add_argument("--quiet", action="store_true",
                     help="no progress on stderr (it is shown only on a terminal anyway)")
     sp.add_argument("--json", action="store_true", help=JSON_HELP)
+
+
+def _quiet_option(sp) -> None:
+    sp.add_argument("--quiet", action="store_true",
+                    help="no progress on stderr (shown only on a terminal, and only when the "
+                         "command takes more than a second)")
 
 
 def _overwrite_option(sp) -> None:
@@ -481,7 +496,8 @@ def _dispatch(args) -> int:
                          depth_axis=args.depth_axis, workers=args.workers,
                          keep_results=False, overwrite=args.overwrite,
                          progress=progress_wanted(sys.stderr, args.quiet),
-                         plot_interval="all" if args.whole_log else "zones")
+                         plot_interval="all" if args.whole_log else "zones",
+                         existing=args.existing)
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK

@@ -19,6 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from .constants import MILLIDARCY
+from .errors import SatHeightError
 from .plausible import out_of_range_samples
 from .results import FLAG_BAD_PERMEABILITY, FLAG_BAD_POROSITY, FLAG_NO_ZONE, WellResult
 
@@ -102,6 +103,8 @@ def _not_computed_note(result: WellResult, zone_mask: np.ndarray, usable: np.nda
         why = f"none of its {n} samples has usable porosity, permeability and SHM Sw"
     src = result.sw_log_source
     origin = ("log Sw from Archie on the resistivity curve" if src == "archie" else
+              f"log Sw from {src.capitalize()} on the resistivity and shale curves"
+              if src in ("simandoux", "indonesia") else
               f"log Sw from curve {src.split(':', 1)[1]}" if src.startswith("curve:") else
               "no log Sw")
     return f"not computed: {why} ({origin})"
@@ -167,8 +170,10 @@ def _hcpt(phi, sw_shm, sw_log, dh, usable, phase, length_factor) -> dict:
     return out
 
 
-def net_mask(phi, k, min_porosity: float = 0.0, min_permeability: float = 0.0):
-    """Samples that count as reservoir: porosity >= cutoff [fraction] and k >= cutoff [m^2].
+def net_mask(phi, k, min_porosity: float = 0.0, min_permeability: float = 0.0,
+             vsh=None, max_shale: float | None = None):
+    """Samples that count as reservoir: porosity >= cutoff [fraction], k >= cutoff [m^2]
+    and, with ``max_shale``, shale volume <= cutoff [fraction] (common practice).
 
     Parameters
     ----------
@@ -176,13 +181,27 @@ def net_mask(phi, k, min_porosity: float = 0.0, min_permeability: float = 0.0):
         Porosity [fraction]; NaN is never net.
     k : array_like
         Permeability [m^2]; NaN is never net.
+    vsh : array_like, optional
+        Shale volume [fraction]; NaN is never net when ``max_shale`` is given.
+    max_shale : float, optional
+        Shale-volume cutoff [fraction]; ``None``: no shale cutoff. Given without
+        ``vsh`` it is an error (the cutoff is never silently skipped).
     """
     with np.errstate(invalid="ignore"):
-        return (np.asarray(phi, float) >= min_porosity) & (np.asarray(k, float) >= min_permeability)
+        net = (np.asarray(phi, float) >= min_porosity) & (np.asarray(k, float) >= min_permeability)
+        if max_shale is None:
+            return net
+        if vsh is None:
+            raise SatHeightError("a shale-volume cutoff (max_shale) is set but the well has no "
+                                 "shale-volume curve",
+                                 hint='name it with curves = { shale = "VSH" } in the well\'s entry '
+                                      "of the project file, or remove [comparison] max_shale")
+        return net & (np.asarray(vsh, float) <= max_shale)
 
 
 def summarise(result: WellResult, length_unit: str = "m", length_factor: float = 1.0,
-              min_porosity: float = 0.0, min_permeability: float = 0.0) -> dict:
+              min_porosity: float = 0.0, min_permeability: float = 0.0,
+              max_shale: float | None = None) -> dict:
     """Per-well and per-zone comparison of SHM Sw with log Sw, JSON-ready.
 
     Parameters
@@ -195,6 +214,8 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
     min_porosity, min_permeability : float
         Net-reservoir cutoffs [fraction], [m^2]: only samples at or above both enter
         the difference statistics and the hydrocarbon pore thickness.
+    max_shale : float, optional
+        Shale-volume cutoff [fraction] on ``result.vsh`` (see :func:`net_mask`).
 
     Returns
     -------
@@ -206,7 +227,10 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
         hcpt_log (hydrocarbon pore thickness in ``length_unit``) and vertical_thickness.
     """
     dh = sample_thickness(result.tvdss)
-    net = net_mask(result.phi, result.k, min_porosity, min_permeability)
+    try:
+        net = net_mask(result.phi, result.k, min_porosity, min_permeability, result.vsh, max_shale)
+    except SatHeightError as exc:
+        raise SatHeightError(exc.what, where=str(result.well.source), hint=exc.hint) from None
     phase = _phase_of_samples(result)
     zones = {}
     for i, zn in enumerate(result.zones):
@@ -217,7 +241,8 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
         block["hcpt_shm"] = block.get(f"hcpt_{hc}_shm")
         block["hcpt_log"] = block.get(f"hcpt_{hc}_log")
         block.update({"top_tvdss": zn.top / length_factor, "base_tvdss": zn.base / length_factor,
-                      "fwl_tvdss": zn.fwl / length_factor, "hydrocarbon": zn.hydrocarbon,
+                      "fwl_tvdss": zn.fwl / length_factor, "fwl_source": zn.fwl_source,
+                      "hydrocarbon": zn.hydrocarbon,
                       "function": zn.function.name, "parameters": dict(zn.function.params_)})
         zones[zn.name] = block
     all_zones = result.shm.zone >= 0
@@ -227,6 +252,7 @@ def summarise(result: WellResult, length_unit: str = "m", length_factor: float =
             "units": {"thickness": length_unit, "depth": length_unit, "saturation": "fraction"},
             "datum_elevation": result.datum_elevation / length_factor,
             "cutoffs": {"min_porosity": min_porosity,
-                        "min_permeability_mD": min_permeability / MILLIDARCY},
+                        "min_permeability_mD": min_permeability / MILLIDARCY,
+                        **({} if max_shale is None else {"max_shale": max_shale})},
             "whole_well": _block(result, all_zones, net, dh, length_factor, phase),
             "zones": zones}

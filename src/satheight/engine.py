@@ -78,6 +78,12 @@ class Zone:
     allow_unusual : frozenset of str
         Names of this zone's values the project file allows outside their plausible
         range (:mod:`satheight.plausible`), e.g. ``{"fwl"}``.
+    fwl_plane : tuple of float or None
+        A tilted FWL: ``(east0 [m], north0 [m], gradient_east [-], gradient_north [-])``,
+        the plane through ``fwl`` at map point (east0, north0) (see :func:`fwl_on_plane`).
+        In the per-well form ``fwl`` is already this well's value.
+    fwl_source : str
+        Where ``fwl`` came from, in words (JSON summaries and report).
     """
 
     name: str
@@ -96,6 +102,8 @@ class Zone:
     gas_sigma_cos_theta: float | None = None
     fluids: dict = field(default_factory=dict)
     allow_unusual: frozenset = frozenset()
+    fwl_plane: tuple | None = None
+    fwl_source: str = "project file"
 
     @property
     def delta_rho(self) -> float:
@@ -112,8 +120,38 @@ class Zone:
 ZoneModel = Zone
 
 
-def zone_for_well(zone: Zone, top: float, base: float, where: str = "") -> Zone:
-    """The per-well form of a project zone: this well's window, ready J-Sw functions.
+def fwl_on_plane(fwl0, east0, north0, gradient_east, gradient_north, east, north):
+    """Depth of a tilted (planar) free-water level at map points [m], TVDSS positive down.
+
+    ``z = fwl0 + gradient_east * (east - east0) + gradient_north * (north - north0)``:
+    the plane through depth ``fwl0`` at the reference point (east0, north0), deepening
+    by ``gradient_east`` metres per metre towards the east and ``gradient_north`` towards
+    the north. A dip angle d towards azimuth b (clockwise from north) gives
+    ``gradient_east = tan(d) sin(b)``, ``gradient_north = tan(d) cos(b)``.
+
+    Parameters
+    ----------
+    fwl0 : float
+        FWL TVDSS at the reference point [m].
+    east0, north0 : float
+        Reference point in map coordinates [m].
+    gradient_east, gradient_north : float
+        Depth change per horizontal distance [m/m], positive deeper.
+    east, north : array_like
+        Map points [m].
+
+    References
+    ----------
+    Plane geometry (closed form); tilted contacts from hydrodynamic flow: common practice.
+    """
+    return (fwl0 + gradient_east * (np.asarray(east, dtype=float) - east0)
+            + gradient_north * (np.asarray(north, dtype=float) - north0))
+
+
+def zone_for_well(zone: Zone, top: float, base: float, where: str = "",
+                  fwl: float | None = None, fwl_source: str | None = None) -> Zone:
+    """The per-well form of a project zone: this well's window, ready J-Sw functions
+    and, when given, this well's FWL TVDSS [m] and where it came from.
 
     Parameters
     ----------
@@ -131,8 +169,9 @@ def zone_for_well(zone: Zone, top: float, base: float, where: str = "") -> Zone:
         rock_functions = {rt: build_function(f.family, f.params, f.j_range, where=where)
                           for rt, f in spec.by_rock_type.items()}
         classifier = spec.rock_rule.classify
+    own = {} if fwl is None else {"fwl": float(fwl), "fwl_source": fwl_source or zone.fwl_source}
     return replace(zone, top=top, base=base, function=fn, rock_functions=rock_functions,
-                   rock_classifier=classifier)
+                   rock_classifier=classifier, **own)
 
 
 def assign_zones(tvdss, zones: Sequence[Zone]) -> np.ndarray:

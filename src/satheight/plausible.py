@@ -101,6 +101,8 @@ RANGES: dict[str, Plausible] = {
                           _CP + "; archie1942 gives about 2"),
     "rw": Plausible("formation-water resistivity at formation temperature", "resistivity",
                     0.005, 20.0, "ohm.m", _CP + ": saturated brine when hot to fresh water"),
+    "rsh": Plausible("shale resistivity", "resistivity", 0.1, 200.0, "ohm.m",
+                     _CP + ": wet shales read about 0.5 to 20 ohm.m"),
     "pressure": Plausible("reservoir pressure", "pressure", 0.1e6, 250e6, "MPa", _CP),
     "temperature": Plausible("reservoir temperature", "temperature", 273.15, 573.15, "degC",
                              _CP + ": 0 to 300 degC"),

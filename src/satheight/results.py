@@ -95,6 +95,8 @@ class WellResult:
         Archie log Sw before clipping to [0, 1] [fraction] (``None`` when log Sw is a
         curve of the LAS file): the comparison statistics use it; ``sw_log`` (clipped)
         is what is exported.
+    vsh : numpy.ndarray or None
+        Shale volume [fraction] from the well's ``shale`` curve, if it has one.
     """
 
     well: Well
@@ -114,3 +116,4 @@ class WellResult:
     east: np.ndarray | None = None
     survey: Any = None
     sw_log_unclipped: np.ndarray | None = None
+    vsh: np.ndarray | None = None

@@ -1,11 +1,12 @@
 """Which curve of a well plays which role, and its values in SI.
 
-A saturation-height run needs up to four log curves, named here by *role*:
+A saturation-height run needs up to five log curves, named here by *role*:
 
 * ``porosity``     effective or total porosity [fraction]
 * ``permeability`` permeability [m^2] (files usually give mD)
 * ``resistivity``  deep (true) formation resistivity [ohm.m]
 * ``sw``           water saturation interpreted from logs [fraction]
+* ``shale``        shale volume Vsh [fraction] (shaly-sand log Sw, shale cutoff)
 
 A role's curve is either named by the user (``curves = { porosity = "PHIE" }`` in
 the well's entry of the project file) or found by trying the mnemonics of
@@ -40,6 +41,7 @@ ROLE_ALIASES: dict[str, tuple[str, ...]] = {
     "permeability": ("PERM", "PERM_LOG", "KLOG", "K", "KH", "PERMH", "PERMEABILITY", "KINT"),
     "resistivity": ("RT", "RDEEP", "RD", "RDEP", "RES_DEEP", "ILD", "LLD"),
     "sw": ("SW", "SW_LOG", "SWLOG", "SWE", "SWT", "SWA"),
+    "shale": ("VSH", "VSHALE", "VCL", "VCLAY", "VSH_GR"),
 }
 
 #: Mnemonics of permeability curves with a direction or method suffix (KH, KLOGH, PERM_H),
@@ -50,7 +52,7 @@ PERMEABILITY_PATTERN = re.compile(r"^(K|PERM)[A-Z0-9_]*$", re.I)
 ROLES: tuple[str, ...] = tuple(ROLE_ALIASES)
 
 # Unit families by role: the units.KINDS table used to convert the curve to SI.
-_ROLE_KIND = {"porosity": "fraction", "sw": "fraction",
+_ROLE_KIND = {"porosity": "fraction", "sw": "fraction", "shale": "fraction",
               "permeability": "permeability", "resistivity": "resistivity"}
 
 # Fraction-like curves whose largest value exceeds this are taken to be in percent.

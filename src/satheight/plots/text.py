@@ -31,8 +31,8 @@ def unit_label(name: str, unit: str, name_max: int = 24) -> str:
 def log_sw_label(source: str) -> str:
     """Legend text of the log Sw from its source (``"archie"``, ``"curve:<MNEMONIC>"``)."""
     src = source or ""
-    if src == "archie":
-        return "Log Sw (Archie)"
+    if src in ("archie", "simandoux", "indonesia"):
+        return f"Log Sw ({src.capitalize()})"
     if src.startswith("curve:"):
         mnem = safe_text(src.split(":", 1)[1], 12)
         return f"Log Sw ({mnem})" if mnem else "Log Sw"

@@ -17,32 +17,40 @@ File format
     tops_file = "tops.csv"          # optional: formation tops per well (io/tops.py layout), relative to this file; merged into the wells' tops
 
     [log_sw]                        # optional table; defaults method="auto", a=1, m=2, n=2
-    method = "auto"                 # "curve" (use the well's Sw curve), "archie" (from Rt and porosity), "auto" (curve if present else archie)
+    method = "auto"                 # "curve" (use the well's Sw curve), "archie" (from Rt and porosity), "auto" (curve if present else archie),
+                                    # "simandoux" or "indonesia" (shaly sand: from Rt, porosity and the shale-volume curve, role shale)
     a = 1.0                         # Archie tortuosity factor [-] > 0
     m = 2.0                         # cementation exponent [-] > 0
     n = 2.0                         # saturation exponent [-] > 0
     rw = "0.045 ohm.m"              # formation-water resistivity at formation temperature, > 0. Required when method = "archie"; optional for auto
+    rsh = "2.5 ohm.m"               # shale resistivity, > 0; required by (and only allowed with) simandoux and indonesia
 
     [comparison]                    # optional: net-reservoir cutoffs for SHM vs log Sw statistics and HCPT
     min_porosity = 0.08             # fraction (or "8 %"); default 0
     min_permeability = "0.1 mD"     # bare number in mD; default 0
+    max_shale = 0.4                 # optional: shale volume (curve role shale) above this fraction is not net; needs a shale curve in every well
 
     [[wells]]
     las = "wells/A-1.las"           # required, relative to the project file; must exist (error names the resolved path)
     name = "A-1"                    # optional, default: the LAS file's well name
     datum_elevation = "25 m"        # optional: elevation of the log depth reference (KB, drill floor) above the TVDSS datum (sea level); bare number in project length unit; may be negative (ground below sea level) -> float SI metres; default None (take from LAS header)
-    curves = { porosity = "PHIE", permeability = "PERM", resistivity = "RT", sw = "SW" }   # optional role -> mnemonic overrides; roles allowed: porosity, permeability, resistivity, sw
+    curves = { porosity = "PHIE", permeability = "PERM", resistivity = "RT", sw = "SW", shale = "VSH" }   # optional role -> mnemonic overrides; roles allowed: porosity, permeability, resistivity, sw, shale
     survey = "A-1_survey.csv"       # optional: deviation survey (CSV or LAS, io/survey.py layout), relative to this file; without it the well is vertical
     survey_format = "csv"           # optional: "csv" or "las"; default from the file ending
     location = { east = 1200, north = 800 }   # optional: well-head map position (project length unit), used by the field cross-section
     [wells.tops]                    # optional: zone name = [top, base] in this well's measured depth (project length unit for bare numbers)
     Upper = ["2010 m", "2120 m"]
+    [wells.fwl]                     # optional: zone name = this well's own FWL TVDSS (a compartment or stepped contact); wins over the zone's fwl and fwl_plane
+    Upper = "2065 m"
 
     [[zones]]
     name = "Upper"                  # required, unique
     top = "1980 m"                  # TVDSS, positive down; optional if wells give tops for this zone
     base = "2100 m"                 # TVDSS; top < base
-    fwl = "2060 m"                  # free-water level TVDSS, required
+    fwl = "2060 m"                  # free-water level TVDSS, required (at the plane's reference point when fwl_plane is given)
+    fwl_plane = { east = 1200, north = 800, gradient_east = 0.004, gradient_north = 0 }   # optional tilted FWL: plane through fwl at map point (east, north) (project length unit),
+                                    # deepening by gradient_east / gradient_north metres per metre (plain numbers, positive deeper); evaluated at each well's location (required then);
+                                    # |gradient| above 0.05 needs "fwl_plane" in allow_unusual
     hydrocarbon = "oil"             # "oil", "gas" or "air"
     water_density = "1.08 g/cm3"    # reservoir conditions; a density OR a pressure gradient ("0.468 psi/ft", "10.6 kPa/m") -> kg/m3
     hydrocarbon_density = "0.75 g/cm3"
@@ -91,9 +99,10 @@ Rules
   unit probably meant ("did you mean 1.08 g/cm3?"). A deliberate unusual value is
   let through by naming it in the list ``allow_unusual`` of the same table, e.g.
   ``allow_unusual = ["hydrocarbon_density", "fwl"]`` in a ``[[zones]]`` entry,
-  ``allow_unusual = ["m"]`` in ``[log_sw]``, ``["min_porosity"]`` in
-  ``[comparison]``, ``["datum_elevation"]`` in a ``[[wells]]`` entry. A zone's list
-  may also name ``gas_oil_level``, ``gas_density``, ``sigma_cos_theta``,
+  ``allow_unusual = ["m"]`` in ``[log_sw]`` (also ``"rsh"``, shale resistivity
+  0.1-200 ohm.m), ``["min_porosity"]`` in ``[comparison]``, ``["datum_elevation"]`` or
+  ``["fwl"]`` (the ``[wells.fwl]`` values) in a ``[[wells]]`` entry. A zone's list
+  may also name ``fwl_plane`` (a tilt above 0.05 m/m), ``gas_oil_level``, ``gas_density``, ``sigma_cos_theta``,
   ``gas_sigma_cos_theta``, ``pressure``, ``temperature``, ``pressure_gradient`` and
   ``salinity``; other names are refused.
 * Explicit well names must be unique. A well without a name takes the LAS
@@ -136,16 +145,20 @@ __all__ = ["load_project", "parse_project"]
 
 _TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones", UNCERTAINTY_TOP_KEY)
 _PROJECT_KEYS = ("name", "units", "tops_file")
-_LOG_SW_KEYS = ("method", "a", "m", "n", "rw", ALLOW_KEY)
-_COMPARISON_KEYS = ("min_porosity", "min_permeability", ALLOW_KEY)
-_LOG_SW_METHODS = ("curve", "archie", "auto")
-_ZONE_KEYS = ("name", "top", "base", "fwl", "hydrocarbon", "water_density",
+_LOG_SW_KEYS = ("method", "a", "m", "n", "rw", "rsh", ALLOW_KEY)
+_COMPARISON_KEYS = ("min_porosity", "min_permeability", "max_shale", ALLOW_KEY)
+_LOG_SW_METHODS = ("curve", "archie", "auto", "simandoux", "indonesia")
+_ZONE_KEYS = ("name", "top", "base", "fwl", "fwl_plane", "hydrocarbon", "water_density",
               "hydrocarbon_density", "sigma_cos_theta", "function", ALLOW_KEY) + FLUID_ZONE_KEYS \
               + (UNCERTAINTY_ZONE_KEY,)
 #: Values of a [[zones]] entry that may be listed in its allow_unusual.
-ZONE_ALLOW = ("fwl", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
+ZONE_ALLOW = ("fwl", "fwl_plane", "gas_oil_level", "water_density", "hydrocarbon_density", "gas_density",
               "sigma_cos_theta", "gas_sigma_cos_theta") + CONDITION_ALLOW
 _HYDROCARBONS = ("oil", "gas", "air")
+_PLANE_KEYS = ("east", "north", "gradient_east", "gradient_north")
+#: Largest FWL tilt taken without allow_unusual [m/m]: hydrodynamic tilts are commonly
+#: a few metres per kilometre, rarely above a few tens (common practice).
+_MAX_FWL_TILT = 0.05
 
 
 # ----------------------------------------------------------------------------------
@@ -318,16 +331,24 @@ class _Reader(ValueReader):
         m = self.number(t["m"], "log_sw.m", positive=True) if "m" in t else defaults.m
         n = self.number(t["n"], "log_sw.n", positive=True) if "n" in t else defaults.n
         rw = self.quantity(t["rw"], "log_sw.rw", "resistivity", positive=True) if "rw" in t else None
-        allowed = self.allow_list(t, "log_sw", ("a", "m", "n", "rw"))
-        for name, v in (("a", a), ("m", m), ("n", n), ("rw", rw)):
+        rsh = self.quantity(t["rsh"], "log_sw.rsh", "resistivity", positive=True) if "rsh" in t else None
+        allowed = self.allow_list(t, "log_sw", ("a", "m", "n", "rw", "rsh"))
+        for name, v in (("a", a), ("m", m), ("n", n), ("rw", rw), ("rsh", rsh)):
             if name in t:
-                self.plausible("rw" if name == "rw" else f"archie_{name}", v, f"log_sw.{name}",
-                               t[name], allowed=allowed)
-        if method == "archie" and rw is None:
-            raise self.error("log_sw.rw", 'method = "archie" needs rw, and rw is missing',
+                self.plausible(name if name in ("rw", "rsh") else f"archie_{name}", v,
+                               f"log_sw.{name}", t[name], allowed=allowed)
+        if method not in ("curve", "auto") and rw is None:
+            raise self.error("log_sw.rw", f'method = "{method}" needs rw, and rw is missing',
                              hint='add rw = "0.045 ohm.m", the water resistivity at formation '
                                   'temperature, or use method = "curve"')
-        return LogSwSpec(method=method, a=a, m=m, n=n, rw=rw)
+        if method in ("simandoux", "indonesia") and rsh is None:
+            raise self.error("log_sw.rsh", f'method = "{method}" needs rsh, and rsh is missing',
+                             hint='add rsh = "2.5 ohm.m", the resistivity of the shale (read in '
+                                  'a thick shale), and a shale-volume curve (role shale)')
+        if rsh is not None and method not in ("simandoux", "indonesia"):
+            raise self.error("log_sw.rsh", f'rsh is given but method = "{method}" does not use it',
+                             hint='use method = "simandoux" or "indonesia", or remove rsh')
+        return LogSwSpec(method=method, a=a, m=m, n=n, rw=rw, rsh=rsh)
 
     def read_comparison(self, raw: Any) -> ComparisonSpec:
         t = self.table(raw, "comparison", _COMPARISON_KEYS)
@@ -345,6 +366,13 @@ class _Reader(ValueReader):
                 raise self.error("comparison.min_permeability",
                                  f"expected a permeability cutoff >= 0, found {t['min_permeability']!r}",
                                  hint='write a value such as "1 mD"')
+        vsh = None
+        if "max_shale" in t:
+            vsh = self.quantity(t["max_shale"], "comparison.max_shale", "fraction")
+            if not 0.0 < vsh <= 1.0:
+                raise self.error("comparison.max_shale",
+                                 f"expected a shale-volume cutoff in (0, 1], found {t['max_shale']!r}",
+                                 hint='write a fraction such as 0.4 or text such as "40 %"')
         allowed = self.allow_list(t, "comparison", ("min_porosity", "min_permeability"))
         if "min_porosity" in t:
             self.plausible("porosity", phi, "comparison.min_porosity", t["min_porosity"],
@@ -352,7 +380,7 @@ class _Reader(ValueReader):
         if k > 0.0:
             self.plausible("permeability", k, "comparison.min_permeability",
                            t["min_permeability"], allowed=allowed)
-        return ComparisonSpec(min_porosity=phi, min_permeability=k)
+        return ComparisonSpec(min_porosity=phi, min_permeability=k, max_shale=vsh)
 
     def read_zone(self, raw: dict, index: int) -> Zone:
         key = f"zones[{_label(raw, ('name',), index)}]"
@@ -397,8 +425,30 @@ class _Reader(ValueReader):
             self.plausible("sigma_cos_theta", zf["gas_sigma_cos_theta"],
                            f"{key}.gas_sigma_cos_theta", t["gas_sigma_cos_theta"], allowed=allowed)
         function = read_function(self, t["function"], f"{key}.function")
+        plane = self.read_fwl_plane(t, key, allowed)
         return Zone(name=name, top=top, base=base, fwl=fwl, hydrocarbon=hydrocarbon,
-                    sigma_cos_theta=sigma, function=function, allow_unusual=allowed, **zf)
+                    sigma_cos_theta=sigma, function=function, allow_unusual=allowed,
+                    fwl_plane=plane, **zf)
+
+    def read_fwl_plane(self, t: dict, key: str, allowed: frozenset) -> tuple | None:
+        """``fwl_plane = { east, north, gradient_east, gradient_north }``: a tilted FWL
+        through ``fwl`` at map point (east, north) [m], gradients in m/m (positive deeper)."""
+        if "fwl_plane" not in t:
+            return None
+        k = f"{key}.fwl_plane"
+        p = self.table(t["fwl_plane"], k, _PLANE_KEYS, required=_PLANE_KEYS,
+                       what="a table { east, north, gradient_east, gradient_north }")
+        east = self.quantity(p["east"], f"{k}.east", "length")
+        north = self.quantity(p["north"], f"{k}.north", "length")
+        ge = self.number(p["gradient_east"], f"{k}.gradient_east")
+        gn = self.number(p["gradient_north"], f"{k}.gradient_north")
+        if "fwl_plane" not in allowed and (ge * ge + gn * gn) ** 0.5 > _MAX_FWL_TILT:
+            raise self.error(k, f"the FWL plane dips {(ge * ge + gn * gn) ** 0.5:g} m per m "
+                             f"(more than {_MAX_FWL_TILT:g}, about 3 degrees)",
+                             hint="gradients are depth change per horizontal distance (m/m or "
+                                  'ft/ft); if the tilt is deliberate, add "fwl_plane" to '
+                                  "allow_unusual = [...] of the zone")
+        return (east, north, ge, gn)
 
     def check_densities(self, t: dict, key: str, hydrocarbon: str, zf: dict,
                         allowed: frozenset) -> None:

@@ -73,7 +73,10 @@ class WellSpec:
         Zone name -> (top, base) in TVDSS [m], positive down (from the tops file).
     location : tuple[float, float] or None
         Well-head position (east, north) [m] in the field's map coordinates, for
-        the field cross-section; ``None`` if not given.
+        the field cross-section and a tilted FWL (``fwl_plane``); ``None`` if not given.
+    fwl : dict[str, float]
+        Zone name -> this well's own FWL TVDSS [m] (``[wells.fwl]``), overriding the
+        zone's ``fwl`` and ``fwl_plane`` in this well (a compartment, a stepped contact).
     """
 
     name: str | None
@@ -85,6 +88,7 @@ class WellSpec:
     survey_format: str | None = None
     tops_tvdss: dict[str, tuple[float, float]] = field(default_factory=dict)
     location: tuple[float, float] | None = None
+    fwl: dict[str, float] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -95,11 +99,15 @@ class LogSwSpec:
     ----------
     method : str
         ``"curve"`` (use the well's Sw curve), ``"archie"`` (compute from Rt and
-        porosity) or ``"auto"`` (curve if the well has one, else Archie).
+        porosity), ``"auto"`` (curve if the well has one, else Archie), or a shaly-sand
+        equation from Rt, porosity and the shale-volume curve: ``"simandoux"``,
+        ``"indonesia"`` (:data:`satheight.logsw.SHALY_SAND`).
     a, m, n : float
         Archie tortuosity factor, cementation and saturation exponents.
     rw : float or None
         Formation-water resistivity at formation temperature [ohm.m].
+    rsh : float or None
+        Shale resistivity [ohm.m]; required by the shaly-sand methods.
     """
 
     method: str = "auto"
@@ -107,6 +115,7 @@ class LogSwSpec:
     m: float = 2.0
     n: float = 2.0
     rw: float | None = None
+    rsh: float | None = None
 
 
 @dataclass(frozen=True)
@@ -120,10 +129,14 @@ class ComparisonSpec:
         difference statistics and hydrocarbon pore thickness (net reservoir cutoff).
     min_permeability : float
         Samples with permeability below this [m^2] are left out likewise.
+    max_shale : float or None
+        Samples with shale volume (the ``shale`` curve role) above this [fraction]
+        are left out likewise; ``None``: no shale cutoff.
     """
 
     min_porosity: float = 0.0
     min_permeability: float = 0.0
+    max_shale: float | None = None
 
 
 @dataclass(frozen=True)

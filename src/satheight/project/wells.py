@@ -12,9 +12,9 @@ from .types import WellSpec
 from .values import ALLOW_KEY, _label, _show
 
 _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "survey_format",
-              "location", ALLOW_KEY)
+              "location", "fwl", ALLOW_KEY)
 _SURVEY_FORMATS = ("csv", "las")
-_CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw")
+_CURVE_ROLES = ("porosity", "permeability", "resistivity", "sw", "shale")
 
 
 def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
@@ -34,7 +34,7 @@ def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
     if datum is not None:
         reader.plausible("datum_elevation", datum, f"{key}.datum_elevation",
                          t["datum_elevation"],
-                         allowed=reader.allow_list(t, key, ("datum_elevation",)))
+                         allowed=reader.allow_list(t, key, ("datum_elevation", "fwl")))
 
     curves: dict[str, str] = {}
     if "curves" in t:
@@ -80,8 +80,31 @@ def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
                          required=("east", "north"), what="a table { east = ..., north = ... }")
         location = (reader.quantity(loc["east"], f"{key}.location.east", "length"),
                     reader.quantity(loc["north"], f"{key}.location.north", "length"))
+    fwl = _read_fwl(reader, t, key, zone_names)
     return WellSpec(name=name, las=las, datum_elevation=datum, curves=curves, tops=tops,
-                    survey=survey, survey_format=survey_format, location=location)
+                    survey=survey, survey_format=survey_format, location=location, fwl=fwl)
+
+
+def _read_fwl(reader, t: dict, key: str, zone_names: list[str]) -> dict[str, float]:
+    """``[wells.fwl]``: zone name -> this well's FWL TVDSS [m], each in its plausible range."""
+    if "fwl" not in t:
+        return {}
+    tt = t["fwl"]
+    if not isinstance(tt, dict):
+        raise reader.error(f"{key}.fwl", f"expected a table of zone = FWL, found {_show(tt)}",
+                           hint='write it as a [wells.fwl] section, e.g. Upper = "2065 m"')
+    allowed = reader.allow_list(t, key, ("datum_elevation", "fwl"))
+    out = {}
+    for zone, value in tt.items():
+        zkey = f"{key}.fwl.{zone}"
+        if zone not in zone_names:
+            close = difflib.get_close_matches(zone, zone_names, n=1)
+            raise reader.error(zkey, f"an FWL is given for zone {zone!r}, which no [[zones]] "
+                               "entry defines", hint=(f"did you mean {close[0]!r}? " if close else "")
+                               + "known zones: " + ", ".join(zone_names))
+        out[zone] = reader.quantity(value, zkey, "length")
+        reader.plausible("fwl", out[zone], zkey, value, allowed=allowed)
+    return out
 
 def merge_tops_file(reader, tops_file: Path, wells: list[WellSpec],
                     zone_names: list[str]):

@@ -25,6 +25,10 @@ SCHEMA_VERSION = 1
 BAR_FORMAT = "{desc} {n_fmt}/{total_fmt} |{bar:20}| {elapsed} elapsed, {remaining} remaining{postfix}"
 
 
+#: Seconds a command of :class:`Progress` ``slow=True`` works before its bar is drawn.
+SLOW_SECONDS = 1.0
+
+
 def progress_wanted(stream=None, quiet: bool = False) -> bool:
     """True when progress should be drawn: not quiet and ``stream`` (stderr) is a terminal."""
     stream = sys.stderr if stream is None else stream
@@ -40,16 +44,30 @@ class Progress:
     """A progress bar over ``total`` items (wells), or nothing when not ``enabled``.
 
     Use as a context manager; call :meth:`start` with the item's name before the
-    work and :meth:`done` after it.
+    work and :meth:`done` after it (or :meth:`step` for a sequence of steps). With ``slow``
+    the bar appears only once the work has taken :data:`SLOW_SECONDS` (commands that are
+    usually quick stay silent).
     """
 
-    def __init__(self, total: int, unit: str = "wells", enabled: bool = False, stream=None):
+    def __init__(self, total: int, unit: str = "wells", enabled: bool = False, stream=None,
+                 slow: bool = False):
         self.stream = sys.stderr if stream is None else stream
         self.enabled = bool(enabled) and total > 0
+        self._current: str | None = None          # the step in hand (see step())
         cols, rows = _size(self.stream)
         self._bar = (tqdm(total=total, desc=unit, file=self.stream, bar_format=BAR_FORMAT,
-                          ncols=cols, nrows=rows, leave=True, mininterval=0.2)
+                          ncols=cols, nrows=rows, leave=True, mininterval=0.2,
+                          delay=SLOW_SECONDS if slow else 0.0)
                      if self.enabled else None)
+
+    def step(self, name: str) -> None:
+        """Count the item in hand as done (if any) and show ``name`` as the next one."""
+        if self._bar is None:
+            return
+        if self._current is not None:
+            self._bar.update(1)
+        self._current = name
+        self.start(name)
 
     def start(self, name: str) -> None:
         """Show ``name`` as the item being worked on."""
@@ -66,6 +84,9 @@ class Progress:
         self._bar.update(1)
 
     def close(self) -> None:
+        if self._bar is not None and self._current is not None:
+            self._bar.update(1)         # the last step of step()
+            self._current = None
         if self._bar is not None:
             self._bar.set_postfix_str("done", refresh=False)
             self._bar.close()

@@ -25,6 +25,7 @@ from ..io.atomic import atomic_write_text
 from ..io.las import read_las
 from ..io.pressures import read_pressure_points, resolve_tvdss
 from ..plots.contacts import misfit_plot, pressure_plot
+from .console import Progress
 from .figures import save_figure
 from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
 from ..project.types import Project
@@ -101,7 +102,7 @@ def check_fwl_options(options: dict) -> None:
 
 
 def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
-            overwrite: bool = False, **options) -> dict:
+            overwrite: bool = False, progress: bool = False, **options) -> dict:
     """FWL search per zone from log Sw; writes ``fwl_<zone>.json`` and ``fwl_<zone>_misfit.png``.
 
     Parameters
@@ -117,6 +118,8 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
         Write the misfit plots.
     overwrite : bool
         Replace the files of an earlier ``fwl`` into the same folder.
+    progress : bool
+        Show wells read and zones searched on stderr when it takes more than a second.
     **options
         Checked (:func:`check_fwl_options`), then passed to :func:`fwl_from_project`
         (window, step, misfit, delta, n_boot, seed, shale_curve, max_shale, exclude,
@@ -142,7 +145,10 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
     options = {k: v for k, v in options.items() if v is not None}
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        results, notes = fwl_from_project(project, zones=zones, wells=wells, **options)
+        with Progress(len(project.wells) + len(zones or project.zones), unit="fwl steps",
+                      enabled=progress, slow=True) as bar:
+            results, notes = fwl_from_project(project, zones=zones, wells=wells, bar=bar,
+                                              **options)
     notes += [str(w.message) for w in caught]
     summary = {}
     with OutputSession(Path(out_dir), "fwl", overwrite, inputs) as session:
@@ -164,7 +170,7 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
 def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = None,
                   units: str | None = None, qualities=DEFAULT_QUALITIES,
                   with_logs: bool = True, plot: bool = True, n_boot: int = 200,
-                  overwrite: bool = False) -> dict:
+                  overwrite: bool = False, progress: bool = False) -> dict:
     """Gradients, FWL and free-oil level from a pressure file; compare with the project.
 
     Parameters
@@ -192,12 +198,23 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     overwrite : bool
         Replace the files of an earlier ``pressures`` into the same folder (written
         through :class:`satheight.workflows.output_folder.OutputSession`).
+    progress : bool
+        Show the steps on stderr when they take more than a second.
 
     Returns
     -------
     dict
         ``{"file", "units", "zones": {name: summary}, "files", "notes"}``.
     """
+    with Progress(4, unit="pressures steps", enabled=progress, slow=True) as bar:
+        return _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
+                              with_logs, plot, n_boot, overwrite, bar)
+
+
+def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities, with_logs,
+                   plot, n_boot, overwrite, bar: Progress) -> dict:
+    """:func:`run_pressures` with its progress bar."""
+    bar.step("reading pressure points")
     inputs = InputFiles()
     inputs.add(pressure_file, "pressure file")
     project = open_project(project_path) if project_path is not None else None
@@ -219,13 +236,16 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
     notes += points.notes
+    bar.step("fitting gradients")
     analysis = analyse_pressures(points, qualities=qualities)
+    bar.step("FWL from log Sw")
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
                for name, zp in analysis.items()}
     doc = {"file": str(points.source), "units": {"depth": lu, "pressure": pu,
                                                   "density": "g/cm3", "gradient": f"{pu}/{lu}"},
            "qualities_fitted": list(qualities), "zones": summary, "notes": notes}
+    bar.step("writing")
     with OutputSession(Path(out_dir), "pressures", overwrite, inputs) as session:
         path = session.work / "pressures_summary.json"
         atomic_write_text(path, json.dumps(doc, indent=2, allow_nan=False) + "\n")
@@ -344,6 +364,7 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
                      *, shale_curve: str | None = None, max_shale: float | None = None,
                      exclude: Sequence[tuple[str | None, float, float]] = (),
                      fit_parameters: dict[str, tuple[float, float]] | None = None,
+                     bar: Progress | None = None,
                      **search_options) -> tuple[dict[str, FwlSearch], list[str]]:
     """FWL search of each zone of a project from its wells' log Sw.
 
@@ -360,6 +381,8 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
         TVDSS intervals [m] left out (the user mask); ``None`` for every well.
     fit_parameters : dict, optional
         J-Sw parameter bounds for :func:`satheight.fwljoint.fit_fwl_with_parameters`.
+    bar : Progress, optional
+        Advanced by one step per well read and per zone searched.
     **search_options
         Passed to :func:`satheight.fwlsearch.search_fwl` (window, step, misfit, delta,
         n_boot, seed...).
@@ -378,13 +401,15 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
             raise SatHeightError(f"zone {z!r} is not in the project",
                                  where=str(project.path), hint="zones: " + ", ".join(names))
     notes: list[str] = []
-    computed, all_names = _wells_with_log_sw(project, wells, notes)
+    bar = bar or Progress(0)
+    computed, all_names = _wells_with_log_sw(project, wells, notes, bar)
     for w, _, _ in exclude:
         if w is not None and w not in all_names:
             raise SatHeightError(f"--exclude names well {w!r}, which is not a well of the project",
                                  hint="wells: " + ", ".join(all_names))
     out = {}
     for zname in zones:
+        bar.step(f"zone {zname}")
         samples = [_well_zone_samples(project, res, zname, exclude, shale_curve, max_shale)
                    for res in computed]
         samples = [s for s in samples if s is not None]
@@ -401,8 +426,8 @@ def fwl_from_project(project, zones: Sequence[str] | None = None, wells: Sequenc
     return out, notes
 
 
-def _wells_with_log_sw(project: Project, wells: Sequence[str] | None,
-                       notes: list[str]) -> tuple[list[WellResult], list[str]]:
+def _wells_with_log_sw(project: Project, wells: Sequence[str] | None, notes: list[str],
+                       bar: Progress) -> tuple[list[WellResult], list[str]]:
     """The computed wells (of ``wells``, if given) that have log Sw, the others noted; and
     the names of every well of the project.
 
@@ -413,6 +438,7 @@ def _wells_with_log_sw(project: Project, wells: Sequence[str] | None,
     """
     computed, all_names = [], []
     for spec in project.wells:
+        bar.step(f"reading {spec.name or spec.las.stem}")
         if wells and spec.name is not None and spec.name not in wells:
             all_names.append(spec.name)
             continue

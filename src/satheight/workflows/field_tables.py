@@ -72,7 +72,7 @@ def field_summary_columns(summaries: list[dict], length_unit: str) -> dict:
         mc = _unc_block(s)
         for zone, b in s.get("zones", {}).items():
             row = {"WELL": s.get("well"), "ZONE": zone, "PHASE": b.get("hydrocarbon"),
-                   "FWL_SOURCE": FWL_SOURCE, "SW_LOG_SOURCE": s.get("sw_log_source")}
+                   "FWL_SOURCE": b.get("fwl_source", FWL_SOURCE), "SW_LOG_SOURCE": s.get("sw_log_source")}
             for col, key, is_len in SUMMARY_COLUMNS:
                 v = b.get(key)
                 row[f"{col} [{length_unit}]" if is_len else col] = np.nan if v is None else v

@@ -31,6 +31,7 @@ from ..models import get_family
 from ..plots.core import j_sw_plot, pc_plot
 from ..rocktypes import RockTypeRule, check_rock_type_names, plug_rock_types
 from ..units import parse_quantity
+from .console import Progress
 from .figures import save_figure
 from .output_folder import InputFiles, OutputSession
 
@@ -120,7 +121,7 @@ def points_csv(points: CorePoints) -> str:
 
 
 def run_fit(paths, out_dir, settings: FitSettings | None = None,
-            overwrite: bool = False) -> FitRun:
+            overwrite: bool = False, progress: bool = False) -> FitRun:
     """Read core files, convert, group by rock type, fit, and write the outputs.
 
     Parameters
@@ -134,6 +135,9 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
     settings : FitSettings, optional
     overwrite : bool
         Replace the files of an earlier ``fit`` into the same folder.
+    progress : bool
+        Show the steps on stderr when the fit takes more than a second
+        (:class:`satheight.workflows.console.Progress`; the caller decides, e.g. only on a terminal).
 
     Returns
     -------
@@ -144,7 +148,15 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
     SatHeightError
         Bad input (names file and row), an unknown family, nothing to fit.
     """
+    with Progress(4, unit="fit steps", enabled=progress, slow=True) as bar:
+        return _run_fit(paths, out_dir, settings, overwrite, bar)
+
+
+def _run_fit(paths, out_dir, settings: FitSettings | None, overwrite: bool,
+             bar: Progress) -> FitRun:
+    """:func:`run_fit` with its progress bar."""
     s = settings or FitSettings()
+    bar.step("reading core data")
     for fam in s.families:
         get_family(fam, where="families")
     if not paths:
@@ -168,11 +180,14 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
         rock_types = plug_rock_types(plugs, rule)
         rule_out = rule
     check_rock_type_names(s.reservoir, rock_types.values(), "--reservoir")
+    bar.step("lab Pc to J")
     points = core_points(ds, closure=s.closure, phi_factor=s.phi_factor, k_factor=s.k_factor,
                          rock_types=rock_types)
     lab_sct = np.array([ds.systems[x].sigma_cos_theta for x in points.system])
     _apply_reservoir(points, lab_sct, s.reservoir)
+    bar.step(f"fitting {len(set(points.rock_type.tolist()))} rock type(s)")
     fits = fit_rock_types(points, s.families)
+    bar.step("writing")
     out = Path(out_dir)
     with OutputSession(out, "fit", overwrite, inputs) as session:
         files = _write_fit_files(session.work, s, ds, points, fits, rule_out)

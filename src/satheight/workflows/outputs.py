@@ -27,6 +27,7 @@ from ..results import WellResult
 from ..well import Curve, Well
 from .output_folder import InputFiles, check_input_file
 from .field_tables import write_well_table
+from .existing import new_parameters, suffixed
 from .figures import save_figure
 from .report import REPORT_NAME
 from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
@@ -70,12 +71,15 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
 class PlotOptions:
     """What a run draws. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
     ``depth_axis``: main depth scale of the track plots (``"tvdss"`` or ``"md"``);
-    ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``)."""
+    ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``);
+    ``existing``: input curves named like a computed one are replaced (``"replace"``) or
+    the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`."""
 
     draw: bool = True
     pdf: bool = False
     depth_axis: str = "tvdss"
     interval: str = "zones"
+    existing: str = "replace"
 
 
 NO_PLOTS = PlotOptions(draw=False)
@@ -90,10 +94,15 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     mc = well_uncertainty(project, result)          # Monte Carlo, when the project declares one
     new += uncertainty_curves(mc)
     decimals = {**OUTPUT_DECIMALS, **UNCERTAINTY_DECIMALS}
+    decimals = {c.mnemonic: decimals[c.mnemonic] for c in new}
+    if opts.existing == "suffix":   # new curves renamed where the input has the name
+        new, names, _ = suffixed(new, result.well)
+        decimals = {names[k]: v for k, v in decimals.items()}
     files = []
     las_path = out_dir / f"{stem}.las"
-    write_las(las_path, result.well, new_curves=new, parameters=run_parameters(result, project),
-              decimals={c.mnemonic: decimals[c.mnemonic] for c in new})
+    params = run_parameters(result, project)
+    write_las(las_path, new_parameters(result.well, params, opts.existing), new_curves=new,
+              parameters=params, decimals=decimals)
     files.append(las_path)
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)
@@ -101,7 +110,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
-                               project.comparison.min_porosity, project.comparison.min_permeability)
+                               project.comparison.min_porosity, project.comparison.min_permeability,
+                               project.comparison.max_shale)
     _add_contacts(result, project, U.factor(length_unit, "length"))
     if mc is not None:
         result.summary["uncertainty"] = uncertainty_section(mc, length_unit)

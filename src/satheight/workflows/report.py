@@ -48,6 +48,8 @@ PRINT_HINT = ("To print or save as PDF: open this file in a web browser, choose 
 
 #: Readable words for where the log Sw came from (the run summary keeps short codes).
 _SW_SOURCES = {"archie": "Archie equation from the resistivity curve",
+               "simandoux": "Simandoux equation from the resistivity and shale-volume curves",
+               "indonesia": "Indonesia equation from the resistivity and shale-volume curves",
                "none": "none (no Sw curve and no resistivity with Rw)"}
 
 _ENV = jinja2.Environment(loader=jinja2.PackageLoader("satheight", "templates"),
@@ -186,6 +188,10 @@ def _zone_parameters(z, system: str) -> list[tuple[str, str]]:
     rows = [("Top TVDSS", _q(z.top, "length", system, 2) if z.top is not None else "per well"),
             ("Base TVDSS", _q(z.base, "length", system, 2) if z.base is not None else "per well"),
             ("FWL TVDSS", _q(z.fwl, "length", system, 2)),
+            *([("FWL plane", f"through the FWL at east {_q(z.fwl_plane[0], 'length', system, 2)}, "
+                             f"north {_q(z.fwl_plane[1], 'length', system, 2)}; deepening "
+                             f"{_sig(z.fwl_plane[2])} per unit east, {_sig(z.fwl_plane[3])} per "
+                             "unit north; evaluated at each well head")] if z.fwl_plane else []),
             ("Hydrocarbon", z.hydrocarbon),
             ("Water density", _q(z.water_density, "density", system)),
             ("Hydrocarbon density", _q(z.hydrocarbon_density, "density", system)),
@@ -214,6 +220,9 @@ def project_parameters(project: Project) -> dict:
                ("Log Sw method", ls.method),
                ("Archie a, m, n", f"{_sig(ls.a)}, {_sig(ls.m)}, {_sig(ls.n)}"),
                ("Rw at formation temperature", "" if ls.rw is None else f"{_sig(ls.rw)} ohm.m"),
+               *([("Shale resistivity Rsh", f"{_sig(ls.rsh)} ohm.m")] if ls.rsh is not None else []),
+               *([("Net-reservoir shale-volume cutoff", f"{_sig(cmp_.max_shale)} (fraction)")]
+                 if cmp_.max_shale is not None else []),
                ("Net-reservoir porosity cutoff", f"{_sig(cmp_.min_porosity)} (fraction)"),
                ("Net-reservoir permeability cutoff",
                 f"{_sig(U.from_si(cmp_.min_permeability, 'mD', 'permeability'))} mD")]
@@ -223,7 +232,9 @@ def project_parameters(project: Project) -> dict:
                       "datum": ("from the LAS header" if spec.datum_elevation is None
                                 else _q(spec.datum_elevation, "length", system, 2)),
                       "survey": spec.survey.name if spec.survey is not None else "vertical",
-                      "curves": ", ".join(f"{r} = {m}" for r, m in spec.curves.items())})
+                      "curves": ", ".join(f"{r} = {m}" for r, m in spec.curves.items())
+                      + "".join(f"; FWL {zn} = {_q(v, 'length', system, 2)}"
+                                for zn, v in spec.fwl.items())})
     zones = [{"name": z.name, "rows": _zone_parameters(z, system)} for z in project.zones]
     return {"general": general, "wells": wells, "zones": zones}
 
@@ -247,6 +258,8 @@ def _caption(well: str, name: str) -> str:
     stem = Path(name).stem
     if stem.endswith("_tracks"):
         return f"Track plot of {well}"
+    if stem.endswith("_tornado"):
+        return f"Tornado chart of {well}: HCPT swing per uncertain input"
     return f"{well}: {stem.replace('_', ' ')}"
 
 
@@ -258,6 +271,8 @@ def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str,
 
     field = [fig(n, "Field section, TVDSS") for n in [summary.get("field_section")] if n]
     field += [fig(n, Path(n).stem.replace("_", " ")) for n in summary.get("figures", [])]
+    field += [fig(n, "Log Sw against height above the FWL and against J, every well, zone "
+                  + Path(n).stem[len("crossplot_"):]) for n in summary.get("crossplots", [])]
     per_well = {}
     for w in summary.get("wells", []):
         per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n))
@@ -294,6 +309,26 @@ def _zone_tables(summary: dict) -> list[dict]:
     return list(zones.values())
 
 
+def _monte_carlo(wells: list[dict]) -> list[dict]:
+    """Per well with a Monte Carlo (``uncertainty`` in its summary): HCPT P90/P50/P10 rows."""
+    out = []
+    for w in wells:
+        mc = (w.get("summary") or {}).get("uncertainty")
+        if not mc:
+            continue
+        hc = mc.get("hcpt") or {}
+        rows = [{"what": f"zone {z}", "phase": b.get("phase", ""), **b}
+                for z, b in (hc.get("zones") or {}).items()]
+        rows += [{"what": f"all {p} zones", "phase": p, **b}
+                 for p, b in (hc.get("phases") or {}).items()]
+        bars = (mc.get("tornado") or {}).get("bars") or []
+        out.append({"well": w.get("name", ""), "rows": rows, "bars": bars,
+                    "realisations": mc.get("realisations"), "seed": mc.get("seed"),
+                    "unit": (mc.get("units") or {}).get("hcpt", ""),
+                    "convention": mc.get("convention", "")})
+    return out
+
+
 def report_context(summary: dict, title: str, out_dir=None, project: Project | None = None,
                    now: _dt.datetime | None = None) -> dict:
     """Everything the template shows, as plain values (numbers still numbers)."""
@@ -317,6 +352,7 @@ def report_context(summary: dict, title: str, out_dir=None, project: Project | N
         "parameters": project_parameters(project) if project is not None else None,
         "zones": _zone_tables(summary), "field_figures": field_figs,
         "notes": list(summary.get("notes", [])),
+        "monte_carlo": _monte_carlo(wells),
     }
 
 

@@ -73,12 +73,14 @@ class RunReport:
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "tvdss", workers: int = 1,
                 keep_results: bool = True, overwrite: bool = False,
-                progress: bool = False, plot_interval: str = "zones") -> RunReport:
+                progress: bool = False, plot_interval: str = "zones",
+                existing: str = "replace") -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"tvdss"`` or ``"md"``) is the main depth scale of the track
     plots and ``plot_interval`` (``"zones"``: the zones with a margin, or ``"all"``) the
-    depths they show. With plots on, the field cross-section of all computed wells is written
+    depths they show. ``existing`` (``"replace"`` or ``"suffix"``) is what happens to input
+    curves named like a computed one (:mod:`satheight.workflows.existing`). With plots on, the field cross-section of all computed wells is written
     as ``field_section.png`` (a failure there is a note, not a failed run).
 
     A well that fails (missing curve, bad file) is reported and the others still
@@ -118,7 +120,8 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         work = session.work
         bar = Progress(len(project.wells), enabled=progress)  # progress on stderr
         try:
-            opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval)
+            opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval,
+                               existing=existing)
             outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar)
         finally:
             bar.close()
@@ -270,7 +273,7 @@ def _one_well(project: Project, spec: WellSpec, out_dir: Path, opts: PlotOptions
     try:
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always")
-            result, msgs = compute_well(project, spec)
+            result, msgs = compute_well(project, spec, opts.existing)
             label, safe = result.well.name, safe_name(result.well.name)
             _check_name(project, result.well.name, names_seen)
             files = _write_well(result, project, out_dir, opts)

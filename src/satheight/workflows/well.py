@@ -20,13 +20,17 @@ from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
 from ..io.las import read_las
 from ..io.survey import read_survey, survey_trajectory
-from ..logsw import archie_sw
+from ..logsw import SHALY_SAND, archie_sw
 from ..project import check_fwl_near_wells
 from ..project.types import Project, WellSpec, ZoneSpec
 from ..results import FLAG_MEANINGS, WellResult
-from ..roles import detect_roles, require_role, role_values
+from ..roles import ROLE_ALIASES, detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
+from .fwl_per_well import well_fwl
+from .existing import (USER_CURVES, prepare_input, role_aliases, suffixed,
+                       written_by_satheight)
+from .uncertainty import UNCERTAINTY_CURVES
 
 #: ~Well mnemonics that may carry the elevation of the log depth reference above
 #: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
@@ -116,16 +120,24 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
             top, base = zs.top, zs.base
         else:
             continue
-        out.append(_zone_model(zs, float(top), float(base), project.path))
+        fwl, fwl_source = well_fwl(project, spec, zs)   # the well's own or a tilted FWL
+        out.append(_zone_model(zs, float(top), float(base), project.path, fwl, fwl_source))
     return out
 
 
-def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path) -> ZoneModel:
-    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function")
+def _zone_model(zs: ZoneSpec, top: float, base: float, path: Path, fwl=None,
+                fwl_source=None) -> ZoneModel:
+    return zone_for_well(zs, top, base, where=f"{path}, key zones[{zs.name}].function",
+                         fwl=fwl, fwl_source=fwl_source)
 
 
-def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
-    """Log water saturation and where it came from: the well's Sw curve or Archie from Rt."""
+#: Log-Sw sources computed here from Rt (not a curve of the LAS file).
+COMPUTED_SW = ("archie",) + tuple(SHALY_SAND)
+
+
+def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray, vsh=None):
+    """Log water saturation and where it came from: the well's Sw curve, or Archie or a
+    shaly-sand equation (with ``vsh`` [fraction], the shale-volume curve) from Rt."""
     cfg = project.log_sw
     msgs: list[str] = []
     if cfg.method in ("curve", "auto") and roles.get("sw"):
@@ -138,7 +150,7 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
     if cfg.method == "curve":
         require_role(well, "sw", None)
     if roles.get("resistivity") is None:
-        if cfg.method == "archie":
+        if cfg.method in COMPUTED_SW:
             require_role(well, "resistivity", None)
         msgs.append("no Sw curve and no resistivity curve: no log Sw to compare with")
         return None, "none", msgs
@@ -147,19 +159,38 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
         return None, "none", msgs
     rt, w = role_values(well, "resistivity", roles["resistivity"])
     msgs += w
+    if cfg.method in SHALY_SAND:
+        if vsh is None:
+            require_role(well, "shale", None)
+        return (SHALY_SAND[cfg.method](rt, phi, vsh, cfg.rw, cfg.rsh, cfg.a, cfg.m, cfg.n,
+                                       clip=False), cfg.method, msgs)
     # unclipped: the comparison statistics use it; compute_well clips the exported curve
     return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n, clip=False), "archie", msgs
 
 
-def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
-    """Load one well and compute everything (no files written)."""
+def compute_well(project: Project, spec: WellSpec,
+                 existing: str = "replace") -> tuple[WellResult, list[str]]:
+    """Load one well and compute everything (no files written).
+
+    ``existing``: input curves named like a computed one are dropped (``"replace"``) or
+    kept (``"suffix"``: the new ones are renamed when written), with a note.
+    """
     well = read_las(spec.las)
     if spec.name:
         well.name = spec.name
     else:
         spec = pending_tops(project, spec, well.name)
     msgs = list(well.warnings)
-    roles = detect_roles(well, spec.curves)
+    computed = set(NEW_CURVES) | set(UNCERTAINTY_CURVES)
+    keep = set(spec.curves.values())    # curves the project names are input, never dropped
+    if project.log_sw.method in ("curve", "auto") and not written_by_satheight(well):
+        keep.add("SW_LOG")              # a user's log Sw curve of that name
+    well, notes = prepare_input(well, computed, existing, keep)
+    if existing == "suffix":
+        notes = suffixed([Curve(mn, "", "", well.md) for mn in sorted(computed - USER_CURVES)],
+                         well)[2]
+    msgs += notes
+    roles = detect_roles(well, spec.curves, role_aliases(ROLE_ALIASES, well, computed))
     phi_mn = require_role(well, "porosity", roles.get("porosity"))
     k_mn = require_role(well, "permeability", roles.get("permeability"))
     phi, w1 = role_values(well, "porosity", phi_mn)
@@ -169,6 +200,10 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     if roles.get("resistivity"):
         rt, w3 = role_values(well, "resistivity", roles["resistivity"])
         msgs += w3
+    vsh = None
+    if roles.get("shale"):
+        vsh, w6 = role_values(well, "shale", roles["shale"])
+        msgs += w6
     elev = datum_elevation(well, spec)
     tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
     msgs += w5
@@ -183,15 +218,15 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
-    sw_log, source, w4 = log_saturation(project, well, roles, phi)
+    sw_log, source, w4 = log_saturation(project, well, roles, phi, vsh)
     msgs += w4
-    sw_raw = sw_log if source == "archie" else None
+    sw_raw = sw_log if source in COMPUTED_SW else None
     if sw_raw is not None:
         sw_log = np.clip(sw_raw, 0.0, 1.0)
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
                         tvd=tvd, north=north, east=east, survey=spec.survey,
-                        sw_log_unclipped=sw_raw)
+                        sw_log_unclipped=sw_raw, vsh=vsh)
     msgs += value_warnings(result)
     return result, msgs
 
@@ -280,8 +315,9 @@ def output_curves(result: WellResult, project: Project) -> list[Curve]:
         Curve("J", "", NEW_CURVES["J"], shm.j.copy()),
         Curve("SW_SHM", "v/v", NEW_CURVES["SW_SHM"], shm.sw.copy()),
     ]
-    if result.sw_log_source == "archie":
-        curves.append(Curve("SW_LOG", "v/v", NEW_CURVES["SW_LOG"], result.sw_log.copy()))
+    if result.sw_log_source in COMPUTED_SW:
+        curves.append(Curve("SW_LOG", "v/v", NEW_CURVES["SW_LOG"].replace(
+            "Archie", result.sw_log_source.capitalize()), result.sw_log.copy()))
     curves.append(Curve("SHM_FLAG", "", NEW_CURVES["SHM_FLAG"], shm.flag.astype(float)))
     curves.append(Curve("ZONE_ID", "", NEW_CURVES["ZONE_ID"], (shm.zone + 1).astype(float)))
     rock = rock_type_ids(result)
@@ -323,8 +359,10 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
     if result.survey is not None:
         items.append(HeaderItem("SHM_SURVEY", "", Path(result.survey).name,
                                 "Deviation survey (minimum curvature)"))
-    if result.sw_log_source == "archie":
+    if result.sw_log_source in COMPUTED_SW:
         c = project.log_sw
+        if c.rsh is not None:
+            items.append(HeaderItem("RSH", "ohm.m", c.rsh, "Shale resistivity"))
         items += [HeaderItem("ARCHIE_A", "", c.a, "Archie tortuosity factor a"),
                   HeaderItem("ARCHIE_M", "", c.m, "Archie cementation exponent m"),
                   HeaderItem("ARCHIE_N", "", c.n, "Archie saturation exponent n"),
