@@ -215,7 +215,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         blank = points.zone == ""
         points.zone[blank] = zone            # our own copy, read from the file
     if project is not None and (points.tvdss != points.tvdss).any():
-        points = resolve_tvdss(points, _datums(project, set(points.well)))
+        points = resolve_tvdss(points, _datums(project, set(points.well), notes))
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
     notes += points.notes
@@ -297,8 +297,12 @@ def _check_zone_option(zone: str, points, project: Project | None) -> None:
                              "its zone", hint="leave --zone out")
 
 
-def _datums(project, wells: set) -> dict:
-    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well."""
+def _datums(project, wells: set, notes: list[str]) -> dict:
+    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well.
+
+    The elevation is the run's (:func:`satheight.workflows.well.datum_elevation`); its
+    notes go to ``notes``.
+    """
     out = {}
     for spec in project.wells:
         if spec.name is not None and spec.name not in wells:
@@ -306,7 +310,8 @@ def _datums(project, wells: set) -> dict:
         well = read_las(spec.las)
         name = spec.name or well.name
         if name in wells:
-            elev = datum_elevation(well, spec)
+            elev, _, more = datum_elevation(well, spec)
+            notes += more
             md_to_tvdss = well_path(spec, well, elev)[3]
             out[name] = elev if md_to_tvdss is None else md_to_tvdss
     return out

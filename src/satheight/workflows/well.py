@@ -8,7 +8,6 @@ well's LAS file and survey goes through :mod:`satheight.io`, the numbers come fr
 from __future__ import annotations
 
 import dataclasses
-import math
 import warnings
 from pathlib import Path
 
@@ -16,6 +15,7 @@ import numpy as np
 
 from .. import __version__
 from .. import units as U
+from ..datum import AGREE_TOLERANCE as DATUM_AGREE_TOLERANCE, datum_from_header
 from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
 from ..io.las import read_las
@@ -27,11 +27,6 @@ from ..results import FLAG_MEANINGS, WellResult
 from ..roles import detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
-
-#: ~Well mnemonics that may carry the elevation of the log depth reference above
-#: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
-#: reference, permanent-datum elevation, ground level (LAS 2.0 practice).
-DATUM_MNEMONICS = ("EKB", "EDF", "EREF", "ELEV", "KB", "EGL")
 
 #: Output curve mnemonics and descriptions.
 NEW_CURVES = {
@@ -57,37 +52,35 @@ OUTPUT_DECIMALS = {"ROCK_ID": 0, "TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "S
 # --------------------------------------------------------------------------------------
 # per-well steps
 
-def datum_elevation(well: Well, spec: WellSpec) -> float:
-    """Elevation of the log depth reference above the TVDSS datum [m].
+def datum_elevation(well: Well, spec: WellSpec) -> tuple[float, str, list[str]]:
+    """Elevation of the log depth reference above the TVDSS datum [m], its source and notes.
 
-    The project file wins; otherwise the first of :data:`DATUM_MNEMONICS` in the
-    LAS ``~Well`` section with a numeric value (unit from the item, or the depth
-    unit of the file if blank).
+    The project file's ``datum_elevation`` wins (a header value that differs from it is
+    noted); otherwise :func:`satheight.datum.datum_from_header` searches the LAS
+    ``~Well`` and ``~Parameter`` sections, refuses items that disagree and notes a
+    ground-level datum.
+
+    Returns
+    -------
+    value : float
+        Elevation [m], positive above the datum.
+    source : str
+        Which item was used, e.g. ``"EKB = 28.5 M (~Well), kelly bushing (...)"``.
+    notes : list[str]
+        For the well's run notes.
     """
-    if spec.datum_elevation is not None:
-        return float(spec.datum_elevation)
-    header = {k.upper(): v for k, v in well.well_header.items()}
-    for mn in DATUM_MNEMONICS:
-        item = header.get(mn)
-        if item is None:
-            continue
-        try:
-            value = float(item.value)
-        except (TypeError, ValueError):
-            continue
-        if not math.isfinite(value):
-            continue
-        unit = item.unit or well.depth_unit
-        try:
-            return float(U.to_si(value, unit, "length"))
-        except SatHeightError as exc:
-            raise SatHeightError(f"datum elevation item {mn} has unit {item.unit!r}: {exc.what}",
-                                 where=str(well.source),
-                                 hint="give datum_elevation for this well in the project file") from None
-    raise SatHeightError(
-        "no datum elevation: the ~Well section has none of " + ", ".join(DATUM_MNEMONICS),
-        where=str(well.source),
-        hint='add datum_elevation = "<KB elevation> m" to this well in the project file')
+    if spec.datum_elevation is None:
+        return datum_from_header(well)
+    value = float(spec.datum_elevation)
+    notes: list[str] = []
+    try:
+        header, source, _ = datum_from_header(well)
+    except SatHeightError:
+        header = None
+    if header is not None and abs(header - value) > DATUM_AGREE_TOLERANCE:
+        notes.append(f"{well.source}: datum elevation {value:g} m from the project file is used; "
+                     f"the LAS header gives {source.split(',')[0]}")
+    return value, "datum_elevation in the project file", notes
 
 
 def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray,
@@ -169,7 +162,8 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     if roles.get("resistivity"):
         rt, w3 = role_values(well, "resistivity", roles["resistivity"])
         msgs += w3
-    elev = datum_elevation(well, spec)
+    elev, datum_source, w6 = datum_elevation(well, spec)
+    msgs += w6
     tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
     msgs += w5
     tvdss = tvd - elev  # TVDSS = TVD - datum elevation, positive down
@@ -190,7 +184,7 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
         sw_log = np.clip(sw_raw, 0.0, 1.0)
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
-                        tvd=tvd, north=north, east=east, survey=spec.survey,
+                        datum_source=datum_source, tvd=tvd, north=north, east=east, survey=spec.survey,
                         sw_log_unclipped=sw_raw)
     msgs += value_warnings(result)
     return result, msgs
