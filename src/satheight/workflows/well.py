@@ -322,7 +322,7 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
         items += [HeaderItem("ARCHIE_A", "", c.a, "Archie tortuosity factor a"),
                   HeaderItem("ARCHIE_M", "", c.m, "Archie cementation exponent m"),
                   HeaderItem("ARCHIE_N", "", c.n, "Archie saturation exponent n"),
-                  HeaderItem("RW", "ohm.m", c.rw, "Formation-water resistivity at formation temperature")]
+                  HeaderItem("ARCHIE_RW", "ohm.m", c.rw, "Archie formation-water resistivity at formation temperature")]
     for i, zn in enumerate(result.zones, start=1):
         p = f"Z{i}_"
         items += [
