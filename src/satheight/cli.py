@@ -314,6 +314,8 @@ def _pressures(args, out) -> int:
             _say(out, f"  FWL from log Sw {lg['best']:.2f} ({lg['interval'][0]:.2f} - "
                   f"{lg['interval'][1]:.2f}) {u['depth']}: "
                   f"{'consistent' if c['consistent'] else 'INCONSISTENT'}")
+        for m in d["implausible"]:
+            _say(out, f"  IMPLAUSIBLE: {m}")
         for m in d["notes"]:
             _say(out, f"  note: {m}")
     for m in rep["notes"]:

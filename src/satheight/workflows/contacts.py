@@ -268,7 +268,9 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
                                          for i in l_.rejected),
          "unknown_points": [{"line": int(zp.points.line[i]), "nearest_line": f,
                              "residual": r / pf} for i, f, r in zp.unknown_nearest],
-         "notes": list(zp.notes)}
+         "notes": list(zp.notes),
+         # implausible densities from the lines (a unit or fluid-label mistake): shown loudly
+         "implausible": list(zp.problems)}
     if project is not None:
         zs = next((z for z in project.zones if z.name == name), None)
         if zs is not None and zp.fwl is not None:
@@ -297,7 +299,7 @@ def _check_zone_option(zone: str, points, project: Project | None) -> None:
                              "its zone", hint="leave --zone out")
 
 
-def _datums(project, wells: set, notes: list[str]) -> dict:
+def _datums(project, wells: set, notes: list[str] | None = None) -> dict:
     """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well.
 
     The elevation is the run's (:func:`satheight.workflows.well.datum_elevation`); its
@@ -311,7 +313,8 @@ def _datums(project, wells: set, notes: list[str]) -> dict:
         name = spec.name or well.name
         if name in wells:
             elev, _, more = datum_elevation(well, spec)
-            notes += more
+            if notes is not None:
+                notes += more
             md_to_tvdss = well_path(spec, well, elev)[3]
             out[name] = elev if md_to_tvdss is None else md_to_tvdss
     return out
@@ -458,7 +461,9 @@ def _well_zone_samples(project: Project, res: WellResult, zname: str, exclude, s
                                  f"{res.well.name}", where=str(res.well.source),
                                  hint="name a curve every well has, e.g. GR")
         shale = res.well.curves[key].data
-    return zone_samples(res.well.name, res.tvdss, res.phi, res.k, res.sw_log, zn,
+    # unclipped Archie Sw: clipping at 1 biases the misfit in and near the water leg
+    sw = res.sw_log if res.sw_log_unclipped is None else res.sw_log_unclipped
+    return zone_samples(res.well.name, res.tvdss, res.phi, res.k, sw, zn,
                         min_porosity=project.comparison.min_porosity,
                         min_permeability=project.comparison.min_permeability,
                         shale=shale, max_shale=max_shale, mask=mask)
