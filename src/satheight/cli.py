@@ -219,7 +219,8 @@ def _add_contact_commands(sub):
     pr.add_argument("pressure_file", metavar="PRESSURE_FILE", help="pressure-points CSV")
     pr.add_argument("--project", metavar="PROJECT_FILE",
                     help="project file: datums for MD points, FWLs and wells to compare with")
-    pr.add_argument("--zone", help="project zone of the points when the file has no zone column")
+    pr.add_argument("--zone", help="project zone of the points when the file has no zone column "
+                                   "(default: the project's zone when it has only one)")
     pr.add_argument("--out", metavar="DIR", default=None,
                     help="output folder (default: ./<pressure file name>_pressures)")
     pr.add_argument("--units", choices=("metric", "field"), default=None,

@@ -177,7 +177,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         the survey of a deviated well), gives the project's
         FWL of each zone and the wells for the FWL from log Sw.
     zone : str, optional
-        Project zone the points belong to when the file has no zone column.
+        Project zone the points belong to when the file has no zone column (default:
+        the project's zone when it has only one).
     units : str, optional
         ``"metric"`` or ``"field"`` for the summary and plot (default: the
         project's, else metric).
@@ -210,6 +211,10 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     lu, pu = U.UNIT_SYSTEMS[system]["length"], U.UNIT_SYSTEMS[system]["pressure"]
     lf, pf = U.factor(lu, "length"), U.factor(pu, "pressure")
     notes: list[str] = []
+    if zone is None and project is not None and len(project.zones) == 1 \
+            and (points.zone == "").any():
+        zone = project.zones[0].name     # the project's only zone: --zone is not needed
+        notes.append(f"points without a zone are taken as the project's only zone {zone!r}")
     if zone is not None:
         _check_zone_option(zone, points, project)
         blank = points.zone == ""

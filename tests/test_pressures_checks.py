@@ -64,3 +64,23 @@ def test_plausible_lines_are_not_flagged(tmp_path, capsys):
     # the lines meet where they were made to: both pass 20000 kPa at 2000 m
     assert abs(doc["zones"]["S"]["fwl"]["depth"] - 2000.0) < 0.5
     assert "IMPLAUSIBLE" not in capsys.readouterr().out
+
+
+def test_zone_option_not_needed_when_the_project_has_one_zone(tmp_path):
+    from tiny_field import make_field
+
+    project = make_field(tmp_path / "f", wells=(("w0.las", "W0"),))
+    csv = tmp_path / "p.csv"
+    # water 10.3 kPa/m, oil 7.8 kPa/m meeting at 1000 m TVDSS (in the tiny field's zone S)
+    rows = ["well,tvdss [m],pressure [kPa],fluid"]
+    rows += [f"W0,{z},{10000 + 10.3 * (z - 1000) + e:.3f},water"
+             for z, e in zip((1010, 1020, 1030, 1040), (0.3, -0.2, 0.1, -0.3))]
+    rows += [f"W0,{z},{10000 + 7.8 * (z - 1000) + e:.3f},oil"
+             for z, e in zip((960, 970, 980, 990), (0.2, -0.1, 0.3, -0.2))]
+    csv.write_text("\n".join(rows) + "\n", encoding="utf-8")
+    assert main(["pressures", str(csv), "--project", str(project), "--no-plots", "--no-logs",
+                 "--out", str(tmp_path / "o")]) == 0
+    doc = json.loads((tmp_path / "o" / "pressures_summary.json").read_text(encoding="utf-8"))
+    assert list(doc["zones"]) == ["S"]
+    assert abs(doc["zones"]["S"]["fwl"]["depth"] - 1000.0) < 0.5   # where the lines were made to meet
+    assert doc["zones"]["S"]["project_fwl"] == 1000.0              # tiny field's fwl = "1000 m"
