@@ -79,6 +79,8 @@ class FitSettings:
     reservoir: dict = field(default_factory=dict)
     model_file: str = "models.json"
     plots: bool = True
+    #: Lab systems named by ``--lab``: each must be one the core files use.
+    lab_names: tuple = ()
 
 
 @dataclass
@@ -155,6 +157,7 @@ def run_fit(paths, out_dir, settings: FitSettings | None = None,
         inputs.add(p, "core-data file")
     ds = read_core_files(paths, default_system=s.default_system, systems=s.systems)
     warnings = ds.validate()
+    _check_lab_names(s.lab_names, {c.system for c in ds.curves})
     used = {c.plug_id for c in ds.curves}
     plugs = {p: ds.plugs[p] for p in ds.plugs if p in used}
     rule = s.rule
@@ -208,6 +211,16 @@ def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: di
         files += save_figure(j_sw_plot(points, fits), out / "core_j_sw.png")
         files += save_figure(pc_plot(points, s.reservoir), out / "core_pc.png")
     return files
+
+
+def _check_lab_names(named, used: set) -> None:
+    """Refuse ``--lab`` systems that no curve of the core files uses (a misspelt name)."""
+    unknown = [n for n in named if n not in used]
+    if unknown:
+        raise SatHeightError("names lab system(s) that no curve of the core files uses: "
+                             + ", ".join(repr(n) for n in unknown), where="--lab",
+                             hint="systems of the core files: "
+                                  + ", ".join(repr(n) for n in sorted(used)))
 
 
 def _check_model_file_name(name: str) -> None:
@@ -359,9 +372,11 @@ def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0
                              "and neither is given",
                              hint="add --k-classes EDGES or --fzi-classes EDGES")
     systems = dict(LAB_SYSTEMS)
+    systems_named = []
     for text in lab:
         name, fluid = parse_lab_override(text, systems)
         systems[name] = fluid
+        systems_named.append(name)
     rule = None
     if group_by:
         rule = RockTypeRule("column", group_by)
@@ -373,7 +388,8 @@ def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0
                            closure=parse_closure(closure), phi_factor=phi_factor,
                            k_factor=k_factor, rule=rule,
                            reservoir=dict(parse_reservoir(t) for t in reservoir),
-                           model_file=model_file, plots=plots)
+                           model_file=model_file, plots=plots,
+                           lab_names=tuple(dict.fromkeys(systems_named)))
     if families:
         settings.families = tuple(families)
     return settings
