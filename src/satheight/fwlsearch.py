@@ -107,15 +107,48 @@ class FwlSearch:
                        "offset_from_joint": d(w.offset), "parameters": w.params}
                       for w in self.wells],
             "flagged_wells": self.flagged_wells,
-            "parameters": _param_dict(self.parameters, length_factor),
-            "warnings": list(self.warnings),
+            "parameters": _param_dict(self.parameters, length_factor, length_unit),
+            "warnings": _flag_notes_in(list(self.warnings),
+                                       [(w.well, w.best, w.low, w.high) for w in self.wells
+                                        if w.flagged], self.shape_fitted,
+                                       (self.low, self.high), length_factor, length_unit),
         }
 
 
-def _param_dict(p, length_factor):
+def _flag_notes_in(notes: list[str], flagged, own_params: bool, joint, length_factor: float,
+                   unit: str) -> list[str]:
+    """``notes`` with each flagged well's note (written in metres by the search) rewritten
+    with depths in ``unit`` (``length_factor`` metres each), to 0.01.
+
+    ``flagged``: (well, best FWL, low, high) [m] of each flagged well; ``joint``: the joint
+    interval [m].
+    """
+    def d(v):
+        return v / length_factor
+
+    out = list(notes)
+    for name, best, lo, hi in flagged:
+        text = (f"{name}: own best FWL {d(best):.2f} {unit} [{d(lo):.2f}, {d(hi):.2f}]"
+                + (" (its own J-Sw parameters)" if own_params else "")
+                + f" does not overlap the joint interval [{d(joint[0]):.2f}, {d(joint[1]):.2f}]:"
+                " a separate compartment, a different rock or fluid behaviour, or a log or "
+                "depth problem?")
+        old = [i for i, n in enumerate(out) if n.startswith(f"{name}: own best FWL ")]
+        if old:
+            out[old[0]] = text
+        else:
+            out.append(text)
+    return out
+
+
+def _param_dict(p, length_factor, length_unit: str = "m"):
     if p is None:
         return None
     out = dict(p)
+    if p.get("wells") is not None and p.get("interval") is not None:
+        flagged = [(w["well"], w["fwl"], *w["interval"]) for w in p["wells"] if w["flagged"]]
+        out["notes"] = _flag_notes_in(list(p.get("notes", [])), flagged, True, p["interval"],
+                                      length_factor, length_unit)
     out["fwl"] = p["fwl"] / length_factor
     for key in ("interval",):
         if out.get(key) is not None:

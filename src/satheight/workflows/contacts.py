@@ -317,7 +317,7 @@ def _datums(project, wells: set, notes: list[str] | None = None) -> dict:
         well = read_las(spec.las)
         name = spec.name or well.name
         if name in wells:
-            elev, _, more = datum_elevation(well, spec)
+            elev, _, more = datum_elevation(well, spec, project.unit_system)
             if notes is not None:
                 notes += more
             md_to_tvdss = well_path(spec, well, elev)[3]

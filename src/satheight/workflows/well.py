@@ -52,7 +52,8 @@ OUTPUT_DECIMALS = {"ROCK_ID": 0, "TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "S
 # --------------------------------------------------------------------------------------
 # per-well steps
 
-def datum_elevation(well: Well, spec: WellSpec) -> tuple[float, str, list[str]]:
+def datum_elevation(well: Well, spec: WellSpec,
+                    system: str = "metric") -> tuple[float, str, list[str]]:
     """Elevation of the log depth reference above the TVDSS datum [m], its source and notes.
 
     The project file's ``datum_elevation`` wins (a header value that differs from it is
@@ -78,7 +79,8 @@ def datum_elevation(well: Well, spec: WellSpec) -> tuple[float, str, list[str]]:
     except SatHeightError:
         header = None
     if header is not None and abs(header - value) > DATUM_AGREE_TOLERANCE:
-        notes.append(f"{well.source}: datum elevation {value:g} m from the project file is used; "
+        notes.append(f"{well.source}: datum elevation {U.shown(value, 'length', system)} from the "
+                     "project file is used; "
                      f"the LAS header gives {source.split(',')[0]}")
     return value, "datum_elevation in the project file", notes
 
@@ -162,7 +164,7 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     if roles.get("resistivity"):
         rt, w3 = role_values(well, "resistivity", roles["resistivity"])
         msgs += w3
-    elev, datum_source, w6 = datum_elevation(well, spec)
+    elev, datum_source, w6 = datum_elevation(well, spec, project.unit_system)
     msgs += w6
     tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
     msgs += w5
@@ -186,7 +188,7 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
                         datum_source=datum_source, tvd=tvd, north=north, east=east, survey=spec.survey,
                         sw_log_unclipped=sw_raw)
-    msgs += value_warnings(result)
+    msgs += value_warnings(result, project.unit_system)
     return result, msgs
 
 
@@ -371,32 +373,37 @@ def _model_file_parameters(project: Project, zn: ZoneModel, p: str, i: int) -> l
             HeaderItem(p + "ROCK", "", rock, f"Zone {i} rock type of the model file")]
 
 
-def value_warnings(result: WellResult) -> list[str]:
+def value_warnings(result: WellResult, system: str = "metric") -> list[str]:
     """Notes on zones of one well whose values give no or one-sided SHM results.
 
     One note per zone that: holds no sample of the well; has its FWL at or above its
     shallowest sample (the whole zone is at or below the FWL: Sw = 1 throughout); has
     its FWL below its deepest sample (no sample reaches the FWL: normal for an
     undrilled contact, noted so it is seen); or has no sample with a usable porosity
-    and permeability (no SHM Sw at all). Depths in the notes are TVDSS [m].
+    and permeability (no SHM Sw at all). Depths in the notes are TVDSS in the length
+    unit of ``system`` (the project's unit system).
     """
     out: list[str] = []
     src = result.well.source
     z = np.asarray(result.tvdss, dtype=float)
     shm = result.shm
+
+    def d(v: float) -> str:
+        return U.shown(v, "length", system)
+
     for i, zn in enumerate(result.zones):
         m = shm.zone == i
         if not m.any():
-            out.append(f"{src}: zone {zn.name!r} ({zn.top:.2f} to {zn.base:.2f} m TVDSS) holds no "
+            out.append(f"{src}: zone {zn.name!r} ({d(zn.top)} to {d(zn.base)} TVDSS) holds no "
                        "sample of this well")
             continue
         shallow, deep = float(z[m].min()), float(z[m].max())
         if zn.fwl <= shallow:
-            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies at or above "
-                       f"its shallowest sample ({shallow:.2f} m): Sw = 1 throughout the zone")
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({d(zn.fwl)} TVDSS) lies at or above "
+                       f"its shallowest sample ({d(shallow)}): Sw = 1 throughout the zone")
         elif zn.fwl > deep:
-            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies below its "
-                       f"deepest sample ({deep:.2f} m): every sample is above the FWL")
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({d(zn.fwl)} TVDSS) lies below its "
+                       f"deepest sample ({d(deep)}): every sample is above the FWL")
         if not np.isfinite(shm.sw[m]).any():
             out.append(f"{src}: zone {zn.name!r}: no sample has a usable porosity and "
                        "permeability, so no SHM Sw (see SHM_FLAG)")
