@@ -45,3 +45,33 @@ def test_flagged_well_note_of_the_fwl_search_follows_the_display_unit():
     assert note.startswith(f"W2: own best FWL {w2.best / FT:.2f} ft [{w2.low / FT:.2f}, ")
     assert f"[{r.low / FT:.2f}, {r.high / FT:.2f}]" in note
     assert sum(n.startswith("W2: own best FWL") for n in shown) == 1    # replaced, not added
+
+
+def test_fit_points_table_has_pc_and_height_in_one_unit_system(tmp_path, capsys):
+    import pandas as pd
+
+    from pathlib import Path
+
+    from satheight.cli import main
+
+    demo = Path(__file__).resolve().parents[1] / "demo_wells"
+    core = [str(demo / n) for n in ("core_plugs.csv", "core_pc_steps.csv",
+                                    "core_plate_steps.csv", "core_plug_V12.csv")]
+    res = ["--reservoir", "Upper Sand=26 mN/m,300 kg/m3", "--reservoir",
+           "Lower Sand=50 mN/m,859.5 kg/m3", "--no-plots"]
+    assert main(["fit", *core, *res, "--out", str(tmp_path / "m")]) == 0
+    metric_out = capsys.readouterr().out
+    assert main(["fit", *core, *res, "--units", "field", "--out", str(tmp_path / "f")]) == 0
+    field_out = capsys.readouterr().out
+    m = pd.read_csv(tmp_path / "m" / "core_points.csv")
+    f = pd.read_csv(tmp_path / "f" / "core_points.csv")
+    assert {"pc_lab [kPa]", "pc_res [kPa]", "height [m]"} <= set(m.columns)
+    assert {"pc_lab [psi]", "pc_res [psi]", "height [ft]"} <= set(f.columns)
+    # 1 psi = 6.894757 kPa, 1 ft = 0.3048 m (nist2008); 6 significant digits written
+    ok = f["pc_lab [psi]"] > 0
+    assert ((m["pc_lab [kPa]"][ok] / f["pc_lab [psi]"][ok] - 6.894757).abs() < 2e-5 * 6.9).all()
+    ok = f["height [ft]"] > 0
+    assert ((m["height [m]"][ok] / f["height [ft]"][ok] - FT).abs() < 2e-5).all()
+    # the closure note follows the unit system: kPa to 0.1, psi to 0.01
+    assert re.search(r"closure per curve: V01/mercury_air \d+\.\d kPa", metric_out)
+    assert re.search(r"closure per curve: V01/mercury_air \d+\.\d\d psi", field_out)

@@ -63,7 +63,10 @@ def test_plausible_lines_are_not_flagged(tmp_path, capsys):
     assert doc["zones"]["S"]["implausible"] == []
     # the lines meet where they were made to: both pass 20000 kPa at 2000 m
     assert abs(doc["zones"]["S"]["fwl"]["depth"] - 2000.0) < 0.5
-    assert "IMPLAUSIBLE" not in capsys.readouterr().out
+    printed = capsys.readouterr().out
+    assert "IMPLAUSIBLE" not in printed
+    # metric printout: densities in kg/m3 to 1 (10300 / 9.80665 = 1050.3; 7800 / g = 795.4)
+    assert "density 1050 +- " in printed and "density 795 +- " in printed
 
 
 def test_zone_option_not_needed_when_the_project_has_one_zone(tmp_path):
