@@ -253,11 +253,14 @@ def _fwl(args, out) -> int:
     _say(out, f"project: {rep['project']}")
     for name, d in rep["zones"].items():
         lo, hi = d["interval"]
+        at_project = ("no project FWL" if d["project_fwl"] is None else
+                      f"project FWL {_num(d['project_fwl'], u)} {u}")
+        misfit = f"misfit best {d['misfit_at_best']:.5f}" + (
+            "" if d["misfit_at_project_fwl"] is None
+            else f", at project FWL {d['misfit_at_project_fwl']:.5f}")
         _say(out, f"zone {name}: best FWL {_num(d['best_fwl'], u)} {u}, "
               f"{int(round(d['confidence_level'] * 100))} % interval {_num(lo, u)} - "
-              f"{_num(hi, u)} {u}; project FWL {_num(d['project_fwl'], u)} {u}; "
-              f"misfit best {d['misfit_at_best']:.5f}, "
-              f"at project FWL {d['misfit_at_project_fwl']:.5f} ({d['samples']} samples)")
+              f"{_num(hi, u)} {u}; {at_project}; {misfit} ({d['samples']} samples)")
         _say(out, f"  {'well':<16} {'samples':>7} {'best FWL':>10} {'low':>10} {'high':>10}  flag")
         for w in d["wells"]:
             if w["best_fwl"] is None:

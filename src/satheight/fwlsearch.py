@@ -30,6 +30,7 @@ observations. Annals of Statistics 17(3), 1217-1241 (moving-block bootstrap).
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+import math
 from typing import Sequence
 
 import numpy as np
@@ -87,8 +88,11 @@ class FwlSearch:
 
     def to_dict(self, length_factor: float = 1.0, length_unit: str = "m") -> dict:
         """JSON-ready summary with depths in ``length_unit`` (``length_factor`` metres each)."""
-        def d(v):
-            return None if v is None else float(v) / length_factor
+        def d(v):  # None: no value (a zone without a project FWL has none to compare with)
+            return None if v is None or not math.isfinite(v) else float(v) / length_factor
+
+        def m(v):
+            return None if v is None or not math.isfinite(v) else v
 
         return {
             "zone": self.zone, "depth_unit": length_unit,
@@ -96,14 +100,15 @@ class FwlSearch:
             "interval": [d(self.low), d(self.high)], "confidence_level": self.level,
             "standard_error": d(self.se), "shape_fitted_with_fwl": self.shape_fitted,
             "misfit": self.misfit, "huber_delta": self.delta if self.misfit == "huber" else None,
-            "misfit_at_best": self.misfit_at_best, "misfit_at_project_fwl": self.misfit_at_project,
+            "misfit_at_best": self.misfit_at_best,
+            "misfit_at_project_fwl": m(self.misfit_at_project),
             "samples": self.n_samples, "bootstrap_resamples": self.n_boot,
             "block_length_samples": self.block_length, "block_length": d(self.block_length_m),
             "seed": self.seed,
             "window": [d(self.candidates[0]), d(self.candidates[-1])],
             "wells": [{"well": w.well, "samples": w.n_samples, "best_fwl": d(w.best),
                        "interval": [d(w.low), d(w.high)], "misfit_at_best": w.misfit_at_best,
-                       "misfit_at_project_fwl": w.misfit_at_project, "flagged": w.flagged,
+                       "misfit_at_project_fwl": m(w.misfit_at_project), "flagged": w.flagged,
                        "offset_from_joint": d(w.offset), "parameters": w.params}
                       for w in self.wells],
             "flagged_wells": self.flagged_wells,

@@ -278,7 +278,7 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
          "implausible": list(zp.problems)}
     if project is not None:
         zs = next((z for z in project.zones if z.name == name), None)
-        if zs is not None and zp.fwl is not None:
+        if zs is not None and zs.fwl is not None and zp.fwl is not None:
             d["project_fwl"] = zs.fwl / lf
             c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, zs.fwl, None, None)
             d["versus_project_fwl"] = _cmp(c, lf)
@@ -431,7 +431,7 @@ def _wells_with_log_sw(project: Project, wells: Sequence[str] | None,
             continue
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            res, _ = compute_well(project, spec)
+            res, _ = compute_well(project, spec, need_fwl=False)
         all_names.append(res.well.name)
         if wells and res.well.name not in wells:
             continue

@@ -8,6 +8,7 @@ well's LAS file and survey goes through :mod:`satheight.io`, the numbers come fr
 from __future__ import annotations
 
 import dataclasses
+import math
 import warnings
 from pathlib import Path
 
@@ -85,13 +86,26 @@ def datum_elevation(well: Well, spec: WellSpec,
     return value, "datum_elevation in the project file", notes
 
 
+def require_fwls(project: Project) -> None:
+    """Refuse a project with a zone without an FWL before a run starts (one error, not one
+    per well)."""
+    for zs in project.zones:
+        if zs.fwl is None:
+            raise ProjectFileError(f"zone {zs.name!r} has no fwl: the run needs its free-water "
+                                   "level", where=f"{project.path}, key zones[{zs.name}].fwl",
+                                   hint='give fwl = "<TVDSS> m"; satheight fwl finds it from '
+                                        "the logs, satheight pressures from pressure points")
+
+
 def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray,
-                   md_to_tvdss=None) -> list[ZoneModel]:
+                   md_to_tvdss=None, need_fwl: bool = True) -> list[ZoneModel]:
     """Engine zones for one well: the well's own tops (MD, turned into TVDSS; or TVDSS
     from the tops file) or the field-wide window.
 
     ``md_to_tvdss``, if given, maps MD [m] to TVDSS [m] (positive down) along the
     well's trajectory and is used for MD tops instead of interpolating between samples.
+    A zone without an FWL is refused when ``need_fwl``; otherwise (the FWL search, which
+    looks for it) its FWL is NaN.
     """
     out = []
     for zs in project.zones:
@@ -111,6 +125,10 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
             top, base = zs.top, zs.base
         else:
             continue
+        if zs.fwl is None:
+            if need_fwl:
+                require_fwls(project)
+            zs = dataclasses.replace(zs, fwl=math.nan)
         out.append(_zone_model(zs, float(top), float(base), project.path))
     return out
 
@@ -146,8 +164,13 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
     return archie_sw(rt, phi, cfg.rw, cfg.a, cfg.m, cfg.n, clip=False), "archie", msgs
 
 
-def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
-    """Load one well and compute everything (no files written)."""
+def compute_well(project: Project, spec: WellSpec,
+                 need_fwl: bool = True) -> tuple[WellResult, list[str]]:
+    """Load one well and compute everything (no files written).
+
+    ``need_fwl=False`` (the FWL search) lets zones without an FWL through, with NaN SHM
+    results (see :func:`zones_for_well`).
+    """
     well = read_las(spec.las)
     if spec.name:
         well.name = spec.name
@@ -173,9 +196,10 @@ def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str
     if clash:
         msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
                     "the computed ones are not written (TVDSS is)")
-    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
+    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss, need_fwl)
     for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
-        check_fwl_near_wells(project.path, zn, tvdss, -elev)
+        if not math.isnan(zn.fwl):
+            check_fwl_near_wells(project.path, zn, tvdss, -elev)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
