@@ -75,3 +75,14 @@ def test_fit_points_table_has_pc_and_height_in_one_unit_system(tmp_path, capsys)
     # the closure note follows the unit system: kPa to 0.1, psi to 0.01
     assert re.search(r"closure per curve: V01/mercury_air \d+\.\d kPa", metric_out)
     assert re.search(r"closure per curve: V01/mercury_air \d+\.\d\d psi", field_out)
+
+
+def test_track_plot_datum_is_rounded_in_the_depth_unit():
+    from satheight import plots
+    from test_plots import all_texts, make_result
+
+    # 26.8 m / 0.3048 = 87.926 ft -> 87.9 ft (0.1 ft); in metres 26.80 m
+    feet = " ".join(all_texts(plots.track_plot(make_result(datum=26.8), units="field")))
+    assert "depth datum 87.9 ft" in feet and "87.92" not in feet
+    metres = " ".join(all_texts(plots.track_plot(make_result(datum=26.8))))
+    assert "depth datum 26.80 m" in metres
