@@ -86,3 +86,18 @@ def test_track_plot_datum_is_rounded_in_the_depth_unit():
     assert "depth datum 87.9 ft" in feet and "87.92" not in feet
     metres = " ".join(all_texts(plots.track_plot(make_result(datum=26.8))))
     assert "depth datum 26.80 m" in metres
+
+
+def test_survey_note_of_a_feet_project_is_in_feet(tmp_path):
+    p = make_field(tmp_path, wells=(("w0.las", "W0"),))
+    # vertical survey ending at MD 1010 m; the logs reach MD 1029.9 m
+    (tmp_path / "s.csv").write_text("MD [m],INC [deg],AZI [deg]\n0,0,0\n1010,0,0\n",
+                                    encoding="utf-8")
+    text = p.read_text(encoding="utf-8").replace('units = "metric"', 'units = "field"')
+    p.write_text(text.replace('las = "w0.las"\n', 'las = "w0.las"\nsurvey = "s.csv"\n'),
+                 encoding="utf-8")
+    project = load_project(p)
+    result, notes = compute_well(project, project.wells[0])
+    note = next(n for n in notes if "last survey station" in n)
+    # 1010 m / 0.3048 = 3313.6 ft; samples at MD 1010.1 ... 1029.9 m (0.1 m step): 199 of them
+    assert "(MD 3313.6 ft)" in note and ": 199 depths below" in note

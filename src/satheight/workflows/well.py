@@ -189,7 +189,7 @@ def compute_well(project: Project, spec: WellSpec,
         msgs += w3
     elev, datum_source, w6 = datum_elevation(well, spec, project.unit_system)
     msgs += w6
-    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
+    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev, project.unit_system)
     msgs += w5
     tvdss = tvd - elev  # TVDSS = TVD - datum elevation, positive down
     clash = sorted({"TVD", "NORTH", "EAST"} & {k.upper() for k in well.curves})
@@ -238,7 +238,7 @@ def pending_tops(project: Project, spec: WellSpec, well_name: str) -> WellSpec:
     return dataclasses.replace(spec, tops=md_tops, tops_tvdss=tv_tops)
 
 
-def well_path(spec: WellSpec, well: Well, elev: float):
+def well_path(spec: WellSpec, well: Well, elev: float, system: str = "metric"):
     """Trajectory of one well at its log samples.
 
     Returns
@@ -250,7 +250,8 @@ def well_path(spec: WellSpec, well: Well, elev: float):
     md_to_tvdss : callable or None
         MD [m] -> TVDSS [m] along the trajectory (None for a vertical well).
     warnings : list[str]
-        Survey notes (added tie-in station, samples below the last station).
+        Survey notes (added tie-in station, samples below the last station; depths in
+        the length unit of ``system``).
     """
     if spec.survey is None:
         tvd, north, east = vertical(well.md)
@@ -260,8 +261,15 @@ def well_path(spec: WellSpec, well: Well, elev: float):
         survey = read_survey(spec.survey, spec.survey_format)
         md0 = float(np.nanmin(well.md)) if well.md.size else None
         traj = survey_trajectory(survey, md0, str(well.source))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")     # said below in the project's length unit
         tvd, north, east = traj.at(well.md)
     msgs = list(survey.warnings) + [str(c.message) for c in caught]
+    below = int(np.count_nonzero(well.md > traj.md[-1] + 1e-9))
+    if below:
+        msgs.append(f"{traj.source or spec.survey}: {below} depths below the last survey station "
+                    f"(MD {U.shown(traj.md[-1], 'length', system)}) were continued straight "
+                    "along the last station's direction")
 
     def md_to_tvdss(md):
         with warnings.catch_warnings():
