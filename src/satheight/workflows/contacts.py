@@ -211,14 +211,7 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     lu, pu = U.UNIT_SYSTEMS[system]["length"], U.UNIT_SYSTEMS[system]["pressure"]
     lf, pf = U.factor(lu, "length"), U.factor(pu, "pressure")
     notes: list[str] = []
-    if zone is None and project is not None and len(project.zones) == 1 \
-            and (points.zone == "").any():
-        zone = project.zones[0].name     # the project's only zone: --zone is not needed
-        notes.append(f"points without a zone are taken as the project's only zone {zone!r}")
-    if zone is not None:
-        _check_zone_option(zone, points, project)
-        blank = points.zone == ""
-        points.zone[blank] = zone            # our own copy, read from the file
+    _fill_zone(zone, points, project, notes)
     if project is not None and (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, _datums(project, set(points.well), notes))
     elif (points.tvdss != points.tvdss).any():
@@ -292,6 +285,18 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
                          f"from log Sw {r.best / lf:.2f} {lu} disagree beyond both intervals "
                          f"(gap {c['gap_m'] / lf:.2f} {lu})")
     return d
+
+
+def _fill_zone(zone: str | None, points, project: Project | None, notes: list[str]) -> None:
+    """Give points without a zone the zone of ``--zone`` (checked), or the project's zone
+    when it has only one (noted)."""
+    if zone is None and project is not None and len(project.zones) == 1 \
+            and (points.zone == "").any():
+        zone = project.zones[0].name     # the project's only zone: --zone is not needed
+        notes.append(f"points without a zone are taken as the project's only zone {zone!r}")
+    if zone is not None:
+        _check_zone_option(zone, points, project)
+        points.zone[points.zone == ""] = zone            # our own copy, read from the file
 
 
 def _check_zone_option(zone: str, points, project: Project | None) -> None:
