@@ -3,8 +3,8 @@
 The folder is scanned (not recursively) for LAS files and for CSV files whose names say what
 they hold (survey, tops, core, pressures). Each LAS file is read; the file records the well
 name, the depth unit, the curve picked for each role and why (the first of the role's
-mnemonics, in order of preference, present in the file), and the datum elevation found in the
-``~Well`` section. What only the user knows (free-water level, fluids, J-Sw function) is left
+mnemonics, in order of preference, present in the file), and the header item the run takes the
+datum elevation from (:func:`satheight.datum.datum_from_header`), or why there is none. What only the user knows (free-water level, fluids, J-Sw function) is left
 as placeholders marked ``FILL IN`` in the zone block; the file loads with the project reader
 once they are filled.
 
