@@ -419,7 +419,6 @@ def test_unknown_curve_role(proj):
     (lambda d: d["project"], "units", "project.units"),
     (lambda d: d["wells"][0], "las", "wells[A-1].las"),
     (lambda d: zone(d), "name", "zones[#1].name"),
-    (lambda d: zone(d), "fwl", "zones[Upper].fwl"),
     (lambda d: zone(d), "hydrocarbon", "zones[Upper].hydrocarbon"),
     (lambda d: zone(d), "water_density", "zones[Upper].water_density"),
     (lambda d: zone(d), "hydrocarbon_density", "zones[Upper].hydrocarbon_density"),

@@ -103,7 +103,8 @@ def test_written_project_file_loads_and_runs_once_placeholders_are_filled(folder
     run = json.loads((tmp_path / "o" / "run_summary.json").read_text(encoding="utf-8"))
     w1 = next(w for w in run["wells"] if w["name"] == "VANTREL-1")
     ekb = float(lasio.read(folder / "VANTREL-1.las").well["EKB"].value)
-    assert w1["summary"]["datum_elevation"] == pytest.approx(ekb)
+    assert w1["summary"]["datum"]["elevation"] == pytest.approx(ekb)
+    assert w1["summary"]["datum"]["source"].startswith("EKB = ")   # which header item was used
 
 
 def test_start_twice_never_overwrites_an_edited_project_file(folder, capsys):

@@ -20,6 +20,7 @@ import traceback
 from pathlib import Path
 
 from . import __version__
+from . import units as U
 from .errors import InputFileError, SatHeightError
 from .workflows.contacts import parse_exclude, parse_fit_bounds, run_fwl, run_pressures
 from .workflows.fit import fit_table, run_fit, settings_from_options
@@ -143,6 +144,9 @@ def _add_fit_parser(sub):
                    help='reservoir sigma*cos(theta) and water-hydrocarbon density difference, '
                         'e.g. "Upper Sand=26 mN/m,300 kg/m3"; without ROCK= for every rock type; '
                         "needed for reservoir Pc, the height axis and height functions")
+    f.add_argument("--units", choices=("metric", "field"), default="metric",
+                   help="units of core_points.csv and the notes: metric (kPa, m, default) or "
+                        "field (psi, ft)")
     f.add_argument("--no-plots", action="store_true", help="skip the plots")
     _overwrite_option(f)
     _quiet_option(f)
@@ -154,7 +158,8 @@ def _fit(args, out) -> int:
         lab=args.lab, system=args.system, closure=args.closure, phi_factor=args.phi_factor,
         k_factor=args.k_factor, group_by=args.group_by, k_classes=args.k_classes,
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
-        reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots)
+        reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots,
+        units=args.units)
     run = run_fit(args.files, args.out, settings, overwrite=args.overwrite,
                   progress=progress_wanted(sys.stderr, args.quiet))
     if args.json:  # the model file's content, the files written and the notes
@@ -222,7 +227,8 @@ def _add_contact_commands(sub):
     pr.add_argument("pressure_file", metavar="PRESSURE_FILE", help="pressure-points CSV")
     pr.add_argument("--project", metavar="PROJECT_FILE",
                     help="project file: datums for MD points, FWLs and wells to compare with")
-    pr.add_argument("--zone", help="project zone of the points when the file has no zone column")
+    pr.add_argument("--zone", help="project zone of the points when the file has no zone column "
+                                   "(default: the project's zone when it has only one)")
     pr.add_argument("--out", metavar="DIR", default=None,
                     help="output folder (default: ./<pressure file name>_pressures)")
     pr.add_argument("--units", choices=("metric", "field"), default=None,
@@ -252,24 +258,29 @@ def _fwl(args, out) -> int:
     _say(out, f"project: {rep['project']}")
     for name, d in rep["zones"].items():
         lo, hi = d["interval"]
-        _say(out, f"zone {name}: best FWL {d['best_fwl']:.2f} {u}, "
-              f"{int(round(d['confidence_level'] * 100))} % interval {lo:.2f} - {hi:.2f} {u}; "
-              f"project FWL {d['project_fwl']:.2f} {u}; misfit best {d['misfit_at_best']:.5f}, "
-              f"at project FWL {d['misfit_at_project_fwl']:.5f} ({d['samples']} samples)")
+        at_project = ("no project FWL" if d["project_fwl"] is None else
+                      f"project FWL {_num(d['project_fwl'], u)} {u}")
+        misfit = f"misfit best {d['misfit_at_best']:.5f}" + (
+            "" if d["misfit_at_project_fwl"] is None
+            else f", at project FWL {d['misfit_at_project_fwl']:.5f}")
+        _say(out, f"zone {name}: best FWL {_num(d['best_fwl'], u)} {u}, "
+              f"{int(round(d['confidence_level'] * 100))} % interval {_num(lo, u)} - "
+              f"{_num(hi, u)} {u}; {at_project}; {misfit} ({d['samples']} samples)")
         _say(out, f"  {'well':<16} {'samples':>7} {'best FWL':>10} {'low':>10} {'high':>10}  flag")
         for w in d["wells"]:
             if w["best_fwl"] is None:
                 _say(out, f"  {w['well']:<16} {w['samples']:>7} {'-':>10}")
                 continue
-            _say(out, f"  {w['well']:<16} {w['samples']:>7} {w['best_fwl']:>10.2f} "
-                  f"{w['interval'][0]:>10.2f} {w['interval'][1]:>10.2f}  "
+            _say(out, f"  {w['well']:<16} {w['samples']:>7} {_num(w['best_fwl'], u):>10} "
+                  f"{_num(w['interval'][0], u):>10} {_num(w['interval'][1], u):>10}  "
                   f"{'OUTSIDE' if w['flagged'] else ''}")
         p = d.get("parameters")
         if p:
             vals = ", ".join(f"{k} {v:.4g}" for k, v in p["values"].items())
             iv = p.get("interval")
-            se = (f" [{iv[0]:.2f}, {iv[1]:.2f}], se {p['standard_error']:.2f} {u}" if iv else "")
-            _say(out, f"  joint fit: FWL {p['fwl']:.2f} {u}{se}, {vals}")
+            se = (f" [{_num(iv[0], u)}, {_num(iv[1], u)}], se {_num(p['standard_error'], u)} {u}"
+                  if iv else "")
+            _say(out, f"  joint fit: FWL {_num(p['fwl'], u)} {u}{se}, {vals}")
             if p.get("correlation"):
                 names = p["names"]
                 for i, row in enumerate(p["correlation"]):
@@ -294,31 +305,41 @@ def _pressures(args, out) -> int:
         print_json("pressures", rep, out)
         return EXIT_OK
     u = rep["units"]
+    dz = u["depth"]
+    system = "field" if dz == "ft" else "metric"
+    du = U.UNIT_SYSTEMS[system]["density"]
+    gd = 4 if system == "field" else 2       # 0.0001 psi/ft, 0.01 kPa/m
+
+    def rho(v):
+        return _num(float(U.from_si(v * 1000.0, du, "density")), du)   # g/cm3 -> system unit
+
     _say(out, f"pressure file: {rep['file']}")
     for name, d in rep["zones"].items():
         _say(out, f"zone {name or '(all points)'}: {d['points']} points")
         for fluid, ln in d["lines"].items():
-            se = "" if ln["gradient_se"] is None else f" +- {ln['gradient_se']:.4f}"
-            dse = "" if ln["density_se_g_cm3"] is None else f" +- {ln['density_se_g_cm3']:.4f}"
-            _say(out, f"  {fluid:<6} gradient {ln['gradient']:.4f}{se} {u['gradient']}, density "
-                  f"{ln['density_g_cm3']:.4f}{dse} g/cm3, {ln['points_used']} used, "
+            se = "" if ln["gradient_se"] is None else f" +- {ln['gradient_se']:.{gd}f}"
+            dse = "" if ln["density_se_g_cm3"] is None else f" +- {rho(ln['density_se_g_cm3'])}"
+            _say(out, f"  {fluid:<6} gradient {ln['gradient']:.{gd}f}{se} {u['gradient']}, density "
+                  f"{rho(ln['density_g_cm3'])}{dse} {du}, {ln['points_used']} used, "
                   f"{ln['points_rejected']} rejected")
         for key, label in (("fwl", "FWL"), ("free_oil_level", "free-oil level")):
             lv = d.get(key)
             if lv:
                 iv = lv["interval"]
-                rng = "" if iv[0] is None else f" ({iv[0]:.2f} - {iv[1]:.2f})"
-                _say(out, f"  {label} {lv['depth']:.2f} {u['depth']}{rng}")
+                rng = "" if iv[0] is None else f" ({_num(iv[0], dz)} - {_num(iv[1], dz)})"
+                _say(out, f"  {label} {_num(lv['depth'], dz)} {dz}{rng}")
         if "versus_project_fwl" in d:
             c = d["versus_project_fwl"]
-            _say(out, f"  project FWL {d['project_fwl']:.2f} {u['depth']}: "
+            _say(out, f"  project FWL {_num(d['project_fwl'], dz)} {dz}: "
                   f"{'within' if c['consistent'] else 'outside'} the pressure interval")
         if "versus_log_fwl" in d:
             c = d["versus_log_fwl"]
             lg = d["log_fwl"]
-            _say(out, f"  FWL from log Sw {lg['best']:.2f} ({lg['interval'][0]:.2f} - "
-                  f"{lg['interval'][1]:.2f}) {u['depth']}: "
+            _say(out, f"  FWL from log Sw {_num(lg['best'], dz)} ({_num(lg['interval'][0], dz)} - "
+                  f"{_num(lg['interval'][1], dz)}) {dz}: "
                   f"{'consistent' if c['consistent'] else 'INCONSISTENT'}")
+        for m in d["implausible"]:
+            _say(out, f"  IMPLAUSIBLE: {m}")
         for m in d["notes"]:
             _say(out, f"  note: {m}")
     for m in rep["notes"]:
@@ -457,6 +478,12 @@ def terminal_text(text: str) -> str:
     """``text`` with every control character shown as an escape (``\\x1b``, ``\\u202e``)."""
     return _CONTROL.sub(lambda m: (f"\\x{ord(m.group()):02x}" if ord(m.group()) < 0x100
                                    else f"\\u{ord(m.group()):04x}"), text)
+
+
+def _num(value: float, unit: str) -> str:
+    """A value already in ``unit``, to the decimals the unit means (``units.SHOWN_DECIMALS``);
+    a plain number without thousands separator."""
+    return f"{value:.{U.SHOWN_DECIMALS.get(unit.lower(), 2)}f}"
 
 
 def _say(out, text="") -> None:

@@ -49,8 +49,9 @@ class Zone:
     top, base : float or None
         Zone window in TVDSS [m] (top inclusive, base exclusive); in the project-file
         form ``None`` when every well gives its own tops.
-    fwl : float
-        Free-water level TVDSS [m].
+    fwl : float or None
+        Free-water level TVDSS [m]; None when the project file gives none (the FWL
+        search looks for it; a run refuses the zone).
     water_density, hydrocarbon_density : float
         [kg/m^3] at reservoir conditions.
     hydrocarbon : str
@@ -89,7 +90,7 @@ class Zone:
     name: str
     top: float | None
     base: float | None
-    fwl: float
+    fwl: float | None
     water_density: float
     hydrocarbon_density: float
     hydrocarbon: str

@@ -30,6 +30,7 @@ observations. Annals of Statistics 17(3), 1217-1241 (moving-block bootstrap).
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+import math
 from typing import Sequence
 
 import numpy as np
@@ -87,8 +88,11 @@ class FwlSearch:
 
     def to_dict(self, length_factor: float = 1.0, length_unit: str = "m") -> dict:
         """JSON-ready summary with depths in ``length_unit`` (``length_factor`` metres each)."""
-        def d(v):
-            return None if v is None else float(v) / length_factor
+        def d(v):  # None: no value (a zone without a project FWL has none to compare with)
+            return None if v is None or not math.isfinite(v) else float(v) / length_factor
+
+        def m(v):
+            return None if v is None or not math.isfinite(v) else v
 
         return {
             "zone": self.zone, "depth_unit": length_unit,
@@ -96,26 +100,60 @@ class FwlSearch:
             "interval": [d(self.low), d(self.high)], "confidence_level": self.level,
             "standard_error": d(self.se), "shape_fitted_with_fwl": self.shape_fitted,
             "misfit": self.misfit, "huber_delta": self.delta if self.misfit == "huber" else None,
-            "misfit_at_best": self.misfit_at_best, "misfit_at_project_fwl": self.misfit_at_project,
+            "misfit_at_best": self.misfit_at_best,
+            "misfit_at_project_fwl": m(self.misfit_at_project),
             "samples": self.n_samples, "bootstrap_resamples": self.n_boot,
             "block_length_samples": self.block_length, "block_length": d(self.block_length_m),
             "seed": self.seed,
             "window": [d(self.candidates[0]), d(self.candidates[-1])],
             "wells": [{"well": w.well, "samples": w.n_samples, "best_fwl": d(w.best),
                        "interval": [d(w.low), d(w.high)], "misfit_at_best": w.misfit_at_best,
-                       "misfit_at_project_fwl": w.misfit_at_project, "flagged": w.flagged,
+                       "misfit_at_project_fwl": m(w.misfit_at_project), "flagged": w.flagged,
                        "offset_from_joint": d(w.offset), "parameters": w.params}
                       for w in self.wells],
             "flagged_wells": self.flagged_wells,
-            "parameters": _param_dict(self.parameters, length_factor),
-            "warnings": list(self.warnings),
+            "parameters": _param_dict(self.parameters, length_factor, length_unit),
+            "warnings": _flag_notes_in(list(self.warnings),
+                                       [(w.well, w.best, w.low, w.high) for w in self.wells
+                                        if w.flagged], self.shape_fitted,
+                                       (self.low, self.high), length_factor, length_unit),
         }
 
 
-def _param_dict(p, length_factor):
+def _flag_notes_in(notes: list[str], flagged, own_params: bool, joint, length_factor: float,
+                   unit: str) -> list[str]:
+    """``notes`` with each flagged well's note (written in metres by the search) rewritten
+    with depths in ``unit`` (``length_factor`` metres each), to 0.01.
+
+    ``flagged``: (well, best FWL, low, high) [m] of each flagged well; ``joint``: the joint
+    interval [m].
+    """
+    def d(v):
+        return v / length_factor
+
+    out = list(notes)
+    for name, best, lo, hi in flagged:
+        text = (f"{name}: own best FWL {d(best):.2f} {unit} [{d(lo):.2f}, {d(hi):.2f}]"
+                + (" (its own J-Sw parameters)" if own_params else "")
+                + f" does not overlap the joint interval [{d(joint[0]):.2f}, {d(joint[1]):.2f}]:"
+                " a separate compartment, a different rock or fluid behaviour, or a log or "
+                "depth problem?")
+        old = [i for i, n in enumerate(out) if n.startswith(f"{name}: own best FWL ")]
+        if old:
+            out[old[0]] = text
+        else:
+            out.append(text)
+    return out
+
+
+def _param_dict(p, length_factor, length_unit: str = "m"):
     if p is None:
         return None
     out = dict(p)
+    if p.get("wells") is not None and p.get("interval") is not None:
+        flagged = [(w["well"], w["fwl"], *w["interval"]) for w in p["wells"] if w["flagged"]]
+        out["notes"] = _flag_notes_in(list(p.get("notes", [])), flagged, True, p["interval"],
+                                      length_factor, length_unit)
     out["fwl"] = p["fwl"] / length_factor
     for key in ("interval",):
         if out.get(key) is not None:

@@ -27,6 +27,7 @@ from scipy import stats
 
 from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
+from .plausible import fluid_line_problems
 
 __all__ = ["PressurePoints", "LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "analyse_pressures",
            "compare_levels", "DEFAULT_QUALITIES"]
@@ -194,6 +195,11 @@ class ZonePressures:
         fluid, residual [Pa]).
     notes : list[str]
         Why a line or level could not be made.
+    problems : list[str]
+        What is implausible about the lines' densities (gradient / g): a density outside
+        the range of its phase (a gradient that only makes sense in another pressure or
+        depth unit), or lines out of order (see
+        :func:`satheight.plausible.fluid_line_problems`). Empty when plausible.
     """
 
     zone: str
@@ -203,6 +209,7 @@ class ZonePressures:
     free_oil_level: Level | None = None
     unknown_nearest: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+    problems: list = field(default_factory=list)
 
     def capillary_pressure_at(self, depth):
         """Pc [Pa] at TVDSS ``depth`` [m]: hydrocarbon line minus water line (oil, else gas)."""
@@ -383,6 +390,34 @@ def intersect(dense: LineFit, light: LineFit, kind: str = "FWL", level: float = 
                  (dense.fluid, light.fluid))
 
 
+def _free_levels(res: ZonePressures) -> None:
+    """FWL (water line meets the oil, else gas, line) and free-oil level (oil meets gas).
+
+    A level is refused (not computed, a note says why) when the denser phase's line is
+    not denser than the lighter one's: the lines would meet at a level that does not exist.
+    """
+    w, o, g = (res.lines.get(f) for f in ("water", "oil", "gas"))
+    for dense, light, kind in ((w, o or g, "FWL"), (o, g, "free-oil level")):
+        if dense is None or light is None:
+            continue
+        if not dense.density > light.density:
+            res.notes.append(f"no {kind}: the {dense.fluid} line ({dense.density:.0f} kg/m3) is "
+                             f"not denser than the {light.fluid} line ({light.density:.0f} kg/m3); "
+                             "check the fluid labels and units of the points")
+            continue
+        try:
+            lvl = intersect(dense, light, kind)
+        except SatHeightError as exc:
+            res.notes.append(exc.what)
+            continue
+        if kind == "FWL":
+            res.fwl = lvl
+        else:
+            res.free_oil_level = lvl
+    if w is None or (o or g) is None:
+        res.notes.append("no FWL: needs a water line and an oil or gas line")
+
+
 def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
                       gradients: dict[str, float] | None = None, reject: bool = True,
                       alpha: float = 0.05) -> dict[str, ZonePressures]:
@@ -427,21 +462,8 @@ def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
                 continue
             lf.used, lf.rejected = sel[lf.used], sel[lf.rejected]
             res.lines[fluid] = lf
-        w, o, g = (res.lines.get(f) for f in ("water", "oil", "gas"))
-        for dense, light, kind in ((w, o or g, "FWL"), (o, g, "free-oil level")):
-            if dense is None or light is None:
-                continue
-            try:
-                lvl = intersect(dense, light, kind)
-            except SatHeightError as exc:
-                res.notes.append(exc.what)
-                continue
-            if kind == "FWL":
-                res.fwl = lvl
-            else:
-                res.free_oil_level = lvl
-        if res.fwl is None:
-            res.notes.append("no FWL: needs a water line and an oil or gas line")
+        res.problems = fluid_line_problems({f: ln.density for f, ln in res.lines.items()})
+        _free_levels(res)
         unk = np.flatnonzero(zp.fluid == "unknown")
         if unk.size and res.lines:
             names = list(res.lines)

@@ -91,6 +91,10 @@ class WellResult:
         without a survey).
     survey : pathlib.Path or None
         The deviation survey used, if any.
+    datum_elevation : float
+        Elevation of the log depth reference above the TVDSS datum [m].
+    datum_source : str
+        Where ``datum_elevation`` came from (the project file, or which LAS header item).
     sw_log_unclipped : numpy.ndarray or None
         Archie log Sw before clipping to [0, 1] [fraction] (``None`` when log Sw is a
         curve of the LAS file): the comparison statistics use it; ``sw_log`` (clipped)
@@ -110,6 +114,7 @@ class WellResult:
     sw_log_source: str
     roles: dict[str, str | None]
     datum_elevation: float = 0.0
+    datum_source: str = ""
     summary: dict[str, Any] = field(default_factory=dict)
     tvd: np.ndarray | None = None
     north: np.ndarray | None = None

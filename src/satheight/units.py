@@ -89,6 +89,24 @@ UNIT_SYSTEMS: dict[str, dict[str, str]] = {
               "angle": "deg", "temperature": "degF"},
 }
 
+#: Decimals shown for a quantity in each display unit, by what the number means (common
+#: practice): depths and heights to 0.01 m or 0.1 ft, pressures to 0.1 kPa or 0.01 psi,
+#: densities to 1 kg/m3 or 0.001 g/cm3, interfacial tension to 0.1 mN/m or dyn/cm.
+SHOWN_DECIMALS = {"m": 2, "ft": 1, "kpa": 1, "psi": 2, "kg/m3": 0, "g/cm3": 3, "mn/m": 1,
+                  "dyn/cm": 1, "frac": 3}
+
+
+def shown(value_si: float, kind: str, system: str = "metric") -> str:
+    """An SI value as text in the unit system's unit of ``kind``: ``"2105.00 m"``, ``"6906.2 ft"``.
+
+    Rounded to :data:`SHOWN_DECIMALS` of the unit; a plain number (no thousands separator),
+    so it can be pasted back into a project file.
+    """
+    unit = UNIT_SYSTEMS[system][kind]
+    value = float(from_si(value_si, unit, kind))
+    return f"{value:.{SHOWN_DECIMALS.get(unit.lower(), 3)}f} {unit}"
+
+
 _NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
 _QUANTITY = re.compile(rf"^\s*({_NUMBER})\s*(.*?)\s*$")
 

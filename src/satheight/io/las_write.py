@@ -302,11 +302,16 @@ def _check_write_args(path: Path, well: Well, new_curves: list[Curve],
         raise _out_error(path, "the well has no depth samples to write",
                          "read the well from a LAS file with data rows")
     new_data = _check_new_curves(path, well, new_curves, decimals)
+    taken = {_file_mnemonic(k, list(well.parameters)).upper() for k in well.parameters}
     for it in parameters:
         if not _MNEMONIC_OK.match(it.mnemonic or "") or any(ch.isspace() for ch in it.unit or ""):
             raise _out_error(path, f"parameter {it.mnemonic!r} (unit {it.unit!r}) cannot be "
                              "written to LAS", "use a mnemonic without blanks, dots or colons "
                              "and a unit without blanks")
+        if it.mnemonic.upper() in taken:   # a reader would see two values under one name
+            raise _out_error(path, f"parameter {it.mnemonic!r} is already in ~Parameter",
+                             "give the new parameter a name of its own")
+        taken.add(it.mnemonic.upper())
     for line in extra_other.splitlines():
         if line.lstrip().startswith("~"):
             raise _out_error(path, "a line of the ~Other text starts with '~'",

@@ -84,8 +84,9 @@ def misfit_plot(search: FwlSearch, units: str = "metric") -> Figure:
         ax.plot(scaled(search.profile, sel), depth, color="black", lw=2.2, label="joint")
         ax.axhline(search.best / f, color="black", lw=1.2,
                    label=f"best FWL {search.best / f:.2f} {lu}")
-        ax.axhline(search.project_fwl / f, color="#D55E00", lw=1.2, ls=":",
-                   label=f"project FWL {search.project_fwl / f:.2f} {lu}")
+        if np.isfinite(search.project_fwl):   # NaN: the project gives no FWL for the zone
+            ax.axhline(search.project_fwl / f, color="#D55E00", lw=1.2, ls=":",
+                       label=f"project FWL {search.project_fwl / f:.2f} {lu}")
         ax.set_ylim(bottom, top)
         ax.set_xlim(-0.02, 1.02)
         ax.set_xlabel(f"misfit ({search.misfit}), scaled 0-1 per curve")

@@ -27,7 +27,7 @@ from matplotlib.ticker import MultipleLocator, NullLocator
 
 from ..errors import DepthError, SatHeightError, UnitError
 from ..results import WellResult
-from ..units import UNIT_SYSTEMS, factor
+from ..units import SHOWN_DECIMALS, UNIT_SYSTEMS, factor
 from .depths import level_crossings, mapping, monotone_pairs
 from .style import DPI, GREEN, GREY, PAGES, YELLOW
 from .text import safe_text
@@ -339,7 +339,8 @@ def _title_and_legend(f: Frame, result: WellResult, title: str | None) -> None:
     primary = "MD" if f.depth_axis == "md" else "TVDSS"
     sub = f"Depth: {primary} [{f.length_unit}]"
     if result.datum_elevation:
-        sub += (f"; depth datum {result.datum_elevation / f.scale:.6g} {f.length_unit} "
+        dec = SHOWN_DECIMALS.get(f.length_unit.lower(), 2)      # 0.01 m, 0.1 ft
+        sub += (f"; depth datum {result.datum_elevation / f.scale:.{dec}f} {f.length_unit} "
                 "above sea level")
     f.fig.text(0.5, 1.0 - 0.48 / fig_h, sub, ha="center", va="top", fontsize=8, color="#444444")
     ncol = max(1, min(5, int((fig_w - 0.4) // 2.1))) if fig_w >= 9 else 4

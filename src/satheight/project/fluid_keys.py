@@ -275,6 +275,9 @@ def _gas_cap(reader, t, key, hydrocarbon, fwl, rho_h, conditions, notes) -> dict
                            hint='set hydrocarbon = "oil" and give the gas with gas_density '
                                 "or gas = {...}")
     gol = reader.quantity(t["gas_oil_level"], f"{key}.gas_oil_level", "length")
+    if fwl is None:
+        raise reader.error(f"{key}.gas_oil_level", "a gas_oil_level needs the zone's fwl, and "
+                           "'fwl' is missing", hint='give fwl = "<depth> m" below the gas_oil_level')
     if not gol < fwl:
         raise reader.error(f"{key}.gas_oil_level", f"gas_oil_level {t['gas_oil_level']!r} is "
                            f"not above the fwl {reader.length_text(fwl)} (TVDSS, positive down)",
@@ -335,6 +338,9 @@ def _read_conditions(reader, t, key, fwl, system) -> tuple[float, float, dict]:
                                 '"80 degC" } or pressure_gradient and temperature_gradient')
     c = reader.table(t["conditions"], ck, _CONDITION_KEYS)
     depth = reader.quantity(c["depth"], f"{ck}.depth", "length") if "depth" in c else fwl
+    if depth is None:
+        raise reader.error(ck, "the conditions need a depth: neither conditions.depth nor the "
+                           "zone's fwl is given", hint='add depth = "<TVDSS> m" to conditions')
     info: dict[str, Any] = {"depth_m": depth}
     if "pressure" in c:
         p = reader.quantity(c["pressure"], f"{ck}.pressure", "pressure", positive=True)

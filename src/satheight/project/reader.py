@@ -47,7 +47,8 @@ File format
     name = "Upper"                  # required, unique
     top = "1980 m"                  # TVDSS, positive down; optional if wells give tops for this zone
     base = "2100 m"                 # TVDSS; top < base
-    fwl = "2060 m"                  # free-water level TVDSS, required (at the plane's reference point when fwl_plane is given)
+    fwl = "2060 m"                  # free-water level TVDSS; needed by run (fwl and pressures find it without);
+                                    # at the plane's reference point when fwl_plane is given
     fwl_plane = { east = 1200, north = 800, gradient_east = 0.004, gradient_north = 0 }   # optional tilted FWL: plane through fwl at map point (east, north) (project length unit),
                                     # deepening by gradient_east / gradient_north metres per metre (plain numbers, positive deeper); evaluated at each well's location (required then);
                                     # |gradient| above 0.05 needs "fwl_plane" in allow_unusual
@@ -385,7 +386,7 @@ class _Reader(ValueReader):
     def read_zone(self, raw: dict, index: int) -> Zone:
         key = f"zones[{_label(raw, ('name',), index)}]"
         t = self.table(raw, key, _ZONE_KEYS,
-                       required=("name", "fwl", "hydrocarbon", "sigma_cos_theta", "function"))
+                       required=("name", "hydrocarbon", "sigma_cos_theta", "function"))
         name = self.text(t["name"], f"{key}.name")
 
         has_top, has_base = "top" in t, "base" in t
@@ -403,10 +404,12 @@ class _Reader(ValueReader):
                                  f"{t['base']!r} (TVDSS, positive down)",
                                  hint="top must be shallower (smaller) than base")
 
-        fwl = self.quantity(t["fwl"], f"{key}.fwl", "length")
+        # no fwl: the fwl and pressures commands look for it; run refuses the zone
+        fwl = self.quantity(t["fwl"], f"{key}.fwl", "length") if "fwl" in t else None
         hydrocarbon = self.text(t["hydrocarbon"], f"{key}.hydrocarbon", _HYDROCARBONS)
         allowed = self.allow_list(t, key, ZONE_ALLOW)
-        self.plausible("fwl", fwl, f"{key}.fwl", t["fwl"], allowed=allowed)
+        if fwl is not None:
+            self.plausible("fwl", fwl, f"{key}.fwl", t["fwl"], allowed=allowed)
         # densities: given, or from correlations; optional three-phase keys (fluid_keys)
         zf = read_zone_fluids(self, t, key, hydrocarbon, fwl, allowed)
         self.check_densities(t, key, hydrocarbon, zf, allowed)

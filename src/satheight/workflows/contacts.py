@@ -183,7 +183,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
         the survey of a deviated well), gives the project's
         FWL of each zone and the wells for the FWL from log Sw.
     zone : str, optional
-        Project zone the points belong to when the file has no zone column.
+        Project zone the points belong to when the file has no zone column (default:
+        the project's zone when it has only one).
     units : str, optional
         ``"metric"`` or ``"field"`` for the summary and plot (default: the
         project's, else metric).
@@ -227,12 +228,9 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
     lu, pu = U.UNIT_SYSTEMS[system]["length"], U.UNIT_SYSTEMS[system]["pressure"]
     lf, pf = U.factor(lu, "length"), U.factor(pu, "pressure")
     notes: list[str] = []
-    if zone is not None:
-        _check_zone_option(zone, points, project)
-        blank = points.zone == ""
-        points.zone[blank] = zone            # our own copy, read from the file
+    _fill_zone(zone, points, project, notes)
     if project is not None and (points.tvdss != points.tvdss).any():
-        points = resolve_tvdss(points, _datums(project, set(points.well)))
+        points = resolve_tvdss(points, _datums(project, set(points.well), notes))
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
     notes += points.notes
@@ -288,10 +286,12 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
                                          for i in l_.rejected),
          "unknown_points": [{"line": int(zp.points.line[i]), "nearest_line": f,
                              "residual": r / pf} for i, f, r in zp.unknown_nearest],
-         "notes": list(zp.notes)}
+         "notes": list(zp.notes),
+         # implausible densities from the lines (a unit or fluid-label mistake): shown loudly
+         "implausible": list(zp.problems)}
     if project is not None:
         zs = next((z for z in project.zones if z.name == name), None)
-        if zs is not None and zp.fwl is not None:
+        if zs is not None and zs.fwl is not None and zp.fwl is not None:
             d["project_fwl"] = zs.fwl / lf
             c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, zs.fwl, None, None)
             d["versus_project_fwl"] = _cmp(c, lf)
@@ -307,6 +307,18 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
     return d
 
 
+def _fill_zone(zone: str | None, points, project: Project | None, notes: list[str]) -> None:
+    """Give points without a zone the zone of ``--zone`` (checked), or the project's zone
+    when it has only one (noted)."""
+    if zone is None and project is not None and len(project.zones) == 1 \
+            and (points.zone == "").any():
+        zone = project.zones[0].name     # the project's only zone: --zone is not needed
+        notes.append(f"points without a zone are taken as the project's only zone {zone!r}")
+    if zone is not None:
+        _check_zone_option(zone, points, project)
+        points.zone[points.zone == ""] = zone            # our own copy, read from the file
+
+
 def _check_zone_option(zone: str, points, project: Project | None) -> None:
     """``--zone`` must name a project zone (with a project) and fill at least one point."""
     if project is not None and zone not in [z.name for z in project.zones]:
@@ -317,8 +329,12 @@ def _check_zone_option(zone: str, points, project: Project | None) -> None:
                              "its zone", hint="leave --zone out")
 
 
-def _datums(project, wells: set) -> dict:
-    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well."""
+def _datums(project, wells: set, notes: list[str] | None = None) -> dict:
+    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well.
+
+    The elevation is the run's (:func:`satheight.workflows.well.datum_elevation`); its
+    notes go to ``notes``.
+    """
     out = {}
     for spec in project.wells:
         if spec.name is not None and spec.name not in wells:
@@ -326,7 +342,9 @@ def _datums(project, wells: set) -> dict:
         well = read_las(spec.las)
         name = spec.name or well.name
         if name in wells:
-            elev = datum_elevation(well, spec)
+            elev, _, more = datum_elevation(well, spec, project.unit_system)
+            if notes is not None:
+                notes += more
             md_to_tvdss = well_path(spec, well, elev)[3]
             out[name] = elev if md_to_tvdss is None else md_to_tvdss
     return out
@@ -444,7 +462,7 @@ def _wells_with_log_sw(project: Project, wells: Sequence[str] | None, notes: lis
             continue
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            res, _ = compute_well(project, spec)
+            res, _ = compute_well(project, spec, need_fwl=False)
         all_names.append(res.well.name)
         if wells and res.well.name not in wells:
             continue
@@ -479,7 +497,9 @@ def _well_zone_samples(project: Project, res: WellResult, zname: str, exclude, s
                                  f"{res.well.name}", where=str(res.well.source),
                                  hint="name a curve every well has, e.g. GR")
         shale = res.well.curves[key].data
-    return zone_samples(res.well.name, res.tvdss, res.phi, res.k, res.sw_log, zn,
+    # unclipped Archie Sw: clipping at 1 biases the misfit in and near the water leg
+    sw = res.sw_log if res.sw_log_unclipped is None else res.sw_log_unclipped
+    return zone_samples(res.well.name, res.tvdss, res.phi, res.k, sw, zn,
                         min_porosity=project.comparison.min_porosity,
                         min_permeability=project.comparison.min_permeability,
                         shale=shale, max_shale=max_shale, mask=mask)

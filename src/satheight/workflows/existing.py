@@ -104,10 +104,26 @@ def suffixed(new_curves: list[Curve], well: Well) -> tuple[list[Curve], dict[str
     return out, names, notes
 
 
-def new_parameters(well: Well, params: list[HeaderItem], mode: str) -> Well:
-    """In ``replace`` mode, ``well`` without input ``~Parameter`` items this run writes again."""
-    if mode != "replace" or not written_by_satheight(well):
-        return well
+def new_parameters(well: Well, params: list[HeaderItem],
+                   mode: str) -> tuple[Well, list[HeaderItem]]:
+    """The well and this run's ``~Parameter`` items, so that no name is written twice.
+
+    ``replace``: a file satheight wrote loses the input items this run writes again.
+    ``suffix``: the input is kept whole and each new item whose name is taken gets the first
+    free suffix ``_2``, ``_3``... (as the new curves do).
+    """
+    if mode == "suffix":
+        taken = {_mnemonic(k) for k in well.parameters}
+        out = []
+        for p in params:
+            name, n = p.mnemonic, 2
+            while name.upper() in taken:
+                name, n = f"{p.mnemonic}_{n}", n + 1
+            taken.add(name.upper())
+            out.append(p if name == p.mnemonic else dataclasses.replace(p, mnemonic=name))
+        return well, out
+    if not written_by_satheight(well):
+        return well, params
     again = {p.mnemonic.upper() for p in params}
     kept = {k: v for k, v in well.parameters.items() if _mnemonic(k) not in again}
-    return dataclasses.replace(well, parameters=kept)
+    return dataclasses.replace(well, parameters=kept), params

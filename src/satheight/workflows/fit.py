@@ -21,6 +21,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import constants as C
+from .. import units as U
 from ..coreplugs import (DEFAULT_FAMILIES, LAB_SYSTEMS, CorePoints, FluidSystem, core_points,
                          fit_rock_types, fluid_system, height_from_pc, lab_to_reservoir_pc)
 from ..errors import SatHeightError
@@ -68,6 +69,10 @@ class FitSettings:
     model_file : str
         Name of the model file in the output folder.
     plots : bool
+    lab_names : tuple of str
+        Lab systems named by ``--lab``.
+    units : str
+        ``"metric"`` (kPa, m) or ``"field"`` (psi, ft) for ``core_points.csv`` and notes.
     """
 
     default_system: str | None = None
@@ -80,6 +85,10 @@ class FitSettings:
     reservoir: dict = field(default_factory=dict)
     model_file: str = "models.json"
     plots: bool = True
+    #: Lab systems named by ``--lab``: each must be one the core files use.
+    lab_names: tuple = ()
+    #: Unit system of ``core_points.csv`` and the notes (pressure and height units).
+    units: str = "metric"
 
 
 @dataclass
@@ -106,16 +115,19 @@ def _apply_reservoir(points: CorePoints, lab_sct: np.ndarray, reservoir: dict) -
             points.height[m] = height_from_pc(points.pc_res[m], fluids.delta_rho)
 
 
-def points_csv(points: CorePoints) -> str:
-    """Text of ``core_points.csv`` (Pc in psi, height in m, radius in um, k in mD)."""
+def points_csv(points: CorePoints, system: str = "metric") -> str:
+    """Text of ``core_points.csv``: Pc and height in the units of ``system`` (kPa and m, or
+    psi and ft), radius in um, k in mD."""
     import pandas as pd
 
+    pu, lu = U.UNIT_SYSTEMS[system]["pressure"], U.UNIT_SYSTEMS[system]["length"]
     frame = pd.DataFrame({
         "plug": points.plug, "system": points.system, "rock_type": points.rock_type,
-        "pc_lab [psi]": points.pc_lab / C.PSI, "sw_raw [frac]": points.sw_raw,
+        f"pc_lab [{pu}]": U.from_si(points.pc_lab, pu, "pressure"), "sw_raw [frac]": points.sw_raw,
         "sw [frac]": points.sw, "porosity [frac]": points.phi,
         "permeability [mD]": points.k / C.MILLIDARCY, "j [-]": points.j,
-        "pc_res [psi]": points.pc_res / C.PSI, "height [m]": points.height,
+        f"pc_res [{pu}]": U.from_si(points.pc_res, pu, "pressure"),
+        f"height [{lu}]": U.from_si(points.height, lu, "length"),
         "throat_radius [um]": points.throat_radius * 1e6})
     return frame.to_csv(index=False, float_format="%.6g", lineterminator="\n")
 
@@ -167,6 +179,7 @@ def _run_fit(paths, out_dir, settings: FitSettings | None, overwrite: bool,
         inputs.add(p, "core-data file")
     ds = read_core_files(paths, default_system=s.default_system, systems=s.systems)
     warnings = ds.validate()
+    _check_lab_names(s.lab_names, {c.system for c in ds.curves})
     used = {c.plug_id for c in ds.curves}
     plugs = {p: ds.plugs[p] for p in ds.plugs if p in used}
     rule = s.rule
@@ -195,7 +208,7 @@ def _run_fit(paths, out_dir, settings: FitSettings | None, overwrite: bool,
     for rt, e in fits.items():
         for fam, msg in e["errors"].items():
             warnings.append(f"rock type {rt!r}: {fam} not fitted: {msg}")
-    warnings += _closure_note(points, ds)
+    warnings += _closure_note(points, ds, s.units)
     return FitRun(points=points, fits=fits, rule=rule_out, model_path=files[0], files=files,
                   warnings=warnings)
 
@@ -217,12 +230,22 @@ def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: di
     }
     files = [save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))]
     pts = out / "core_points.csv"
-    atomic_write_text(pts, points_csv(points))
+    atomic_write_text(pts, points_csv(points, s.units))
     files.append(pts)
     if s.plots:
         files += save_figure(j_sw_plot(points, fits), out / "core_j_sw.png")
         files += save_figure(pc_plot(points, s.reservoir), out / "core_pc.png")
     return files
+
+
+def _check_lab_names(named, used: set) -> None:
+    """Refuse ``--lab`` systems that no curve of the core files uses (a misspelt name)."""
+    unknown = [n for n in named if n not in used]
+    if unknown:
+        raise SatHeightError("names lab system(s) that no curve of the core files uses: "
+                             + ", ".join(repr(n) for n in unknown), where="--lab",
+                             hint="systems of the core files: "
+                                  + ", ".join(repr(n) for n in sorted(used)))
 
 
 def _check_model_file_name(name: str) -> None:
@@ -232,13 +255,14 @@ def _check_model_file_name(name: str) -> None:
                              hint="e.g. --model-file models.json; choose the folder with --out")
 
 
-def _closure_note(points: CorePoints, ds) -> list[str]:
-    """The closure chosen per mercury curve ('none' where nothing was corrected)."""
+def _closure_note(points: CorePoints, ds, system: str = "metric") -> list[str]:
+    """The closure chosen per mercury curve ('none' where nothing was corrected), in the
+    pressure unit of ``system``."""
     if not points.closure:
         return []
     first = {f"{c.plug_id}/{c.system}": c.pc[0] for c in ds.curves}
     return ["closure per curve: " + ", ".join(
-        f"{k} {'none' if v <= first[k] else f'{v / C.PSI:.4g} psi'}"
+        f"{k} {'none' if v <= first[k] else U.shown(v, 'pressure', system)}"
         for k, v in points.closure.items())]
 
 
@@ -358,13 +382,15 @@ def parse_classes(text: str, kind: str, names: str | None) -> RockTypeRule:
 def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0, k_factor=1.0,
                           group_by=None, k_classes=None, fzi_classes=None, class_names=None,
                           families=None, reservoir=(), model_file="models.json",
-                          plots=True) -> FitSettings:
+                          plots=True, units="metric") -> FitSettings:
     """FitSettings from the option texts of ``satheight fit`` (units at the edge).
 
     ``lab``, ``reservoir``: texts of the repeatable ``--lab`` and ``--reservoir``;
     ``group_by``, ``k_classes``, ``fzi_classes``: at most one (the rock-type rule);
-    ``families``: names, or None for the default set.
+    ``families``: names, or None for the default set; ``units``: ``"metric"`` or ``"field"``.
     """
+    if units not in U.UNIT_SYSTEMS:
+        raise SatHeightError(f"--units {units!r} is not a unit system", hint="use metric or field")
     for opt, v in (("--phi-factor", phi_factor), ("--k-factor", k_factor)):
         if not (math.isfinite(v) and v > 0):
             raise SatHeightError(f"{opt} must be a number > 0, got {v}",
@@ -374,9 +400,11 @@ def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0
                              "and neither is given",
                              hint="add --k-classes EDGES or --fzi-classes EDGES")
     systems = dict(LAB_SYSTEMS)
+    systems_named = []
     for text in lab:
         name, fluid = parse_lab_override(text, systems)
         systems[name] = fluid
+        systems_named.append(name)
     rule = None
     if group_by:
         rule = RockTypeRule("column", group_by)
@@ -388,7 +416,8 @@ def settings_from_options(*, lab=(), system=None, closure="auto", phi_factor=1.0
                            closure=parse_closure(closure), phi_factor=phi_factor,
                            k_factor=k_factor, rule=rule,
                            reservoir=dict(parse_reservoir(t) for t in reservoir),
-                           model_file=model_file, plots=plots)
+                           model_file=model_file, plots=plots,
+                           lab_names=tuple(dict.fromkeys(systems_named)), units=units)
     if families:
         settings.families = tuple(families)
     return settings

@@ -100,9 +100,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
         decimals = {names[k]: v for k, v in decimals.items()}
     files = []
     las_path = out_dir / f"{stem}.las"
-    params = run_parameters(result, project)
-    write_las(las_path, new_parameters(result.well, params, opts.existing), new_curves=new,
-              parameters=params, decimals=decimals)
+    well, params = new_parameters(result.well, run_parameters(result, project), opts.existing)
+    write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
     files.append(las_path)
     csv_path = out_dir / f"{stem}.csv"
     write_csv(csv_path, result.well, new)

@@ -33,7 +33,7 @@ from .field_tables import write_field_tables
 from .figures import save_crossplots, save_figure
 from .console import SCHEMA_VERSION, Progress
 from .report import input_files, write_report
-from .well import compute_well
+from .well import compute_well, require_fwls
 
 
 @dataclass
@@ -114,6 +114,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
     if not isinstance(project, Project):
         project = open_project(project)
     check_wells(project)
+    require_fwls(project)
     inputs = project_inputs(project)
     out_dir = Path(out_dir)
     with OutputSession(out_dir, "run", overwrite, inputs) as session:

@@ -3,8 +3,8 @@
 The folder is scanned (not recursively) for LAS files and for CSV files whose names say what
 they hold (survey, tops, core, pressures). Each LAS file is read; the file records the well
 name, the depth unit, the curve picked for each role and why (the first of the role's
-mnemonics, in order of preference, present in the file), and the datum elevation found in the
-``~Well`` section. What only the user knows (free-water level, fluids, J-Sw function) is left
+mnemonics, in order of preference, present in the file), and the header item the run takes the
+datum elevation from (:func:`satheight.datum.datum_from_header`), or why there is none. What only the user knows (free-water level, fluids, J-Sw function) is left
 as placeholders marked ``FILL IN`` in the zone block; the file loads with the project reader
 once they are filled.
 
@@ -14,13 +14,13 @@ free name, and the caller is told so.
 
 from __future__ import annotations
 
-import math
 import os
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from .. import __version__
+from ..datum import datum_from_header
 from ..errors import InputFileError, SatHeightError
 from ..io.atomic import atomic_write_text
 from ..io.las import read_las
@@ -29,10 +29,6 @@ from ..roles import ROLE_ALIASES, detect_roles
 
 #: Default name of the written project file (in the scanned folder).
 DEFAULT_NAME = "satheight_project.toml"
-
-#: ~Well items that may give the elevation of the depth reference above the datum, in the
-#: order the run tries them (LAS 2.0 practice: kelly bushing, drill floor, reference, ground).
-DATUM_ITEMS = ("EKB", "EDF", "EREF", "ELEV", "KB", "EGL")
 
 #: Words in a CSV file's name that say what it holds (checked in this order).
 FILE_KINDS = (("survey", ("survey", "deviation", "dev")), ("tops", ("tops", "top")),
@@ -53,6 +49,8 @@ class WellFound:
     roles: dict[str, str | None]
     reasons: dict[str, str]
     datum: str | None
+    #: Why the header gives no datum (when ``datum`` is None).
+    datum_problem: str = ""
     survey: Path | None = None
     #: True when the project file must name the well (its LAS name is taken).
     named: bool = False
@@ -97,18 +95,12 @@ def toml_string(text) -> str:
     return '"' + "".join(out) + '"'
 
 
-def _datum(well) -> str | None:
-    """The first numeric datum item of the ~Well section, as "EKB = 28.5 M"."""
-    header = {k.upper(): v for k, v in well.well_header.items()}
-    for mn in DATUM_ITEMS:
-        item = header.get(mn)
-        try:
-            value = float(item.value) if item is not None else math.nan
-        except (TypeError, ValueError):
-            continue
-        if math.isfinite(value):
-            return f"{mn} = {value:g} {_one_line(item.unit or well.depth_unit)}"
-    return None
+def _datum(well) -> tuple[str | None, str]:
+    """The header item the run takes the datum from (as the run reads it), or None and why."""
+    try:
+        return _one_line(datum_from_header(well)[1]), ""
+    except InputFileError as exc:
+        return None, _one_line(exc.what)
 
 
 def _role_reasons(found: dict[str, str | None]) -> dict[str, str]:
@@ -135,11 +127,12 @@ def _scan_las(path: Path) -> WellFound | None:
     if OUTPUT_CURVES <= {k.upper() for k in well.curves}:
         return None
     found = detect_roles(well)
+    datum, problem = _datum(well)
     md = well.curves[well.index_mnemonic].data
     return WellFound(las=path, name=_one_line(well.name) or path.stem,
                      depth_unit=_one_line(well.depth_unit) or "m",
                      start=float(md[0]), stop=float(md[-1]), roles=dict(found),
-                     reasons=_role_reasons(found), datum=_datum(well))
+                     reasons=_role_reasons(found), datum=datum, datum_problem=problem)
 
 
 def _kind_of(path: Path) -> str | None:
@@ -248,10 +241,10 @@ def _well_block(w: WellFound, base: Path) -> list[str]:
         lines.append("curves = { " + ", ".join(f"{r} = {toml_string(m)}" for r, m in picked.items())
                      + " }   # the curves picked above; change any of them here")
     if w.datum:
-        lines.append(f"# datum: {w.datum} in the ~Well section; the run takes it from there "
+        lines.append(f"# datum: {w.datum}; the run takes it from the LAS header "
                      "(or give datum_elevation here)")
     else:
-        lines.append(f"# datum: none of {', '.join(DATUM_ITEMS)} in the ~Well section: FILL IN")
+        lines.append(f"# datum: {w.datum_problem}: FILL IN")
         lines.append(f'datum_elevation = "{PLACEHOLDER}"   # FILL IN: depth reference (KB) '
                      'elevation above the datum, e.g. "25 m"')
     if w.survey is not None:

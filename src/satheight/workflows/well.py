@@ -16,6 +16,7 @@ import numpy as np
 
 from .. import __version__
 from .. import units as U
+from ..datum import AGREE_TOLERANCE as DATUM_AGREE_TOLERANCE, datum_from_header
 from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
 from ..io.las import read_las
@@ -31,11 +32,6 @@ from .fwl_per_well import well_fwl
 from .existing import (USER_CURVES, prepare_input, role_aliases, suffixed,
                        written_by_satheight)
 from .uncertainty import UNCERTAINTY_CURVES
-
-#: ~Well mnemonics that may carry the elevation of the log depth reference above
-#: the TVDSS datum, in order of preference: kelly bushing, drill floor, depth
-#: reference, permanent-datum elevation, ground level (LAS 2.0 practice).
-DATUM_MNEMONICS = ("EKB", "EDF", "EREF", "ELEV", "KB", "EGL")
 
 #: Output curve mnemonics and descriptions.
 NEW_CURVES = {
@@ -61,46 +57,59 @@ OUTPUT_DECIMALS = {"ROCK_ID": 0, "TVDSS": 4, "HAFWL": 4, "PC_RES": 4, "J": 6, "S
 # --------------------------------------------------------------------------------------
 # per-well steps
 
-def datum_elevation(well: Well, spec: WellSpec) -> float:
-    """Elevation of the log depth reference above the TVDSS datum [m].
+def datum_elevation(well: Well, spec: WellSpec,
+                    system: str = "metric") -> tuple[float, str, list[str]]:
+    """Elevation of the log depth reference above the TVDSS datum [m], its source and notes.
 
-    The project file wins; otherwise the first of :data:`DATUM_MNEMONICS` in the
-    LAS ``~Well`` section with a numeric value (unit from the item, or the depth
-    unit of the file if blank).
+    The project file's ``datum_elevation`` wins (a header value that differs from it is
+    noted); otherwise :func:`satheight.datum.datum_from_header` searches the LAS
+    ``~Well`` and ``~Parameter`` sections, refuses items that disagree and notes a
+    ground-level datum.
+
+    Returns
+    -------
+    value : float
+        Elevation [m], positive above the datum.
+    source : str
+        Which item was used, e.g. ``"EKB = 28.5 M (~Well), kelly bushing (...)"``.
+    notes : list[str]
+        For the well's run notes.
     """
-    if spec.datum_elevation is not None:
-        return float(spec.datum_elevation)
-    header = {k.upper(): v for k, v in well.well_header.items()}
-    for mn in DATUM_MNEMONICS:
-        item = header.get(mn)
-        if item is None:
-            continue
-        try:
-            value = float(item.value)
-        except (TypeError, ValueError):
-            continue
-        if not math.isfinite(value):
-            continue
-        unit = item.unit or well.depth_unit
-        try:
-            return float(U.to_si(value, unit, "length"))
-        except SatHeightError as exc:
-            raise SatHeightError(f"datum elevation item {mn} has unit {item.unit!r}: {exc.what}",
-                                 where=str(well.source),
-                                 hint="give datum_elevation for this well in the project file") from None
-    raise SatHeightError(
-        "no datum elevation: the ~Well section has none of " + ", ".join(DATUM_MNEMONICS),
-        where=str(well.source),
-        hint='add datum_elevation = "<KB elevation> m" to this well in the project file')
+    if spec.datum_elevation is None:
+        return datum_from_header(well)
+    value = float(spec.datum_elevation)
+    notes: list[str] = []
+    try:
+        header, source, _ = datum_from_header(well)
+    except SatHeightError:
+        header = None
+    if header is not None and abs(header - value) > DATUM_AGREE_TOLERANCE:
+        notes.append(f"{well.source}: datum elevation {U.shown(value, 'length', system)} from the "
+                     "project file is used; "
+                     f"the LAS header gives {source.split(',')[0]}")
+    return value, "datum_elevation in the project file", notes
+
+
+def require_fwls(project: Project) -> None:
+    """Refuse a project with a zone without an FWL before a run starts (one error, not one
+    per well)."""
+    for zs in project.zones:
+        if zs.fwl is None:
+            raise ProjectFileError(f"zone {zs.name!r} has no fwl: the run needs its free-water "
+                                   "level", where=f"{project.path}, key zones[{zs.name}].fwl",
+                                   hint='give fwl = "<TVDSS> m"; satheight fwl finds it from '
+                                        "the logs, satheight pressures from pressure points")
 
 
 def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.ndarray,
-                   md_to_tvdss=None) -> list[ZoneModel]:
+                   md_to_tvdss=None, need_fwl: bool = True) -> list[ZoneModel]:
     """Engine zones for one well: the well's own tops (MD, turned into TVDSS; or TVDSS
     from the tops file) or the field-wide window.
 
     ``md_to_tvdss``, if given, maps MD [m] to TVDSS [m] (positive down) along the
     well's trajectory and is used for MD tops instead of interpolating between samples.
+    A zone without an FWL is refused when ``need_fwl``; otherwise (the FWL search, which
+    looks for it) its FWL is NaN.
     """
     out = []
     for zs in project.zones:
@@ -120,6 +129,10 @@ def zones_for_well(project: Project, spec: WellSpec, md: np.ndarray, tvdss: np.n
             top, base = zs.top, zs.base
         else:
             continue
+        if zs.fwl is None and zs.name not in spec.fwl:
+            if need_fwl:
+                require_fwls(project)
+            zs = dataclasses.replace(zs, fwl=math.nan)
         fwl, fwl_source = well_fwl(project, spec, zs)   # the well's own or a tilted FWL
         out.append(_zone_model(zs, float(top), float(base), project.path, fwl, fwl_source))
     return out
@@ -169,11 +182,13 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray, v
 
 
 def compute_well(project: Project, spec: WellSpec,
-                 existing: str = "replace") -> tuple[WellResult, list[str]]:
+                 existing: str = "replace", need_fwl: bool = True) -> tuple[WellResult, list[str]]:
     """Load one well and compute everything (no files written).
 
     ``existing``: input curves named like a computed one are dropped (``"replace"``) or
     kept (``"suffix"``: the new ones are renamed when written), with a note.
+    ``need_fwl=False`` (the FWL search) lets zones without an FWL through, with NaN SHM
+    results (see :func:`zones_for_well`).
     """
     well = read_las(spec.las)
     if spec.name:
@@ -202,19 +217,21 @@ def compute_well(project: Project, spec: WellSpec,
         msgs += w3
     vsh = None
     if roles.get("shale"):
-        vsh, w6 = role_values(well, "shale", roles["shale"])
-        msgs += w6
-    elev = datum_elevation(well, spec)
-    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev)
+        vsh, w7 = role_values(well, "shale", roles["shale"])
+        msgs += w7
+    elev, datum_source, w6 = datum_elevation(well, spec, project.unit_system)
+    msgs += w6
+    tvd, north, east, md_to_tvdss, w5 = well_path(spec, well, elev, project.unit_system)
     msgs += w5
     tvdss = tvd - elev  # TVDSS = TVD - datum elevation, positive down
     clash = sorted({"TVD", "NORTH", "EAST"} & {k.upper() for k in well.curves})
     if clash:
         msgs.append("the LAS file already has curve(s) " + ", ".join(clash) + ": kept as read; "
                     "the computed ones are not written (TVDSS is)")
-    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss)
+    zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss, need_fwl)
     for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
-        check_fwl_near_wells(project.path, zn, tvdss, -elev)
+        if not math.isnan(zn.fwl):
+            check_fwl_near_wells(project.path, zn, tvdss, -elev)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
@@ -225,9 +242,9 @@ def compute_well(project: Project, spec: WellSpec,
         sw_log = np.clip(sw_raw, 0.0, 1.0)
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
-                        tvd=tvd, north=north, east=east, survey=spec.survey,
-                        sw_log_unclipped=sw_raw, vsh=vsh)
-    msgs += value_warnings(result)
+                        datum_source=datum_source, tvd=tvd, north=north, east=east,
+                        survey=spec.survey, sw_log_unclipped=sw_raw, vsh=vsh)
+    msgs += value_warnings(result, project.unit_system)
     return result, msgs
 
 
@@ -253,7 +270,7 @@ def pending_tops(project: Project, spec: WellSpec, well_name: str) -> WellSpec:
     return dataclasses.replace(spec, tops=md_tops, tops_tvdss=tv_tops)
 
 
-def well_path(spec: WellSpec, well: Well, elev: float):
+def well_path(spec: WellSpec, well: Well, elev: float, system: str = "metric"):
     """Trajectory of one well at its log samples.
 
     Returns
@@ -265,7 +282,8 @@ def well_path(spec: WellSpec, well: Well, elev: float):
     md_to_tvdss : callable or None
         MD [m] -> TVDSS [m] along the trajectory (None for a vertical well).
     warnings : list[str]
-        Survey notes (added tie-in station, samples below the last station).
+        Survey notes (added tie-in station, samples below the last station; depths in
+        the length unit of ``system``).
     """
     if spec.survey is None:
         tvd, north, east = vertical(well.md)
@@ -275,8 +293,15 @@ def well_path(spec: WellSpec, well: Well, elev: float):
         survey = read_survey(spec.survey, spec.survey_format)
         md0 = float(np.nanmin(well.md)) if well.md.size else None
         traj = survey_trajectory(survey, md0, str(well.source))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")     # said below in the project's length unit
         tvd, north, east = traj.at(well.md)
     msgs = list(survey.warnings) + [str(c.message) for c in caught]
+    below = int(np.count_nonzero(well.md > traj.md[-1] + 1e-9))
+    if below:
+        msgs.append(f"{traj.source or spec.survey}: {below} depths below the last survey station "
+                    f"(MD {U.shown(traj.md[-1], 'length', system)}) were continued straight "
+                    "along the last station's direction")
 
     def md_to_tvdss(md):
         with warnings.catch_warnings():
@@ -366,7 +391,7 @@ def run_parameters(result: WellResult, project: Project) -> list[HeaderItem]:
         items += [HeaderItem("ARCHIE_A", "", c.a, "Archie tortuosity factor a"),
                   HeaderItem("ARCHIE_M", "", c.m, "Archie cementation exponent m"),
                   HeaderItem("ARCHIE_N", "", c.n, "Archie saturation exponent n"),
-                  HeaderItem("RW", "ohm.m", c.rw, "Formation-water resistivity at formation temperature")]
+                  HeaderItem("ARCHIE_RW", "ohm.m", c.rw, "Archie formation-water resistivity at formation temperature")]
     for i, zn in enumerate(result.zones, start=1):
         p = f"Z{i}_"
         items += [
@@ -415,32 +440,37 @@ def _model_file_parameters(project: Project, zn: ZoneModel, p: str, i: int) -> l
             HeaderItem(p + "ROCK", "", rock, f"Zone {i} rock type of the model file")]
 
 
-def value_warnings(result: WellResult) -> list[str]:
+def value_warnings(result: WellResult, system: str = "metric") -> list[str]:
     """Notes on zones of one well whose values give no or one-sided SHM results.
 
     One note per zone that: holds no sample of the well; has its FWL at or above its
     shallowest sample (the whole zone is at or below the FWL: Sw = 1 throughout); has
     its FWL below its deepest sample (no sample reaches the FWL: normal for an
     undrilled contact, noted so it is seen); or has no sample with a usable porosity
-    and permeability (no SHM Sw at all). Depths in the notes are TVDSS [m].
+    and permeability (no SHM Sw at all). Depths in the notes are TVDSS in the length
+    unit of ``system`` (the project's unit system).
     """
     out: list[str] = []
     src = result.well.source
     z = np.asarray(result.tvdss, dtype=float)
     shm = result.shm
+
+    def d(v: float) -> str:
+        return U.shown(v, "length", system)
+
     for i, zn in enumerate(result.zones):
         m = shm.zone == i
         if not m.any():
-            out.append(f"{src}: zone {zn.name!r} ({zn.top:.2f} to {zn.base:.2f} m TVDSS) holds no "
+            out.append(f"{src}: zone {zn.name!r} ({d(zn.top)} to {d(zn.base)} TVDSS) holds no "
                        "sample of this well")
             continue
         shallow, deep = float(z[m].min()), float(z[m].max())
         if zn.fwl <= shallow:
-            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies at or above "
-                       f"its shallowest sample ({shallow:.2f} m): Sw = 1 throughout the zone")
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({d(zn.fwl)} TVDSS) lies at or above "
+                       f"its shallowest sample ({d(shallow)}): Sw = 1 throughout the zone")
         elif zn.fwl > deep:
-            out.append(f"{src}: zone {zn.name!r}: the FWL ({zn.fwl:.2f} m TVDSS) lies below its "
-                       f"deepest sample ({deep:.2f} m): every sample is above the FWL")
+            out.append(f"{src}: zone {zn.name!r}: the FWL ({d(zn.fwl)} TVDSS) lies below its "
+                       f"deepest sample ({d(deep)}): every sample is above the FWL")
         if not np.isfinite(shm.sw[m]).any():
             out.append(f"{src}: zone {zn.name!r}: no sample has a usable porosity and "
                        "permeability, so no SHM Sw (see SHM_FLAG)")
