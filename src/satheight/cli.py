@@ -335,6 +335,10 @@ def _common_run_options(sp):
     sp.add_argument("--workers", metavar="N|auto", type=_workers, default=1,
                     help="run N wells at a time in separate processes (default 1; auto: one per "
                          "available core)")
+    sp.add_argument("--scheduler", metavar="ADDRESS", default=None,
+                    help="run the wells on the Dask cluster at ADDRESS (e.g. tcp://host:8786; "
+                         "needs pip install satheight[dask]; the output folder must be shared "
+                         "with its workers)")
     _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
@@ -481,7 +485,8 @@ def _dispatch(args) -> int:
                          depth_axis=args.depth_axis, workers=args.workers,
                          keep_results=False, overwrite=args.overwrite,
                          progress=progress_wanted(sys.stderr, args.quiet),
-                         plot_interval="all" if args.whole_log else "zones")
+                         plot_interval="all" if args.whole_log else "zones",
+                         scheduler=args.scheduler)
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK
