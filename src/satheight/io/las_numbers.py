@@ -67,7 +67,10 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
             width = max(width, max(len(t) for t in slow_text))
         if not finite.all():
             width = max(width, len(null_b))
-    out = np.full((n, width), _SPACE, dtype=np.uint8)
+    # built column by column in a (width, n) array (each column one contiguous row of
+    # it), returned as its (n, width) transposed view
+    out_t = np.full((width, n), _SPACE, dtype=np.uint8)
+    out = out_t.T
     if n == 0 or width == 0:
         return out
     # all digits from the right (leading zeros included), the decimal point before
@@ -80,10 +83,10 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         if col < 0:
             break
         m, digit = np.divmod(m, 10)
-        out[:, col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
+        out_t[col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
         col -= 1
         if decimals and d == decimals - 1 and col >= 0:
-            out[:, col] = _DOT
+            out_t[col] = _DOT
             col -= 1
     sel = np.flatnonzero(neg & ~slow)
     out[sel, first[sel]] = _MINUS
@@ -162,7 +165,8 @@ def format_general(values: np.ndarray, precision: int = 10) -> np.ndarray:
 def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536):
     """Data lines of a CSV file, ``"%.{precision}g"`` numbers, empty cells for NaN.
 
-    Yields ASCII text blocks of whole lines (``a,b,c\\n``), ``chunk`` rows at a time.
+    Yields ASCII bytes of whole lines (``a,b,c\\n``), ``chunk`` rows at a time (bytes:
+    the caller writes them to a binary file without decoding and encoding again).
     """
     n = columns[0].size if columns else 0
     for a in range(0, n, chunk):
@@ -177,4 +181,4 @@ def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536)
             buf[:, pos] = ord(",") if i < len(cells) - 1 else ord("\n")
             pos += 1
         flat = buf.ravel()
-        yield flat[flat != ord(" ")].tobytes().decode("ascii")
+        yield flat[flat != ord(" ")].tobytes()
