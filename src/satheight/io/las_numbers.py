@@ -21,6 +21,22 @@ _DIGITS = np.frombuffer(b"0123456789", dtype=np.uint8)
 _SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
 
 
+#: ASCII of the two digits of 0..99, tens first.
+_PAIRS = np.array([[ord(str(i // 10)), ord(str(i % 10))] for i in range(100)], dtype=np.uint8)
+
+
+def _digits(mag: np.ndarray, count: int):
+    """The ``count`` lowest decimal digits of each non-negative integer, as ASCII, last digit
+    first; two at a time (one integer division per pair)."""
+    m = mag.copy()
+    for _ in range(count // 2):
+        m, r = np.divmod(m, 100)
+        yield _PAIRS[r, 1]
+        yield _PAIRS[r, 0]
+    if count % 2:
+        yield _DIGITS[m % 10]
+
+
 def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
     """Fixed-point text of each value, right-aligned, as a ``(n, width)`` uint8 array.
 
@@ -76,14 +92,12 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
     # all digits from the right (leading zeros included), the decimal point before
     # the last `decimals` digits; then blanks over the leading zeros and the sign
     first = width - text_len                      # first column of each text
-    m = mag.copy()
     col = width - 1
-    max_digits = int(n_digits.max(initial=0))
-    for d in range(max_digits):
+    full = width - int(text_len.min())            # columns from here on hold a digit in every row
+    for d, digit in enumerate(_digits(mag, int(n_digits.max(initial=0)))):
         if col < 0:
             break
-        m, digit = np.divmod(m, 10)
-        out_t[col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
+        out_t[col] = digit if col >= full else np.where(first <= col, digit, np.uint8(_SPACE))
         col -= 1
         if decimals and d == decimals - 1 and col >= 0:
             out_t[col] = _DOT
