@@ -14,6 +14,10 @@ fresh Python process so that peak memories do not mix:
 * one well end to end (load, compute, write LAS/CSV/JSON; no plots) vs load
   alone and vs load + write;
 * a 200-well project end to end with 2 worker processes vs 1 (wall time, peak memory).
+* the demo run with plots vs without, and the bench well's track plot vs lasio's read;
+* the 2-worker gain over a pure CPU task's gain in the same run (``project.efficiency``);
+* with Dask installed, the project on a local Dask cluster vs the process pool, outputs
+  compared byte by byte (``dask.ratio``, ``dask.identical``).
 
 Times are the best of a few repeats (``--quick``: one, smaller sizes, well under a
 minute). Peak memory is the growth of the process's peak resident set during the
@@ -26,7 +30,7 @@ compared between machines. Nothing here is part of the test suite.
 from __future__ import annotations
 
 import argparse
-import gc
+import importlib.util
 import json
 import os
 import resource
@@ -41,6 +45,10 @@ if (ROOT / "src" / "satheight").is_dir():
     sys.path.insert(0, str(ROOT / "src"))
 
 import numpy as np  # noqa: E402
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from bench_measure import _measure, _peak_mb  # noqa: E402
+from bench_scale import case_dask, case_plots  # noqa: E402
 
 FULL = {"rows": 500_000, "engine": 10_000_000, "wells": 200, "well_rows": 20_000, "repeat": 3,
         "mc_rows": 20_000, "mc_realisations": 1000}
@@ -130,12 +138,18 @@ MC_MEMORY_MB = 256
 # inputs
 # ---------------------------------------------------------------------------
 
+def depth_step(n: int) -> float:
+    """Sample step [m]: 0.1524 m (half a foot), or 0.01524 m where ``n`` samples at 0.1524 m
+    would go deeper than the plausible depths (500,000 samples: 7.6 km, not 76 km)."""
+    return 0.1524 if n * 0.1524 <= 7700.0 else 0.01524
+
+
 def synthetic_well(n: int, seed: int, name: str, top: float = 1500.0):
-    """An invented well of ``n`` samples at 0.1524 m with the CURVES above."""
+    """An invented well of ``n`` samples (:func:`depth_step`) with the CURVES above."""
     from satheight.well import Curve, HeaderItem, Well
 
     rng = np.random.default_rng(seed)
-    depth = np.round(top + 0.1524 * np.arange(n), 4)
+    depth = np.round(top + depth_step(n) * np.arange(n), 5)
 
     def walk(lo, hi, step):
         x = np.cumsum(rng.normal(0, step, n))
@@ -170,7 +184,7 @@ def write_well(path: Path, n: int, seed: int, name: str) -> None:
 
 
 def write_project(folder: Path, files: list[str], rows: int) -> Path:
-    top, bottom = 1500.0 - 25.0, 1500.0 + 0.1524 * rows - 25.0        # TVDSS of the wells
+    top, bottom = 1500.0 - 25.0, 1500.0 + depth_step(rows) * rows - 25.0   # TVDSS of the wells
     mid = top + 0.55 * (bottom - top)
     zones = ZONES.format(t1=round(top + 0.05 * (bottom - top), 2), b1=round(mid, 2),
                          f1=round(top + 0.45 * (bottom - top), 2), b2=round(bottom + 1, 2),
@@ -227,51 +241,6 @@ def build_inputs(folder: Path, sizes: dict) -> dict:
 # ---------------------------------------------------------------------------
 # measured cases (each run in its own process by the parent)
 # ---------------------------------------------------------------------------
-
-def _status_mb(key: str) -> float | None:
-    """A memory figure of this process from /proc/self/status [MB] (Linux), or None."""
-    try:
-        for line in Path("/proc/self/status").read_text().splitlines():
-            if line.startswith(key + ":"):
-                return int(line.split()[1]) / 1024.0
-    except (OSError, ValueError, IndexError):
-        pass
-    return None
-
-
-def _peak_mb() -> float:
-    """Peak resident memory of this program [MB].
-
-    ``VmHWM`` counts from the start of this program only (``ru_maxrss`` would
-    include the parent's memory at the time it forked this process).
-    """
-    hwm = _status_mb("VmHWM")
-    return hwm if hwm is not None else resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
-
-
-def _reset_peak() -> float:
-    """Reset the peak to the current resident memory where Linux allows it; return the base."""
-    try:
-        with open("/proc/self/clear_refs", "w") as f:
-            f.write("5")
-        return _status_mb("VmRSS") or _peak_mb()
-    except OSError:
-        return _peak_mb()
-
-
-def _measure(fn, repeat: int) -> dict:
-    """Best time of ``repeat`` calls; growth of the peak RSS over the start."""
-    gc.collect()
-    base = _reset_peak()
-    times = []
-    for _ in range(repeat):
-        t = time.perf_counter()
-        out = fn()
-        times.append(time.perf_counter() - t)
-        del out
-        gc.collect()
-    return {"seconds": min(times), "peak_mb": _peak_mb() - base, "base_mb": base}
-
 
 def _new_curves(n: int):
     from satheight.well import Curve
@@ -440,8 +409,9 @@ def case_montecarlo(args) -> dict:
     return res
 
 
-CASES = {"montecarlo": case_montecarlo, "cores": case_cores, "read": case_read, "write": case_write, "engine": case_engine, "well": case_well,
-         "project": case_project}
+CASES = {"montecarlo": case_montecarlo, "cores": case_cores, "read": case_read,
+         "write": case_write, "engine": case_engine, "well": case_well, "project": case_project,
+         "plots": case_plots, "dask": case_dask}
 
 
 def _run_case(name: str, **kw) -> dict:
@@ -513,11 +483,23 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
     well = _run_case("well", project=inputs["one_project"], warm_project=inputs["warm_project"],
                      out=folder / "well_out", repeat=rep)
     load, write, e2e = (well[k]["seconds"] for k in ("load", "write", "e2e"))
-    fig["well"] = dict(well, ratio_load_write=e2e / (load + write), ratio_load=e2e / load)
+    lasio_read = fig["read"]["lasio"]["seconds"]
+    fig["well"] = dict(well, ratio_load_write=e2e / (load + write), ratio_load=e2e / load,
+                       ratio_lasio_read=e2e / lasio_read)
     say(f"one well end to end ({rows} rows; load, compute, write LAS+CSV+JSON, no plots): "
         f"{e2e:.2f} s; load {load:.2f} s, write {write:.2f} s -> "
         f"{fig['well']['ratio_load_write']:.2f}x load+write (target <= 1.5x), "
-        f"{fig['well']['ratio_load']:.2f}x load alone")
+        f"{fig['well']['ratio_load']:.2f}x load alone, {fig['well']['ratio_lasio_read']:.2f}x "
+        f"lasio's read of the file (target <= 0.3x)")
+
+    pl = _run_case("plots", project=inputs["one_project"], out=folder / "plots_out", repeat=rep)
+    with_p, without = pl["demo_plots"]["seconds"], pl["demo_no_plots"]["seconds"]
+    fig["plots"] = dict(pl, ratio=with_p / without,
+                        track_ratio_lasio_read=pl["track"]["seconds"] / lasio_read)
+    say(f"demo run with plots {with_p:.2f} s, without {without:.2f} s -> "
+        f"{fig['plots']['ratio']:.2f}x (target <= 3x); track plot of the {rows}-row well "
+        f"{pl['track']['seconds']:.2f} s -> {fig['plots']['track_ratio_lasio_read']:.2f}x "
+        f"lasio's read (target <= 0.2x)")
 
     mc_in = build_mc_inputs(folder, sizes)
     mc = _run_case("montecarlo", project=mc_in["mc_project"], mc_project=mc_in["mc_unc_project"],
@@ -537,14 +519,24 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
     peak2 = two["peak_mb"] + 2 * two["child_peak_mb"]       # parent + two workers (upper bound)
     fig["project"] = {"workers_1": one, "workers_2": two,
                       "speed_ratio": one["seconds"] / two["seconds"],
-                      "memory_ratio": peak2 / peak1}
+                      "memory_ratio": peak2 / peak1,
+                      "efficiency": (one["seconds"] / two["seconds"]) / fig["cores"]["ratio"]}
     say(f"project {sizes['wells']} wells x {sizes['well_rows']} rows, no plots: 2 workers "
         f"{two['seconds']:.1f} s, 1 worker {one['seconds']:.1f} s -> "
         f"{fig['project']['speed_ratio']:.2f}x faster on 2 cores (a pure CPU task gained "
-        f"{fig['cores']['ratio']:.2f}x from a second process on this machine at this time)")
+        f"{fig['cores']['ratio']:.2f}x from a second process on this machine at this time) -> "
+        f"efficiency {fig['project']['efficiency']:.2f} (target >= 0.8)")
     say(f"project peak memory: 2 workers {peak2:.0f} MB (parent {two['peak_mb']:.0f} + 2 x "
         f"{two['child_peak_mb']:.0f}), 1 worker {peak1:.0f} MB -> "
         f"{fig['project']['memory_ratio']:.2f}x")
+    if importlib.util.find_spec("distributed") is None:   # optional extra satheight[dask]
+        say("Dask not installed (pip install satheight[dask]): dask.ratio not measured")
+    else:
+        dk = _run_case("dask", project=inputs["field_project"], out=folder / "pd",
+                       file=folder / "p2")
+        fig["dask"] = dict(dk, ratio=dk["seconds"] / two["seconds"])
+        say(f"same project on a local Dask cluster (2 worker processes): {dk['seconds']:.1f} s -> "
+            f"{fig['dask']['ratio']:.2f}x the 2-process pool; outputs identical: {dk['identical']}")
     say(f"total benchmark time {time.perf_counter() - t0:.0f} s")
     return fig
 

@@ -365,6 +365,10 @@ def _common_run_options(sp):
                     help="input LAS curves named like a computed curve (TVDSS, SW_SHM... of an "
                          "earlier run's output): replace them with a note (default), or keep "
                          "them and give the new curves a suffix (TVDSS_2)")
+    sp.add_argument("--scheduler", metavar="ADDRESS", default=None,
+                    help="run the wells on the Dask cluster at ADDRESS (e.g. tcp://host:8786; "
+                         "needs pip install satheight[dask]; the output folder must be shared "
+                         "with its workers)")
     _overwrite_option(sp)
     sp.add_argument("--verbose", action="store_true", default=argparse.SUPPRESS,
                     help="print full details (tracebacks) of errors")
@@ -524,7 +528,7 @@ def _dispatch(args) -> int:
                          keep_results=False, overwrite=args.overwrite,
                          progress=progress_wanted(sys.stderr, args.quiet),
                          plot_interval="all" if args.whole_log else "zones",
-                         existing=args.existing)
+                         existing=args.existing, scheduler=args.scheduler)
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK

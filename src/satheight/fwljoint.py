@@ -24,7 +24,6 @@ from dataclasses import dataclass, field
 from typing import Sequence
 
 import numpy as np
-from scipy.optimize import minimize
 
 from .errors import SatHeightError
 from .blockboot import auto_block_length, block_weights, bootstrap_interval, grid_minima
@@ -131,6 +130,8 @@ def fit_point(samples: Sequence[ZoneSamples], params: dict[str, tuple[float, flo
     bounds = [tuple(map(float, fwl_bounds))] + [tuple(map(float, params[p])) for p in names]
     x0 = np.array([fwl_start if fwl_start is not None else 0.5 * sum(fwl_bounds)]
                   + [float(np.clip(base[p], *params[p])) for p in names])
+    from scipy.optimize import minimize  # lazily: scipy costs ~0.4 s at start
+
     res = minimize(objective, x0, method="Powell", bounds=bounds,
                    options={"xtol": 1e-4, "ftol": 1e-10, "maxfev": 4000})
     x = np.asarray(res.x, float)

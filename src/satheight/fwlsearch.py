@@ -34,7 +34,6 @@ import math
 from typing import Sequence
 
 import numpy as np
-from scipy.optimize import minimize_scalar
 
 from .blockboot import block_weights, bootstrap_interval, grid_minima
 from .errors import SatHeightError
@@ -193,6 +192,8 @@ def _refine(grid, fun_profile, fun_point) -> tuple[float, float]:
     a, b = grid[max(i - 1, 0)], grid[min(i + 1, grid.size - 1)]
     if b <= a:
         return float(grid[i]), float(fun_profile[i])
+    from scipy.optimize import minimize_scalar  # lazily: scipy costs ~0.4 s at start
+
     r = minimize_scalar(fun_point, bounds=(a, b), method="bounded", options={"xatol": 1e-3})
     if r.fun <= fun_profile[i]:
         return float(r.x), float(r.fun)

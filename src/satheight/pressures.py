@@ -23,7 +23,6 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
-from scipy import stats
 
 from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
@@ -295,6 +294,8 @@ def _fit_rejecting(z, p, idx, gradient, reject, alpha, resolution, min_points):
 
     Returns (the :func:`_ols` tuple, used indices, rejected indices as a list).
     """
+    from scipy import stats  # lazily: scipy.stats costs ~0.4 s at start
+
     n_par = 1 if gradient is not None else 2
     used = idx.copy()
     rejected: list[int] = []
@@ -383,6 +384,8 @@ def intersect(dense: LineFit, light: LineFit, kind: str = "FWL", level: float = 
         return Level(kind, float(z), None, None, None, (dense.fluid, light.fluid))
     se = float(np.sqrt(max(var, 0.0)))
     dof = min(d for d in (dense.dof, light.dof))
+    from scipy import stats  # lazily: scipy.stats costs ~0.4 s at start
+
     q = float(stats.t.ppf(0.5 + level / 2, dof)) if dof > 0 else float("nan")
     if not np.isfinite(q):
         return Level(kind, float(z), se, None, None, (dense.fluid, light.fluid))

@@ -36,6 +36,7 @@ callers that know them under this module.
 
 from __future__ import annotations
 
+import functools
 import io
 import os
 import re
@@ -233,19 +234,17 @@ def _read(raw: bytes, offset: int, n_columns: int, comments: bool, dtype, end: i
     kwargs = dict(sep=r"\s+", header=None, names=list(range(n_columns)), engine="c",
                   na_filter=False, skip_blank_lines=True, comment="#" if comments else None,
                   dtype=dtype)
-    if _OLD_PANDAS:
+    if _pandas_before_3_1():
         kwargs["float_precision"] = "round_trip"
     return pd.read_csv(buf, **kwargs)
 
 
+@functools.cache
 def _pandas_before_3_1() -> bool:
     import pandas as pd
 
     parts = re.findall(r"\d+", pd.__version__)[:2]
     return tuple(int(p) for p in parts) < (3, 1)
-
-
-_OLD_PANDAS = _pandas_before_3_1()
 
 
 @dataclass
@@ -327,7 +326,7 @@ def _read_part(raw: bytes, begin: int, end: int, n_columns: int, comments: bool,
     kwargs = dict(sep=r"\s+", header=None, names=list(range(n_columns)), engine="c",
                   na_filter=False, skip_blank_lines=True, comment="#" if comments else None,
                   dtype=np.float64, chunksize=ROWS_PER_STEP, low_memory=False)
-    if _OLD_PANDAS:
+    if _pandas_before_3_1():
         kwargs["float_precision"] = "round_trip"
     from pandas.errors import EmptyDataError
 

@@ -21,6 +21,22 @@ _DIGITS = np.frombuffer(b"0123456789", dtype=np.uint8)
 _SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
 
 
+#: ASCII of the two digits of 0..99, tens first.
+_PAIRS = np.array([[ord(str(i // 10)), ord(str(i % 10))] for i in range(100)], dtype=np.uint8)
+
+
+def _digits(mag: np.ndarray, count: int):
+    """The ``count`` lowest decimal digits of each non-negative integer, as ASCII, last digit
+    first; two at a time (one integer division per pair)."""
+    m = mag.copy()
+    for _ in range(count // 2):
+        m, r = np.divmod(m, 100)
+        yield _PAIRS[r, 1]
+        yield _PAIRS[r, 0]
+    if count % 2:
+        yield _DIGITS[m % 10]
+
+
 def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
     """Fixed-point text of each value, right-aligned, as a ``(n, width)`` uint8 array.
 
@@ -67,23 +83,24 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
             width = max(width, max(len(t) for t in slow_text))
         if not finite.all():
             width = max(width, len(null_b))
-    out = np.full((n, width), _SPACE, dtype=np.uint8)
+    # built column by column in a (width, n) array (each column one contiguous row of
+    # it), returned as its (n, width) transposed view
+    out_t = np.full((width, n), _SPACE, dtype=np.uint8)
+    out = out_t.T
     if n == 0 or width == 0:
         return out
     # all digits from the right (leading zeros included), the decimal point before
     # the last `decimals` digits; then blanks over the leading zeros and the sign
     first = width - text_len                      # first column of each text
-    m = mag.copy()
     col = width - 1
-    max_digits = int(n_digits.max(initial=0))
-    for d in range(max_digits):
+    full = width - int(text_len.min())            # columns from here on hold a digit in every row
+    for d, digit in enumerate(_digits(mag, int(n_digits.max(initial=0)))):
         if col < 0:
             break
-        m, digit = np.divmod(m, 10)
-        out[:, col] = np.where(first <= col, _DIGITS[digit], np.uint8(_SPACE))
+        out_t[col] = digit if col >= full else np.where(first <= col, digit, np.uint8(_SPACE))
         col -= 1
         if decimals and d == decimals - 1 and col >= 0:
-            out[:, col] = _DOT
+            out_t[col] = _DOT
             col -= 1
     sel = np.flatnonzero(neg & ~slow)
     out[sel, first[sel]] = _MINUS
@@ -162,7 +179,8 @@ def format_general(values: np.ndarray, precision: int = 10) -> np.ndarray:
 def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536):
     """Data lines of a CSV file, ``"%.{precision}g"`` numbers, empty cells for NaN.
 
-    Yields ASCII text blocks of whole lines (``a,b,c\\n``), ``chunk`` rows at a time.
+    Yields ASCII bytes of whole lines (``a,b,c\\n``), ``chunk`` rows at a time (bytes:
+    the caller writes them to a binary file without decoding and encoding again).
     """
     n = columns[0].size if columns else 0
     for a in range(0, n, chunk):
@@ -177,4 +195,4 @@ def csv_rows(columns: list[np.ndarray], precision: int = 10, chunk: int = 65536)
             buf[:, pos] = ord(",") if i < len(cells) - 1 else ord("\n")
             pos += 1
         flat = buf.ravel()
-        yield flat[flat != ord(" ")].tobytes().decode("ascii")
+        yield flat[flat != ord(" ")].tobytes()

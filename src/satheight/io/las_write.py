@@ -88,7 +88,7 @@ def _write_rows(f, columns: Sequence[np.ndarray], widths: Sequence[int]) -> None
             end += w if i == 0 else 1 + w
             buf[:, end - col.shape[1]:end] = col[a:b]
         buf[:, -1] = ord("\n")
-        f.write(buf.tobytes().decode("ascii"))
+        f.write(buf.tobytes())
 
 
 def _file_mnemonic(key: str, all_keys: Sequence[str]) -> str:
@@ -280,14 +280,15 @@ def write_las(path, well: Well, new_curves: Sequence[Curve] = (),
     header = _header_text(well, all_curves, labels, parameters, extra_other, index_text,
                           depth_step(all_data[0], dec[0]), dec[0], null_text)
 
-    with atomic_open(path, "w", encoding="utf-8", newline="\n") as f:
-        f.write(header)
+    with atomic_open(path, "wb") as f:          # bytes: the rows are ASCII arrays already
+        f.write(header.encode("utf-8"))
         columns = [index_text] + [_format_column(d, k, null_text)
                                   for d, k in zip(all_data[1:], dec[1:])]
         widths = [max(col.shape[1], len(lab)) for col, lab in zip(columns, labels)]
         widths[0] = max(widths[0], len(labels[0]) + 3)      # room for "~A " before the first label
-        f.write("~A" + f"{labels[0]:>{widths[0] - 2}}"
-                + "".join(f" {lab:>{w}}" for lab, w in zip(labels[1:], widths[1:])) + "\n")
+        f.write(("~A" + f"{labels[0]:>{widths[0] - 2}}"
+                 + "".join(f" {lab:>{w}}" for lab, w in zip(labels[1:], widths[1:]))
+                 + "\n").encode("utf-8"))
         _write_rows(f, columns, widths)
 
 

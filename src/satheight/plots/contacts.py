@@ -13,9 +13,12 @@ state) and are returned; the caller writes them.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from ..fwlsearch import FwlSearch
 from ..pressures import ZonePressures
@@ -33,6 +36,9 @@ _FLUID_MARKERS = {"water": "o", "oil": "s", "gas": "^", "unknown": "x"}
 
 
 def _figure(figsize) -> Figure:
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
     fig = Figure(figsize=figsize, dpi=DPI)
     FigureCanvasAgg(fig)
     return fig

@@ -14,9 +14,12 @@ state) and are returned; the caller writes them.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from .. import constants as C
 from ..coreplugs import CorePoints
@@ -35,6 +38,9 @@ def _colours(names):
 
 
 def _figure(figsize) -> Figure:
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
     fig = Figure(figsize=figsize, dpi=DPI)
     FigureCanvasAgg(fig)
     return fig

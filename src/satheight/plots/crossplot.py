@@ -14,11 +14,12 @@ so a run keeps only that between wells; :func:`zone_crossplot` returns the figur
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING
 
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
-from matplotlib.lines import Line2D
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from ..engine import compute_shm
 from ..errors import UnitError
@@ -146,6 +147,8 @@ def _rock_label(zone, phi: float, root: float) -> str:
 
 def _scatter(ax_h, ax_j, wells, masks, scale: float) -> list:
     """Every well's log Sw against height and J; legend handles of the wells."""
+    from matplotlib.lines import Line2D
+
     handles = []
     for i, (w, m) in enumerate(zip(wells, masks)):  # one pass per well
         if not m.any():
@@ -166,6 +169,8 @@ def _scatter(ax_h, ax_j, wells, masks, scale: float) -> list:
 
 def _draw_models(ax_h, ax_j, zone, wells, masks, scale: float, h_top: float, roots) -> list:
     """Model Sw(h) per sqrt(k/phi) class and Sw(J) per function; legend handles."""
+    from matplotlib.lines import Line2D
+
     handles = []
     phis = np.concatenate([w.phi[m] for w, m in zip(wells, masks)] or [np.empty(0)])
     phis = phis[np.isfinite(phis) & (phis > 0) & (phis <= 1)]
@@ -216,6 +221,9 @@ def zone_crossplot(zone, wells, units: str = "metric", roots=None, page: str = "
     -------
     matplotlib.figure.Figure
     """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
     if units not in UNIT_SYSTEMS:
         raise UnitError(f"unknown unit system {units!r}", where="units",
                         hint="use 'metric' (m) or 'field' (ft)")

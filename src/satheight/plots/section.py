@@ -6,13 +6,12 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
-from matplotlib import colormaps
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.cm import ScalarMappable
-from matplotlib.collections import LineCollection
-from matplotlib.colors import Normalize
-from matplotlib.figure import Figure
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from ..errors import DepthError, UnitError
 from ..units import UNIT_SYSTEMS, factor
@@ -96,6 +95,8 @@ def section_positions(results, locations=None) -> tuple[list[np.ndarray], bool, 
 
 def _draw_well(ax, r, x, scale, cmap, norm, zone_tops, fwls) -> None:
     """One well's path coloured by SHM Sw, its name, and ticks at its zone tops and bases."""
+    from matplotlib.collections import LineCollection
+
     z = np.asarray(r.tvdss, float)
     ok = np.isfinite(x) & np.isfinite(z)
     xs, zs = x[ok] / scale, z[ok] / scale
@@ -178,6 +179,12 @@ def section_plot(results, units: str = "metric", locations=None,
     DepthError
         No well, or no well with any finite TVDSS.
     """
+    from matplotlib import colormaps
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.cm import ScalarMappable
+    from matplotlib.colors import Normalize
+    from matplotlib.figure import Figure
+
     if units not in UNIT_SYSTEMS:
         raise UnitError(f"unknown unit system {units!r}", where="section_plot units",
                         hint="use 'metric' or 'field'")

@@ -9,11 +9,10 @@ caller's job.
 
 from __future__ import annotations
 
-from typing import Sequence
+from typing import TYPE_CHECKING, Sequence
 
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
-from matplotlib.patches import Patch
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from ..uncertainty import TornadoBar
 from .text import safe_text
@@ -40,6 +39,10 @@ def tornado_figure(base: float, bars: Sequence[TornadoBar], title: str = "",
     length_unit, length_factor : str, float
         Unit of the axis and metres per unit.
     """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+    from matplotlib.patches import Patch
+
     shown = list(bars)[:max_bars]
     fig = Figure(figsize=(7.5, 1.2 + 0.38 * max(len(shown), 1)))
     FigureCanvasAgg(fig)

@@ -18,12 +18,12 @@ the caller's job.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
-from matplotlib.collections import LineCollection
-from matplotlib.ticker import MultipleLocator, NullLocator
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from ..errors import DepthError, SatHeightError, UnitError
 from ..results import WellResult
@@ -198,6 +198,8 @@ MINOR_TICKS_GID = "depth minor ticks"
 
 def _minor_ticks(ax, top: float, base: float, minor: float, major: float) -> None:
     """Short tick marks every ``minor`` step on the depth scale, outside the track's left edge."""
+    from matplotlib.collections import LineCollection
+
     ys = np.arange(np.ceil(top / minor) * minor, base + minor * 1e-9, minor)
     ys = ys[np.abs(np.remainder(ys + 0.5 * minor, major) - 0.5 * minor) > 1e-6 * minor]
     length = 2.0 / 72.0 / (ax.get_position().width * ax.figure.get_size_inches()[0])  # 2 pt
@@ -209,6 +211,8 @@ def _minor_ticks(ax, top: float, base: float, minor: float, major: float) -> Non
 
 def _depth_grid(ax, top: float, base: float, minor: float, major: float) -> None:
     """Horizontal grid lines at every minor and major depth step, as two line collections."""
+    from matplotlib.collections import LineCollection
+
     for step, lw in ((minor, 0.3), (major, 0.7)):
         ys = np.arange(np.ceil(top / step) * step, base + step * 1e-9, step)
         segs = np.stack([np.column_stack([np.zeros_like(ys), ys]),
@@ -220,6 +224,10 @@ def _depth_grid(ax, top: float, base: float, minor: float, major: float) -> None
 def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
            interval: str, page: str) -> Frame:
     """The figure with one axes per track sharing the depth scale (depth down)."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+    from matplotlib.ticker import MultipleLocator, NullLocator
+
     length_unit = UNIT_SYSTEMS[units]["length"]
     scale = factor(length_unit, "length")  # display unit -> m
     y_si = md if depth_axis == "md" else tvdss
@@ -266,6 +274,8 @@ def _depth_scales(f: Frame, units: str) -> None:
     and labels every 50 m (50 ft and 100 ft in field units) on its own values, so the
     two sets of numbers never sit between each other's ticks.
     """
+    from matplotlib.ticker import MultipleLocator, NullLocator
+
     first = next(iter(f.axes.values()))
     primary = "MD" if f.depth_axis == "md" else "TVDSS"
     other = "TVDSS" if f.depth_axis == "md" else "MD"

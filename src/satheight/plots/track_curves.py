@@ -3,10 +3,6 @@
 from __future__ import annotations
 
 import numpy as np
-from matplotlib.collections import LineCollection
-from matplotlib.lines import Line2D
-from matplotlib.patches import Patch
-from matplotlib.ticker import MaxNLocator
 
 from .. import constants as C
 from ..results import FLAG_NO_ZONE
@@ -32,6 +28,8 @@ _FLAG = "#333333"
 
 
 def draw_gr(f: Frame, gr) -> None:
+    from matplotlib.lines import Line2D
+
     curve, data = gr
     data = f.take(data)
     r = finite_range(data)
@@ -46,6 +44,8 @@ def draw_gr(f: Frame, gr) -> None:
 
 def draw_phik(f: Frame, phi, k) -> None:
     """Porosity [fraction] and permeability [m^2, drawn in mD on a log scale]."""
+    from matplotlib.lines import Line2D
+
     ax = f.axes["phik"]
     tw = twin(ax)  # before the header: twiny moves the original scale to the bottom
     header(ax, "Porosity [fraction]", BLUE, *PHI_RANGE, ticks=[0.0, 0.1, 0.2, 0.3, 0.4])
@@ -59,6 +59,9 @@ def draw_phik(f: Frame, phi, k) -> None:
 
 
 def draw_rt(f: Frame, rt, name: str) -> None:
+    from matplotlib.collections import LineCollection
+    from matplotlib.lines import Line2D
+
     ax = f.axes["rt"]
     header(ax, f"Resistivity {safe_text(name, 12)} [ohm.m]", BLACK, *RT_RANGE, log=True,
            ticks=[0.2, 2.0, 20.0, 200.0, 2000.0])
@@ -88,6 +91,9 @@ def draw_sw(f: Frame, sw, sw_log, source: str, kind) -> None:
     (1 - SHM Sw) is shaded pale by fluid; where log Sw lies above SHM Sw the gap is
     shaded sky blue (log wetter than the model), where below, vermilion (log drier).
     """
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Patch
+
     ax = f.axes["sw"]
     header(ax, "Water saturation [fraction]", BLACK, 0.0, 1.0, ticks=[0.0, 0.25, 0.5, 0.75, 1.0])
     sw_ok = np.isfinite(sw) & np.isfinite(f.y)
@@ -114,6 +120,8 @@ def draw_sw(f: Frame, sw, sw_log, source: str, kind) -> None:
 
 def draw_flags(f: Frame, flag) -> None:
     """Flag strip at the left edge of the Sw track: x in axes fraction, y in data."""
+    from matplotlib.patches import Patch
+
     ax = f.axes["sw"]
     flag = int_array(flag, 0)
     only_no_zone = flag == FLAG_NO_ZONE
@@ -129,6 +137,8 @@ def draw_flags(f: Frame, flag) -> None:
 
 def draw_points(f: Frame, key: str, y, values, label: str, colour: str, marker: str) -> None:
     """Measured points (core plug Sw, formation pressures) as markers on a track."""
+    from matplotlib.lines import Line2D
+
     ax = f.axes[key]
     ax.plot(values, y, ls="none", marker=marker, ms=5, mfc=colour, mec=BLACK, mew=0.6,
             zorder=5, clip_on=True)
@@ -138,6 +148,8 @@ def draw_points(f: Frame, key: str, y, values, label: str, colour: str, marker: 
 
 def draw_pressure_header(f: Frame, values, unit: str) -> None:
     """Scale of the pressure track from the points shown [display unit]."""
+    from matplotlib.ticker import MaxNLocator
+
     r = finite_range(values) or (0.0, 1.0)
     pad = 0.05 * (r[1] - r[0]) or max(abs(r[0]) * 0.01, 1.0)
     ax = f.axes["p"]
@@ -147,6 +159,8 @@ def draw_pressure_header(f: Frame, values, unit: str) -> None:
 
 def draw_height(f: Frame, h, j, units: str, notes: list[str], j_range) -> None:
     """Height above the FWL [display unit] and J [-] on a fixed log scale in the last track."""
+    from matplotlib.lines import Line2D
+
     ax = f.axes["h"]
     tw = twin(ax)
     hr = finite_range(h)

@@ -9,10 +9,12 @@ or a filled area thinned to the figure's resolution with a min/max envelope
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 import numpy as np
-from matplotlib.figure import Figure
-from matplotlib.ticker import FixedLocator, FuncFormatter, LogLocator, NullFormatter, NullLocator
+
+if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
+    from matplotlib.figure import Figure
 
 from .decimate import BINS_PER_INCH, envelope_indices
 from .depths import level_crossings
@@ -132,6 +134,9 @@ def _plain_format(v, _pos=None) -> str:
 def header(ax, label: str, colour: str, lo: float, hi: float, log: bool = False,
            ticks=None, outward: float = 0.0) -> None:
     """Put a track's scale at the top: label, limits and ticks in the curve colour."""
+    from matplotlib.ticker import (FixedLocator, FuncFormatter, LogLocator, NullFormatter,
+                                   NullLocator)
+
     if log:
         ax.set_xscale("log")
     ax.set_xlim(lo, hi)

@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import numpy as np
-from matplotlib.lines import Line2D
-from matplotlib.patches import Patch
 
 from .depths import zone_intervals
 from .style import PURPLE
@@ -27,6 +25,8 @@ def zone_depths(depth_axis: str, md, tvdss, have_tvdss: bool, zone) -> list[tupl
 
 def draw_zones(f: Frame, zones) -> dict[float, list[str]]:
     """Zone bands on every track with names at the right; FWL -> names of its zones."""
+    from matplotlib.patches import Patch
+
     fwl_groups: dict[float, list[str]] = {}
     drawn = False
     for iz, zone in enumerate(zones):  # one pass per zone, not per sample
@@ -62,6 +62,8 @@ def _where(f: Frame, level: float) -> str:
 
 def draw_fwls(f: Frame, fwl_groups: dict[float, list[str]]) -> list[str]:
     """FWL lines across every track; notes for levels outside the plotted interval."""
+    from matplotlib.lines import Line2D
+
     notes = []
     for fwl, names in fwl_groups.items():
         label = "FWL " + ", ".join(names)
@@ -78,6 +80,8 @@ def draw_fwls(f: Frame, fwl_groups: dict[float, list[str]]) -> list[str]:
 
 def draw_free_oil_levels(f: Frame, zones) -> None:
     """Free-oil (gas-oil) level of zones with a gas cap over an oil leg."""
+    from matplotlib.lines import Line2D
+
     drawn = False
     for zone in zones:
         gol = number(zone.gas_oil_level)

@@ -61,8 +61,8 @@ def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
         return
     # the same text as pandas' to_csv(float_format="%.10g"), numbers formatted vectorised
     header = pd.DataFrame(columns=list(cols)).to_csv(index=False, lineterminator="\n")
-    with atomic_open(path, "w", encoding="utf-8", newline="") as f:
-        f.write(header)
+    with atomic_open(path, "wb") as f:
+        f.write(header.encode("utf-8"))
         for block in csv_rows(data, precision=10):
             f.write(block)
 

@@ -18,12 +18,12 @@ second layout, and the well-kept full renderers need system libraries or a brows
 from __future__ import annotations
 
 import base64
+import functools
 import datetime as _dt
 import hashlib
 import json
 from pathlib import Path
 
-import jinja2
 
 from .. import __version__
 from .. import units as U
@@ -52,9 +52,6 @@ _SW_SOURCES = {"archie": "Archie equation from the resistivity curve",
                "indonesia": "Indonesia equation from the resistivity and shale-volume curves",
                "none": "none (no Sw curve and no resistivity with Rw)"}
 
-_ENV = jinja2.Environment(loader=jinja2.PackageLoader("satheight", "templates"),
-                          autoescape=True, undefined=jinja2.StrictUndefined,
-                          trim_blocks=True, lstrip_blocks=True)
 
 
 def sw_source_text(code: str | None) -> str:
@@ -87,8 +84,17 @@ def _sig(value) -> str:
         return str(value)
 
 
-_ENV.filters["num"] = _num
-_ENV.filters["sig"] = _sig
+@functools.cache
+def _env():
+    """The jinja2 environment of the report page (jinja2 imported on first use: ~0.1 s)."""
+    import jinja2
+
+    env = jinja2.Environment(loader=jinja2.PackageLoader("satheight", "templates"),
+                             autoescape=True, undefined=jinja2.StrictUndefined,
+                             trim_blocks=True, lstrip_blocks=True)
+    env.filters["num"] = _num
+    env.filters["sig"] = _sig
+    return env
 
 
 # --------------------------------------------------------------------------------------
@@ -371,7 +377,7 @@ def render(run_summary: dict, title: str, out_dir=None, project: Project | None 
     project : Project, optional
         The project, for its parameters (in its own units) and the input files.
     """
-    return _ENV.get_template("report.html.j2").render(
+    return _env().get_template("report.html.j2").render(
         **report_context(run_summary, title, out_dir, project, now))
 
 

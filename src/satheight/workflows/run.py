@@ -7,6 +7,7 @@ The per-well steps are in :mod:`satheight.workflows.well` (numbers) and
 
 from __future__ import annotations
 
+import contextlib
 import json
 import os
 import shutil
@@ -74,7 +75,7 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                 plot: bool = True, depth_axis: str = "tvdss", workers: int = 1,
                 keep_results: bool = True, overwrite: bool = False,
                 progress: bool = False, plot_interval: str = "zones",
-                existing: str = "replace") -> RunReport:
+                existing: str = "replace", scheduler: str | None = None) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"tvdss"`` or ``"md"``) is the main depth scale of the track
@@ -104,6 +105,10 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         the failures reported and ``run_summary.json`` are those of a run with one
         worker. The wells' arrays then stay in the workers: ``WellOutcome.result``
         is None and ``WellOutcome.summary`` holds the summary.
+    scheduler : str, optional
+        A Dask scheduler's address (``tcp://host:8786``; ``pip install satheight[dask]``):
+        the wells run as tasks there, as with ``workers`` > 1, writing into the work
+        folder in ``out_dir`` (a path every Dask worker must share); ``workers`` is unused.
     progress : bool
         Draw wells done / total, the current well and the time left on stderr
         (:class:`satheight.workflows.console.Progress`; the caller decides, e.g. only on a terminal).
@@ -123,7 +128,8 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         try:
             opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval,
                                existing=existing)
-            outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar)
+            outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar,
+                                             scheduler)
         finally:
             bar.close()
         notes: list[str] = []
@@ -150,10 +156,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
 
 
 def _run_wells(project: Project, out_dir: Path, opts: PlotOptions, workers: int,
-               keep_results: bool, bar: Progress) -> tuple[list[WellOutcome], dict]:
+               keep_results: bool, bar: Progress,
+               scheduler: str | None = None) -> tuple[list[WellOutcome], dict]:
     """Every well's outcome in project order, and the map location of each computed well."""
-    if workers > 1 and len(project.wells) > 1:
-        outcomes = _run_wells_parallel(project, out_dir, opts, workers, bar)
+    if scheduler is not None or (workers > 1 and len(project.wells) > 1):
+        outcomes = _run_wells_parallel(project, out_dir, opts, workers, bar, scheduler)
         locations = {o.name: spec.location for spec, o in zip(project.wells, outcomes) if o.ok}
         return outcomes, locations
     outcomes, locations = [], {}
@@ -339,14 +346,40 @@ def _well_job(project: Project, spec: WellSpec, work_dir: Path,
     return outcome, safe
 
 
+@contextlib.contextmanager
+def _dask_pool(scheduler: str):
+    """A ``concurrent.futures`` executor on the Dask cluster at ``scheduler`` (closed after)."""
+    try:
+        from distributed import Client      # optional: pip install satheight[dask]
+    except ImportError as exc:
+        raise SatHeightError("running on a Dask cluster needs the 'dask' and 'distributed' "
+                             "packages", where=f"scheduler {scheduler!r}",
+                             hint="install them with: pip install satheight[dask]") from exc
+    try:
+        client = Client(scheduler, set_as_default=False)
+    except (OSError, TimeoutError, ValueError) as exc:
+        raise SatHeightError(f"cannot connect to the Dask scheduler: {exc}",
+                             where=f"scheduler {scheduler!r}",
+                             hint="check the address (e.g. tcp://host:8786) and that the "
+                                  "scheduler is running") from exc
+    try:
+        with client.get_executor(pure=False) as pool:
+            yield pool
+    finally:
+        client.close()
+
+
 def _run_wells_parallel(project: Project, out_dir: Path, opts: PlotOptions, workers: int,
-                        bar: Progress | None = None) -> list[WellOutcome]:
-    """Run the wells in ``workers`` processes; place their files in project order."""
+                        bar: Progress | None = None,
+                        scheduler: str | None = None) -> list[WellOutcome]:
+    """Run the wells in ``workers`` processes (or as tasks on the Dask cluster at
+    ``scheduler``); place their files in project order."""
     work = out_dir / f".satheight-work-{uuid.uuid4().hex[:12]}"
     outcomes: list[WellOutcome] = []
     names_seen: set[str] = set()
     try:
-        with ProcessPoolExecutor(max_workers=min(workers, len(project.wells))) as pool:
+        with (ProcessPoolExecutor(max_workers=min(workers, len(project.wells)))
+              if scheduler is None else _dask_pool(scheduler)) as pool:
             futures = [pool.submit(_well_job, project, spec, work / str(i), opts)
                        for i, spec in enumerate(project.wells)]
             for fut in futures:
