@@ -127,7 +127,8 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
-    assert len(old) == 4 * N_WELLS + 7  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
+    assert len(old) == 4 * N_WELLS + 10  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
+    # ... and the 3 hand-over files (contacts.csv, shf_models.json, shf_table.csv)
     inputs = {f.name: _digest(f) for f in src.iterdir()}
 
     second = make_project(src, 1500.0, "p2.toml")

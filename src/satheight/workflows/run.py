@@ -34,6 +34,7 @@ from .figures import save_crossplots, save_figure
 from .console import SCHEMA_VERSION, Progress
 from .report import input_files, write_report
 from .well import compute_well
+from .handover import write_handover
 
 
 @dataclass
@@ -133,10 +134,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         tables = write_field_tables([o.summary for o in outcomes if o.ok],
                                     [f for o in outcomes if o.ok for f in o.files
                                      if f.suffix == ".parquet"], work, project)
+        handover = write_handover(project, [o.summary for o in outcomes if o.ok], work, notes)
         report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
-                                         tables, cross_files)
+                                         tables, cross_files, handover)
         files = ([f for o in outcomes for f in o.files] + [section_file, report, summary]
-                 + list(tables) + cross_files)
+                 + list(tables) + cross_files + handover)
         session.commit([f for f in files if f is not None])
     for o in outcomes:
         o.files = [out_dir / f.name for f in o.files]
@@ -205,7 +207,8 @@ def _crossplots(project: Project, outcomes: list[WellOutcome], out_dir: Path,
 
 def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: Path | None,
                    notes: list[str], out_dir: Path, inputs: InputFiles,
-                   tables: list[Path], cross_files: list[Path]) -> tuple[Path, Path]:
+                   tables: list[Path], cross_files: list[Path],
+                   handover: list[Path] = ()) -> tuple[Path, Path]:
     """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
         "schema_version": SCHEMA_VERSION,
@@ -225,6 +228,7 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
         summary["notes"] = notes
     summary["inputs"] = input_record(project, inputs)
     summary["tables"] = [p.name for p in tables]          # field_summary.*, all_wells.*
+    summary["handover"] = [p.name for p in handover]      # contacts.csv, shf_models.json...
     summary["inputs"]["files"] = input_files(project)      # every input and its checksum
     report = write_report(summary, out_dir, project.name, project)
     summary["report"] = report.name
