@@ -18,7 +18,7 @@ from .. import __version__
 from .. import units as U
 from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
-from ..io.las import read_las
+from ..io.dlis import read_log_file
 from ..io.survey import read_survey, survey_trajectory
 from ..logsw import archie_sw
 from ..project import check_fwl_near_wells
@@ -153,7 +153,7 @@ def log_saturation(project: Project, well: Well, roles: dict, phi: np.ndarray):
 
 def compute_well(project: Project, spec: WellSpec) -> tuple[WellResult, list[str]]:
     """Load one well and compute everything (no files written)."""
-    well = read_las(spec.las)
+    well = read_log_file(spec.las)     # LAS, or DLIS by its ending
     if spec.name:
         well.name = spec.name
     else:
