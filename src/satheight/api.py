@@ -23,8 +23,7 @@ from __future__ import annotations
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
-
-import pandas as pd
+from typing import TYPE_CHECKING
 
 from . import units as U
 from . import plots
@@ -42,6 +41,9 @@ from .workflows.fit import run_fit, settings_from_options
 from .workflows.outputs import open_project as _open_project
 from .workflows.run import RunReport, run_project
 from .workflows.well import compute_well, output_curves
+
+if TYPE_CHECKING:                       # pandas is imported when a frame is made
+    import pandas as pd
 
 __all__ = ["open_project", "project_from_dict", "demo_project", "run", "run_well", "WellRun",
            "result_frame", "track_plot", "crossplots", "section_plot", "fit_core", "CoreFit",
@@ -129,7 +131,7 @@ class WellRun:
         (the content of the well's ``_summary.json``)."""
         return self.result.summary
 
-    def frame(self) -> pd.DataFrame:
+    def frame(self) -> "pd.DataFrame":
         """See :func:`result_frame`."""
         return result_frame(self)
 
@@ -175,7 +177,7 @@ def run_well(project, name: str) -> WellRun:
     return WellRun(result, project, notes)
 
 
-def result_frame(well: WellRun) -> pd.DataFrame:
+def result_frame(well: WellRun) -> "pd.DataFrame":
     """The well's curves as a DataFrame indexed by MD (in the LAS file's depth unit).
 
     Columns: every curve of the input file (in its own unit), then the computed curves in
@@ -183,6 +185,8 @@ def result_frame(well: WellRun) -> pd.DataFrame:
     NORTH, EAST, SW_LOG, ROCK_ID where made). A computed curve replaces an input curve of
     the same name. ``frame.attrs["units"]`` maps each column to its unit.
     """
+    import pandas as pd                 # a dependency, loaded on first use (start-up time)
+
     w = well.result.well
     cols, units = {}, {}
     for c in list(w.curves.values())[1:] + output_curves(well.result, well.project):
