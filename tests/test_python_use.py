@@ -39,10 +39,13 @@ def python_blocks(section: str) -> list[str]:
     return re.findall(r"^```python\n(.*?)^```", section, flags=re.S | re.M)
 
 
-def test_the_section_has_examples():
+def test_the_section_has_examples_that_use_only_the_public_surface():
     section, path = python_use_section()
     # README (Python use): runnable examples of the public surface
     assert len(python_blocks(section)) >= 4, path
+    private = re.findall(r"(?:from|import) satheight\.\w+", section)
+    # README (Python use): everything outside satheight.__all__ is private
+    assert private == [], private
 
 
 @pytest.mark.parametrize("index", range(len(python_blocks(python_use_section()[0]))))
