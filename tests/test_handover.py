@@ -206,3 +206,16 @@ def test_fwl_pressures_and_fit_json_carry_schema_version(tmp_path):
     for f in [*(tmp_path / "p").glob("*.json"), *(tmp_path / "f").glob("*.json")]:
         # README (outputs): every JSON output carries schema_version
         assert json.loads(f.read_text(encoding="utf-8")).get("schema_version") == 1, f.name
+
+
+def test_contact_rows_of_a_gas_cap_zone_list_the_free_oil_level():
+    """A zone with a gas cap over its oil leg: FWL 2100 m, free-oil level 2050 m (given),
+    oil-water contact 2095 m (entry height 5 m): three rows, in that order (known truth)."""
+    from satheight.workflows.handover import contact_rows
+
+    summary = {"well": "W", "zones": {"Z": {"hydrocarbon": "oil", "contact": {
+        "fwl_tvdss": 2100.0, "fwl_md": 2130.0, "gas_oil_level_tvdss": 2050.0,
+        "gas_oil_level_md": 2080.0, "contact_tvdss": 2095.0, "contact_md": None}}}}
+    rows = contact_rows([summary])
+    assert [(r["kind"], r["tvdss"], r["md"]) for r in rows] == [
+        ("FWL", 2100.0, 2130.0), ("FOL", 2050.0, 2080.0), ("OWC", 2095.0, None)]

@@ -225,7 +225,8 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
                for name, zp in analysis.items()}
-    doc = {"schema_version": SCHEMA_VERSION, "file": str(points.source), "units": {"depth": lu, "pressure": pu,
+    doc = {"schema_version": SCHEMA_VERSION,
+           "file": str(points.source), "units": {"depth": lu, "pressure": pu,
                                                   "density": "g/cm3", "gradient": f"{pu}/{lu}"},
            "qualities_fitted": list(qualities), "zones": summary, "notes": notes}
     with OutputSession(Path(out_dir), "pressures", overwrite, inputs) as session:
