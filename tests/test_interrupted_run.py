@@ -107,7 +107,9 @@ def check_complete(out: Path, old: dict[str, bytes], new_fwl: float) -> int:
             assert np.all(np.isfinite(las["SW_SHM"])), f.name
         elif f.suffix == ".json":
             json.loads(data)
-        elif f.suffix in (".csv", ".parquet"):   # per well, field summary (1 zone), all wells
+        elif f.stem in ("contacts", "shf_table"):     # hand-over tables: complete CSV text
+            assert len(pd.read_csv(f)) > 0, f.name
+        elif f.suffix in (".csv", ".parquet"):    # per well, field summary (1 zone), all wells
             rows = {"field_summary": N_WELLS, "all_wells": N_WELLS * N_SAMPLES}.get(f.stem, N_SAMPLES)
             assert len(pd.read_csv(f) if f.suffix == ".csv" else pd.read_parquet(f)) == rows, f.name
         elif f.suffix == ".html":
@@ -127,7 +129,8 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
-    assert len(old) == 4 * N_WELLS + 7  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
+    assert len(old) == 4 * N_WELLS + 10  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
+    # ... and the 3 hand-over files (contacts.csv, shf_models.json, shf_table.csv)
     inputs = {f.name: _digest(f) for f in src.iterdir()}
 
     second = make_project(src, 1500.0, "p2.toml")

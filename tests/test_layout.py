@@ -26,7 +26,7 @@ NAME = "satheight"
 MAX_MODULE_LINES = 600
 MAX_FUNCTION_LINES = 80
 BASE = {"errors", "constants", "units", "well", "results"}
-TOP = {"cli", "__main__", ""}          # "" is the package's __init__
+TOP = {"cli", "__main__", "", "api"}   # "" is the package's __init__; api its public face
 
 
 def _modules() -> dict[str, Path]:

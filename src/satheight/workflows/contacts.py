@@ -32,6 +32,7 @@ from ..project.types import Project
 from ..results import WellResult
 from ..roles import find_curve
 from .output_folder import InputFiles, OutputSession
+from .console import SCHEMA_VERSION
 from .outputs import check_wells, open_project, project_inputs
 from .well import compute_well, datum_elevation, well_path
 
@@ -157,7 +158,8 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
             d = res.to_dict(lf, lu)
             summary[name] = d
             path = session.work / f"fwl_{_safe(name)}.json"
-            atomic_write_text(path, json.dumps(d, indent=2, allow_nan=False) + "\n")
+            atomic_write_text(path, json.dumps({"schema_version": SCHEMA_VERSION, **d}, indent=2,
+                                               allow_nan=False) + "\n")
             files.append(path)
             if plot:
                 files += save_figure(misfit_plot(res, units=project.unit_system),
@@ -240,7 +242,8 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
                for name, zp in analysis.items()}
-    doc = {"file": str(points.source), "units": {"depth": lu, "pressure": pu,
+    doc = {"schema_version": SCHEMA_VERSION,
+           "file": str(points.source), "units": {"depth": lu, "pressure": pu,
                                                   "density": "g/cm3", "gradient": f"{pu}/{lu}"},
            "qualities_fitted": list(qualities), "zones": summary, "notes": notes}
     bar.step("writing")

@@ -35,6 +35,7 @@ from ..units import parse_quantity
 from .console import Progress
 from .figures import save_figure
 from .output_folder import InputFiles, OutputSession
+from .console import SCHEMA_VERSION
 
 
 @dataclass(frozen=True)
@@ -228,7 +229,8 @@ def _write_fit_files(out: Path, s: FitSettings, ds, points: CorePoints, fits: di
         "selection": "selected = among J families within 2 of the lowest AIC, the fewest "
                      "parameters, then the first in the registry; delta_aic per rock type",
     }
-    files = [save_models(out / s.model_file, models_to_dict(fits, rule_out, provenance))]
+    models = {"schema_version": SCHEMA_VERSION, **models_to_dict(fits, rule_out, provenance)}
+    files = [save_models(out / s.model_file, models)]
     pts = out / "core_points.csv"
     atomic_write_text(pts, points_csv(points, s.units))
     files.append(pts)

@@ -30,6 +30,9 @@ from .field_tables import write_well_table
 from .existing import new_parameters, suffixed
 from .figures import save_figure
 from .report import REPORT_NAME
+from .console import SCHEMA_VERSION
+from .handover import HANDOVER_FILES
+from ..handover import md_at_tvdss
 from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
                           well_uncertainty, write_tornado)
 from .well import OUTPUT_DECIMALS, output_curves, run_parameters
@@ -115,7 +118,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     if mc is not None:
         result.summary["uncertainty"] = uncertainty_section(mc, length_unit)
     json_path = out_dir / f"{stem}_summary.json"
-    atomic_write_text(json_path, json.dumps({**result.summary, "program": f"satheight {__version__}",
+    atomic_write_text(json_path, json.dumps({"schema_version": SCHEMA_VERSION, **result.summary,
+                                             "program": f"satheight {__version__}",
                                              "caution": CAUTION}, indent=2, allow_nan=False) + "\n")
     files.append(json_path)
     if opts.draw:
@@ -136,6 +140,11 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
                                         project.comparison.min_permeability).items():
         if name in zones:
             zones[name]["contact"] = block
+            # MD of each level where the well's path reaches it (hand-over contacts.csv)
+            for key in ("fwl", "contact", "gas_oil_level"):
+                z = block[f"{key}_tvdss"]
+                md = None if z is None else md_at_tvdss(result.well.md, result.tvdss, z * length_factor)
+                block[f"{key}_md"] = None if md is None else md / length_factor
 
 
 # --------------------------------------------------------------------------------------
@@ -143,7 +152,7 @@ def _add_contacts(result: WellResult, project: Project, length_factor: float) ->
 
 #: Files a project run writes once (beside its manifest).
 RUN_FILES = ("run_summary.json", REPORT_NAME, "field_section.png", "field_summary.csv",
-             "field_summary.parquet", "all_wells.csv", "all_wells.parquet")
+             "field_summary.parquet", "all_wells.csv", "all_wells.parquet") + HANDOVER_FILES
 
 
 def well_file_names(stem: str) -> list[str]:

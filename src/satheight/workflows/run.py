@@ -34,6 +34,7 @@ from .field_tables import write_field_tables
 from .figures import save_crossplots, save_figure
 from .console import SCHEMA_VERSION, Progress
 from .report import input_files, write_report
+from .handover import write_handover
 from .well import compute_well, require_fwls
 
 
@@ -133,26 +134,36 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         finally:
             bar.close()
         notes: list[str] = []
-        section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
-        cross_files = _crossplots(project, outcomes, work, notes) if plot else []
-        unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
-        if unused:
-            notes.append(f"tops file {project.tops_file}: rows of well(s) "
-                         + ", ".join(map(repr, unused)) + " match no well of the project (by "
-                         "name, LAS file name or LAS WELL item) and were not used")
-        tables = write_field_tables([o.summary for o in outcomes if o.ok],
-                                    [f for o in outcomes if o.ok for f in o.files
-                                     if f.suffix == ".parquet"], work, project)
-        report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
-                                         tables, cross_files)
-        files = ([f for o in outcomes for f in o.files] + [section_file, report, summary]
-                 + list(tables) + cross_files)
-        session.commit([f for f in files if f is not None])
+        files, summary, section_file = _run_files(project, outcomes, locations, work, inputs,
+                                                  plot, notes)
+        session.commit([f for o in outcomes for f in o.files] + files)
     for o in outcomes:
         o.files = [out_dir / f.name for f in o.files]
     return RunReport(project=project, out_dir=out_dir, wells=outcomes,
                      summary_file=out_dir / summary.name, notes=notes,
                      section_file=None if section_file is None else out_dir / section_file.name)
+
+
+def _run_files(project: Project, outcomes: list[WellOutcome], locations: dict, work: Path,
+               inputs: InputFiles, plot: bool, notes: list[str]):
+    """The run's own files (beside the wells'): field section, crossplots, field and
+    hand-over tables, report and ``run_summary.json``. Returns ``(files, summary path,
+    section file or None)``; what could not be drawn is a note in ``notes``."""
+    section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
+    cross_files = _crossplots(project, outcomes, work, notes) if plot else []
+    unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
+    if unused:
+        notes.append(f"tops file {project.tops_file}: rows of well(s) "
+                     + ", ".join(map(repr, unused)) + " match no well of the project (by "
+                     "name, LAS file name or LAS WELL item) and were not used")
+    summaries = [o.summary for o in outcomes if o.ok]
+    tables = write_field_tables(summaries, [f for o in outcomes if o.ok for f in o.files
+                                            if f.suffix == ".parquet"], work, project)
+    handover = write_handover(project, summaries, work, notes)
+    report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
+                                     tables, cross_files, handover)
+    files = [section_file, report, summary] + list(tables) + cross_files + handover
+    return [f for f in files if f is not None], summary, section_file
 
 
 def _run_wells(project: Project, out_dir: Path, opts: PlotOptions, workers: int,
@@ -216,7 +227,8 @@ def _crossplots(project: Project, outcomes: list[WellOutcome], out_dir: Path,
 
 def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: Path | None,
                    notes: list[str], out_dir: Path, inputs: InputFiles,
-                   tables: list[Path], cross_files: list[Path]) -> tuple[Path, Path]:
+                   tables: list[Path], cross_files: list[Path],
+                   handover: list[Path] = ()) -> tuple[Path, Path]:
     """Write the HTML report and ``run_summary.json``; return their paths."""
     summary = {
         "schema_version": SCHEMA_VERSION,
@@ -236,6 +248,7 @@ def _write_summary(project: Project, outcomes: list[WellOutcome], section_file: 
         summary["notes"] = notes
     summary["inputs"] = input_record(project, inputs)
     summary["tables"] = [p.name for p in tables]          # field_summary.*, all_wells.*
+    summary["handover"] = [p.name for p in handover]      # contacts.csv, shf_models.json...
     summary["inputs"]["files"] = input_files(project)      # every input and its checksum
     report = write_report(summary, out_dir, project.name, project)
     summary["report"] = report.name

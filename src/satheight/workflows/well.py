@@ -19,7 +19,7 @@ from .. import units as U
 from ..datum import AGREE_TOLERANCE as DATUM_AGREE_TOLERANCE, datum_from_header
 from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import ProjectFileError, SatHeightError
-from ..io.las import read_las
+from ..io.dlis import read_log_file
 from ..io.survey import read_survey, survey_trajectory
 from ..logsw import SHALY_SAND, archie_sw
 from ..project import check_fwl_near_wells
@@ -190,7 +190,7 @@ def compute_well(project: Project, spec: WellSpec,
     ``need_fwl=False`` (the FWL search) lets zones without an FWL through, with NaN SHM
     results (see :func:`zones_for_well`).
     """
-    well = read_las(spec.las)
+    well = read_log_file(spec.las)     # LAS, or DLIS by its ending
     if spec.name:
         well.name = spec.name
     else:
