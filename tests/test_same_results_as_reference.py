@@ -23,7 +23,7 @@ import pytest
 
 ROOT = Path(__file__).resolve().parents[1]
 # The last commit whose results are the expected ones (see the module docstring).
-REFERENCE_COMMIT = "6aa83284017f99130c2d885a80b1c9f5bc985608"
+REFERENCE_COMMIT = "7e968baf55108634c1e2f995ba6d9509dea47794"
 COMPARED_SUFFIXES = (".las", ".csv", ".json")
 # Files that carry the run's own provenance (tool version, input paths and checksums): not results.
 NOT_COMPARED = {"run_summary.json"}
