@@ -1,8 +1,7 @@
 """The README's "Python use" section runs as written: every ```python block, in order, in a
 temporary folder, so the documentation cannot drift from the code.
 
-The section is read from README.md (the level-2 heading "Python use"); until the README
-has it, from docs/python_use.md.
+The section is read from README.md (the level-2 heading "Python use").
 """
 
 from __future__ import annotations
@@ -21,7 +20,7 @@ HEADING = "## Python use"
 
 def python_use_section() -> tuple[str, Path]:
     """The text of the "Python use" section and the file it came from."""
-    for path in (ROOT / "README.md", ROOT / "docs" / "python_use.md"):
+    for path in (ROOT / "README.md",):
         text = path.read_text(encoding="utf-8")
         lines = text.splitlines()
         starts = [i for i, line in enumerate(lines) if line.strip() == HEADING]
@@ -32,7 +31,7 @@ def python_use_section() -> tuple[str, Path]:
                     break
                 body.append(line)
             return "\n".join(body), path
-    raise AssertionError("no '## Python use' section in README.md or docs/python_use.md")
+    raise AssertionError("no '## Python use' section in README.md")
 
 
 def python_blocks(section: str) -> list[str]:
