@@ -34,7 +34,12 @@ EXIT_INTERNAL = 1
 EXIT_BAD_INPUT = 2
 EXIT_WELLS_FAILED = 3
 
-DEMO_OUT = "satheight-demo-out"
+DEMO_OUT = "satheight_demo_run"
+
+
+def default_out(stem: str, command: str) -> str:
+    """Every command's default output folder: ``./<input file name>_<command>``."""
+    return f"{stem}_{command}"
 JSON_HELP = "print the results as one JSON document on stdout (with schema_version)"
 
 
@@ -79,7 +84,7 @@ def build_parser() -> argparse.ArgumentParser:
                                    "dyn/cm) unless a value carries its own unit.")
     r.add_argument("project", metavar="PROJECT_FILE", help="path of the project file (.toml)")
     r.add_argument("--out", metavar="DIR", default=None,
-                   help="output folder (default: ./<project file name>_results); created if missing")
+                   help="output folder (default: ./<project file name>_run); created if missing")
     _common_run_options(r)
 
     i = sub.add_parser("inspect", help="list a LAS file's curves and the roles the tool would use",
@@ -111,8 +116,8 @@ def _add_fit_parser(sub):
                     "permeability, group plugs into rock types, fit each function family, print "
                     "a fit table and write the model file, a points table and plots.")
     f.add_argument("files", nargs="+", metavar="CORE_FILE", help="core-data CSV files")
-    f.add_argument("--out", metavar="DIR", default="core_fit_results",
-                   help="output folder (default: ./core_fit_results); created if missing")
+    f.add_argument("--out", metavar="DIR", default=None,
+                   help="output folder (default: ./<first core file name>_fit); created if missing")
     f.add_argument("--model-file", default="models.json", metavar="NAME",
                    help="name of the model file in the output folder (default: models.json)")
     f.add_argument("--system", metavar="NAME", default=None,
@@ -160,7 +165,8 @@ def _fit(args, out) -> int:
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
         reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots,
         units=args.units)
-    run = run_fit(args.files, args.out, settings, overwrite=args.overwrite,
+    out = args.out or default_out(Path(args.files[0]).stem, "fit")
+    run = run_fit(args.files, out, settings, overwrite=args.overwrite,
                   progress=progress_wanted(sys.stderr, args.quiet))
     if args.json:  # the model file's content, the files written and the notes
         print_json("fit", {"model_file": run.model_path, "files": run.files, "notes": run.warnings,
@@ -243,7 +249,7 @@ def _add_contact_commands(sub):
 
 def _fwl(args, out) -> int:
     project = Path(args.project)
-    rep = run_fwl(project, args.out or f"{project.stem}_fwl", zones=args.zone, wells=args.wells,
+    rep = run_fwl(project, args.out or default_out(project.stem, "fwl"), zones=args.zone, wells=args.wells,
                   plot=not args.no_plots, overwrite=args.overwrite,
                   progress=progress_wanted(sys.stderr, args.quiet), window=args.window, step=args.step,
                   misfit=args.misfit, delta=args.delta, n_boot=args.resamples,
@@ -297,7 +303,7 @@ def _fwl(args, out) -> int:
 def _pressures(args, out) -> int:
     src = Path(args.pressure_file)
     quals = ("good", "fair", "poor") if args.use_poor else ("good", "fair")
-    rep = run_pressures(src, args.out or f"{src.stem}_pressures", project_path=args.project,
+    rep = run_pressures(src, args.out or default_out(src.stem, "pressures"), project_path=args.project,
                         zone=args.zone, units=args.units, qualities=quals,
                         with_logs=not args.no_logs, plot=not args.no_plots,
                         overwrite=args.overwrite, progress=progress_wanted(sys.stderr, args.quiet))
@@ -522,7 +528,7 @@ def _dispatch(args) -> int:
         out = args.out
     else:
         project = Path(args.project)
-        out = args.out or f"{project.stem}_results"
+        out = args.out or default_out(project.stem, "run")
     report = run_project(project, out, pdf=args.pdf, plot=not args.no_plots,
                          depth_axis=args.depth_axis, workers=args.workers,
                          keep_results=False, overwrite=args.overwrite,
