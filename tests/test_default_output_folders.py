@@ -20,3 +20,7 @@ def test_run_and_pressures_write_into_input_name_underscore_command(tmp_path, mo
     assert main(["pressures", str(DEMO / "demo_pressures.csv"), "--no-plots"]) == 0
     # README (Usage): ./<pressure file>_pressures
     assert (tmp_path / "demo_pressures_pressures" / "pressures_summary.json").is_file()
+    assert main(["fit", str(DEMO / "core_plugs.csv"), str(DEMO / "core_pc_steps.csv"),
+                 "--no-plots"]) == 0
+    # README (Usage): ./<first core file>_fit
+    assert (tmp_path / "core_plugs_fit" / "models.json").is_file()

@@ -165,8 +165,8 @@ def _fit(args, out) -> int:
         fzi_classes=args.fzi_classes, class_names=args.class_names, families=args.family,
         reservoir=args.reservoir, model_file=args.model_file, plots=not args.no_plots,
         units=args.units)
-    out = args.out or default_out(Path(args.files[0]).stem, "fit")
-    run = run_fit(args.files, out, settings, overwrite=args.overwrite,
+    out_dir = args.out or default_out(Path(args.files[0]).stem, "fit")
+    run = run_fit(args.files, out_dir, settings, overwrite=args.overwrite,
                   progress=progress_wanted(sys.stderr, args.quiet))
     if args.json:  # the model file's content, the files written and the notes
         print_json("fit", {"model_file": run.model_path, "files": run.files, "notes": run.warnings,
