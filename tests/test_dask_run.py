@@ -23,6 +23,7 @@ SKIP = "Dask is not installed (optional extra: pip install satheight[dask])"
 dask = pytest.importorskip("dask", reason=SKIP)
 distributed = pytest.importorskip("distributed", reason=SKIP)
 
+pytestmark = pytest.mark.slow   # run by .ci/run's second step (README: tests)
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "demo_wells" / "demo_project.toml"
 

@@ -11,6 +11,7 @@ from pathlib import Path
 
 import pytest
 
+pytestmark = pytest.mark.slow   # run by .ci/run's second step (README: tests)
 ROOT = Path(__file__).resolve().parents[1]
 
 

@@ -23,6 +23,7 @@ import pytest
 
 ROOT = Path(__file__).resolve().parents[1]
 # The last commit whose results are the expected ones (see the module docstring).
+pytestmark = pytest.mark.slow   # run by .ci/run's second step (README: tests)
 REFERENCE_COMMIT = "7e968baf55108634c1e2f995ba6d9509dea47794"
 COMPARED_SUFFIXES = (".las", ".csv", ".json")
 # Files that carry the run's own provenance (tool version, input paths and checksums): not results.
