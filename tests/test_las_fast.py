@@ -289,7 +289,7 @@ def test_csv_writer_equals_pandas(tmp_path):
     # reference: pandas DataFrame.to_csv(float_format="%.10g"), what the writer used before
     import pandas as pd
 
-    from satheight.workflows.outputs import write_csv
+    from satheight.io.well_csv import write_csv
 
     src = read_las(DEMO / "VANTREL-1.las")
     rng = np.random.default_rng(4)

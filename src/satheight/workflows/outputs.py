@@ -6,25 +6,22 @@ Every file goes through :mod:`satheight.io.atomic` (a temporary file, then a ren
 from __future__ import annotations
 
 import json
-from dataclasses import dataclass
 import os
+from dataclasses import dataclass
 from pathlib import Path
-
-import numpy as np
 
 from .. import __version__
 from .. import units as U
 from ..compare import summarise
 from ..contacts import contacts_summary
 from ..errors import InputFileError, ProjectFileError
-from ..io.atomic import atomic_open, atomic_write_text
+from ..io.atomic import atomic_write_text
 from ..io.las import write_las
-from ..io.las_fast import csv_rows
+from ..io.well_csv import write_csv
 from .. import plots
 from ..project.reader import load_project
 from ..project.types import Project
 from ..results import WellResult
-from ..well import Curve, Well
 from .output_folder import InputFiles, check_input_file
 from .field_tables import write_well_table
 from .existing import new_parameters, suffixed
@@ -47,27 +44,6 @@ def safe_name(name: str) -> str:
     """``name`` as a file-name stem: letters, digits, ``-_.`` kept, anything else ``_``."""
     keep = "".join(ch if (ch.isalnum() or ch in "-_.") else "_" for ch in name.strip())
     return keep.strip(".") or "well"
-
-
-def write_csv(path: Path, well: Well, new_curves: list[Curve]) -> None:
-    """CSV of every input curve and the new curves; header ``MNEMONIC [unit]``; blanks for NaN."""
-    import pandas as pd
-
-    cols = {}
-    for c in list(well.curves.values()) + new_curves:
-        label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
-        cols[label] = c.data
-    data = [np.asarray(v) for v in cols.values()]
-    if len(cols) != len(well.curves) + len(new_curves) or any(d.dtype != np.float64 for d in data):
-        frame = pd.DataFrame(cols)
-        atomic_write_text(path, frame.to_csv(index=False, float_format="%.10g", lineterminator="\n"))
-        return
-    # the same text as pandas' to_csv(float_format="%.10g"), numbers formatted vectorised
-    header = pd.DataFrame(columns=list(cols)).to_csv(index=False, lineterminator="\n")
-    with atomic_open(path, "wb") as f:
-        f.write(header.encode("utf-8"))
-        for block in csv_rows(data, precision=10):
-            f.write(block)
 
 
 @dataclass(frozen=True)
