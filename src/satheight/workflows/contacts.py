@@ -25,23 +25,22 @@ from ..io.atomic import atomic_write_text
 from ..io.las import read_las
 from ..io.pressures import read_pressure_points, resolve_tvdss
 from ..plots.contacts import misfit_plot, pressure_plot
-from .console import Progress
 from .figures import save_figure
 from ..pressures import DEFAULT_QUALITIES, analyse_pressures, compare_levels
 from ..project.types import Project
 from ..results import WellResult
 from ..roles import find_curve
 from .output_folder import InputFiles, OutputSession
-from .console import SCHEMA_VERSION
-from .outputs import check_wells, open_project, project_inputs
+from .console import SCHEMA_VERSION, Progress
+from .outputs import check_wells, open_project, project_inputs, safe_name
 from .well import compute_well, datum_elevation, well_path
 
 __all__ = ["run_fwl", "run_pressures", "fwl_from_project", "parse_exclude", "parse_fit_bounds"]
 
 
 def _safe(name: str) -> str:
-    keep = "".join(ch if (ch.isalnum() or ch in "-_.") else "_" for ch in name.strip())
-    return keep.strip(".") or "zone"
+    """A zone name as a file-name part (:func:`satheight.workflows.outputs.safe_name`)."""
+    return safe_name(name, "zone")
 
 
 #: Command-line option of each search setting (for the messages of :func:`check_fwl_options`).

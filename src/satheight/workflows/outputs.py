@@ -40,10 +40,11 @@ CAUTION = ("Results are estimates for review by a qualified professional; local 
            "and reserves-reporting rules govern their use.")
 
 
-def safe_name(name: str) -> str:
-    """``name`` as a file-name stem: letters, digits, ``-_.`` kept, anything else ``_``."""
+def safe_name(name: str, empty: str = "well") -> str:
+    """``name`` as a file-name stem: letters, digits, ``-_.`` kept, anything else ``_``
+    (``empty`` when nothing is left)."""
     keep = "".join(ch if (ch.isalnum() or ch in "-_.") else "_" for ch in name.strip())
-    return keep.strip(".") or "well"
+    return keep.strip(".") or empty
 
 
 @dataclass(frozen=True)
