@@ -16,7 +16,7 @@ from bench_measure import _measure
 def case_plots(args) -> dict:
     """The demo run without and with plots, and the track plot (drawn and written as PNG) of
     the bench well; each after one warm-up run, so library imports are not counted."""
-    from satheight.cli import find_demo_project
+    from satheight.workflows.run import find_demo_project
     from satheight.plots import track_plot
     from satheight.workflows import well as W
     from satheight.workflows.figures import save_figure

@@ -27,7 +27,6 @@ from typing import TYPE_CHECKING
 
 from . import units as U
 from . import plots
-from .cli import find_demo_project
 from .compare import summarise
 from .contacts import contacts_summary
 from .errors import ProjectFileError, SatHeightError
@@ -39,7 +38,7 @@ from .project.types import Project
 from .results import WellResult
 from .workflows.fit import run_fit, settings_from_options
 from .workflows.outputs import open_project as _open_project
-from .workflows.run import RunReport, run_project
+from .workflows.run import RunReport, find_demo_project, run_project
 from .workflows.well import compute_well, output_curves
 
 if TYPE_CHECKING:                       # pandas is imported when a frame is made

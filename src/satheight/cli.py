@@ -21,11 +21,11 @@ from pathlib import Path
 
 from . import __version__
 from . import units as U
-from .errors import InputFileError, SatHeightError
+from .errors import SatHeightError
 from .workflows.contacts import parse_exclude, parse_fit_bounds, run_fwl, run_pressures
 from .workflows.fit import fit_table, run_fit, settings_from_options
 from .workflows.inspect import inspect_las, las_description
-from .workflows.run import run_project
+from .workflows.run import find_demo_project, run_project
 from .workflows.console import print_json, progress_wanted
 from .workflows.setup import scan_lines, scan_record, start_project
 
@@ -41,20 +41,6 @@ def default_out(stem: str, command: str) -> str:
     """Every command's default output folder: ``./<input file name>_<command>``."""
     return f"{stem}_{command}"
 JSON_HELP = "print the results as one JSON document on stdout (with schema_version)"
-
-
-def find_demo_project() -> Path:
-    """The bundled demo project file: installed package data first, then the source tree."""
-    here = Path(__file__).resolve().parent
-    candidates = [here / "demo_data" / "demo_project.toml",
-                  here.parents[1] / "demo_wells" / "demo_project.toml",
-                  Path.cwd() / "demo_wells" / "demo_project.toml"]
-    for c in candidates:
-        if c.is_file():
-            return c
-    raise InputFileError("the bundled demo field was not found",
-                         where=", ".join(str(c) for c in candidates),
-                         hint="run from the project's source folder or reinstall the package")
 
 
 def build_parser() -> argparse.ArgumentParser:

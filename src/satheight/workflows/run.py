@@ -72,6 +72,20 @@ class RunReport:
 
 
 
+def find_demo_project() -> Path:
+    """The bundled demo project file: installed package data first, then the source tree."""
+    package = Path(__file__).resolve().parents[1]
+    candidates = [package / "demo_data" / "demo_project.toml",
+                  package.parents[1] / "demo_wells" / "demo_project.toml",
+                  Path.cwd() / "demo_wells" / "demo_project.toml"]
+    for c in candidates:
+        if c.is_file():
+            return c
+    raise InputFileError("the bundled demo field was not found",
+                         where=", ".join(str(c) for c in candidates),
+                         hint="run from the project's source folder or reinstall the package")
+
+
 def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = False,
                 plot: bool = True, depth_axis: str = "tvdss", workers: int = 1,
                 keep_results: bool = True, overwrite: bool = False,
