@@ -55,6 +55,12 @@ def _show(value: Any) -> str:
     return f"{r} ({_type_name(value)})"
 
 
+
+def did_you_mean(name, known) -> str:
+    """``"did you mean 'X'? "`` for the closest of ``known`` to ``name``, or ``""``."""
+    close = difflib.get_close_matches(str(name), list(known), n=1)
+    return f"did you mean {close[0]!r}? " if close else ""
+
 def _join(prefix: str, key: str) -> str:
     return f"{prefix}.{key}" if prefix else key
 
@@ -92,9 +98,7 @@ class ValueReader:
                                   + ", ".join(allowed))
         for k in value:
             if k not in allowed:
-                close = difflib.get_close_matches(str(k), allowed, n=1)
-                hint = (f"did you mean {close[0]!r}? " if close else "") + \
-                    "allowed keys: " + ", ".join(allowed)
+                hint = did_you_mean(k, allowed) + "allowed keys: " + ", ".join(allowed)
                 raise self.error(_join(key, str(k)), f"unknown key {k!r}", hint=hint)
         for k in required:
             if k not in value:
@@ -189,11 +193,9 @@ class ValueReader:
                              hint=f'write e.g. {ALLOW_KEY} = ["{known[0]}"]')
         for name in raw:
             if name not in known:
-                close = difflib.get_close_matches(name, known, n=1)
                 raise self.error(k, f"{name!r} is not a value of this table that has a "
                                  "plausible range",
-                                 hint=(f"did you mean {close[0]!r}? " if close else "")
-                                 + "known: " + ", ".join(known))
+                                 hint=did_you_mean(name, known) + "known: " + ", ".join(known))
         return frozenset(raw)
 
     def plausible(self, name: str, value_si: float, key: str, raw: Any = None, *,

@@ -3,13 +3,12 @@
 from __future__ import annotations
 
 import dataclasses as _dc
-import difflib
 from pathlib import Path
 
 from ..errors import InputFileError
 from ..io.tops import read_tops
 from .types import WellSpec
-from .values import ALLOW_KEY, _label, _show
+from .values import ALLOW_KEY, _label, _show, did_you_mean
 
 _WELL_KEYS = ("las", "name", "datum_elevation", "curves", "tops", "survey", "survey_format",
               "location", "fwl", ALLOW_KEY)
@@ -52,10 +51,9 @@ def read_well(reader, raw: dict, index: int, zone_names: list[str]) -> WellSpec:
         for zone, pair in tt.items():
             zkey = f"{key}.tops.{zone}"
             if zone not in zone_names:
-                close = difflib.get_close_matches(zone, zone_names, n=1)
                 raise reader.error(zkey, f"tops name zone {zone!r}, which no [[zones]] entry "
                                  "defines",
-                                 hint=(f"did you mean {close[0]!r}? " if close else "")
+                                 hint=did_you_mean(zone, zone_names)
                                  + "known zones: " + ", ".join(zone_names))
             if not isinstance(pair, list) or len(pair) != 2:
                 raise reader.error(zkey, f"expected [top, base], found {_show(pair)}",
@@ -98,9 +96,8 @@ def _read_fwl(reader, t: dict, key: str, zone_names: list[str]) -> dict[str, flo
     for zone, value in tt.items():
         zkey = f"{key}.fwl.{zone}"
         if zone not in zone_names:
-            close = difflib.get_close_matches(zone, zone_names, n=1)
             raise reader.error(zkey, f"an FWL is given for zone {zone!r}, which no [[zones]] "
-                               "entry defines", hint=(f"did you mean {close[0]!r}? " if close else "")
+                               "entry defines", hint=did_you_mean(zone, zone_names)
                                + "known zones: " + ", ".join(zone_names))
         out[zone] = reader.quantity(value, zkey, "length")
         reader.plausible("fwl", out[zone], zkey, value, allowed=allowed)
@@ -129,15 +126,13 @@ def merge_tops_file(reader, tops_file: Path, wells: list[WellSpec],
     for r in rows:
         where = f"{tops_file}, line {r.line}"
         if r.well not in by_name and not unnamed:
-            close = difflib.get_close_matches(r.well, list(by_name), n=1)
             raise reader.error("project.tops_file", f"{where}: well {r.well!r} matches no [[wells]] "
                              "entry (by name or LAS file name)",
-                             hint=(f"did you mean {close[0]!r}? " if close else "")
+                             hint=did_you_mean(r.well, by_name)
                              + "remove the row or add the well to the project")
         if r.zone not in zone_names:
-            close = difflib.get_close_matches(r.zone, zone_names, n=1)
             raise reader.error("project.tops_file", f"{where}: zone {r.zone!r} is not a [[zones]] name",
-                             hint=(f"did you mean {close[0]!r}? " if close else "")
+                             hint=did_you_mean(r.zone, zone_names)
                              + "known zones: " + ", ".join(zone_names))
         if r.well not in by_name:
             pending.setdefault(r.well, []).append(r)
