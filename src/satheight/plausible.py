@@ -206,7 +206,7 @@ def require_plausible(name: str, value_si: float, shown: str, number: float | No
 
 
 def fwl_outside_logs(fwl: float, tvdss_low: float, tvdss_high: float,
-                     surface_tvdss: float | None = None) -> str | None:
+                     surface_tvdss: float | None = None, length_unit: str = "m") -> str | None:
     """Why a free-water level is implausible for the wells it applies to, or ``None``.
 
     Parameters
@@ -218,14 +218,21 @@ def fwl_outside_logs(fwl: float, tvdss_low: float, tvdss_high: float,
     surface_tvdss : float, optional
         TVDSS of the shallowest well's depth reference [m] (minus its elevation);
         a FWL above it is above the surface.
+    length_unit : str
+        Unit the message shows depths in (the project's length unit, e.g. ``"ft"``).
     """
     margin = RANGES["fwl_margin"].high
+
+    def d(v):
+        return f"{_from_si(v, length_unit, 'length'):g}"
+
     if surface_tvdss is not None and fwl < surface_tvdss:
-        return (f"the FWL {fwl:g} m TVDSS lies above the surface (the well's depth reference "
-                f"is at {surface_tvdss:g} m TVDSS)")
+        return (f"the FWL {d(fwl)} {length_unit} TVDSS lies above the surface (the well's depth "
+                f"reference is at {d(surface_tvdss)} {length_unit} TVDSS)")
     if fwl < tvdss_low - margin or fwl > tvdss_high + margin:
-        return (f"the FWL {fwl:g} m TVDSS lies more than {margin:g} m outside the logged "
-                f"TVDSS range {tvdss_low:g} to {tvdss_high:g} m of the wells ({RANGES['fwl_margin'].source})")
+        return (f"the FWL {d(fwl)} {length_unit} TVDSS lies more than {d(margin)} {length_unit} "
+                f"outside the logged TVDSS range {d(tvdss_low)} to {d(tvdss_high)} {length_unit} "
+                f"of the wells ({RANGES['fwl_margin'].source})")
     return None
 
 

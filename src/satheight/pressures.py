@@ -162,6 +162,8 @@ class Level:
         95 % interval [m] (Student t with the smaller of the two fits' degrees of freedom).
     lines : tuple[str, str]
         The fluids whose lines meet here (denser first).
+    level : float or None
+        Confidence level of ``low``/``high`` (None when there is no interval).
     """
 
     kind: str
@@ -170,6 +172,7 @@ class Level:
     low: float | None
     high: float | None
     lines: tuple[str, str]
+    level: float | None = None
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "depth_m": self.depth, "se_m": self.se,
@@ -390,7 +393,7 @@ def intersect(dense: LineFit, light: LineFit, kind: str = "FWL", level: float = 
     if not np.isfinite(q):
         return Level(kind, float(z), se, None, None, (dense.fluid, light.fluid))
     return Level(kind, float(z), se, float(z - q * se), float(z + q * se),
-                 (dense.fluid, light.fluid))
+                 (dense.fluid, light.fluid), level)
 
 
 def _free_levels(res: ZonePressures) -> None:

@@ -228,7 +228,8 @@ class ValueReader:
         return float(raw), default, False, f"{leaf} = {raw!r} (a bare number, taken in {default})"
 
 
-def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) -> None:
+def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None,
+                         system: str = "metric") -> None:
     """Refuse a zone's FWL far outside a well's logged TVDSS or above its surface.
 
     Called by the run with each well's TVDSS, as the check needs the wells; the zone's
@@ -244,12 +245,15 @@ def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) 
         The well's TVDSS [m], positive down.
     surface_tvdss : float, optional
         TVDSS of the well's depth reference [m] (minus its elevation).
+    system : str
+        The project's unit system: the message shows depths in its length unit.
     """
     z = np.asarray(tvdss, dtype=float)
     z = z[np.isfinite(z)]
     if "fwl" in zone.allow_unusual or z.size == 0:
         return
-    why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss)
+    why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss,
+                           UNIT_SYSTEMS[system]["length"])
     if why is not None:
         raise ProjectFileError(why, where=f"{path}, key zones[{zone.name}].fwl",
                                hint="check the FWL and its unit (TVDSS, positive down); if it "
