@@ -101,3 +101,74 @@ def test_survey_note_of_a_feet_project_is_in_feet(tmp_path):
     note = next(n for n in notes if "last survey station" in n)
     # 1010 m / 0.3048 = 3313.6 ft; samples at MD 1010.1 ... 1029.9 m (0.1 m step): 199 of them
     assert "(MD 3313.6 ft)" in note and ": 199 depths below" in note
+
+
+# --------------------------------------------------------------------------------------
+# messages of a feet project: each depth in feet, equal to the metre value / 0.3048
+# (international foot, nist2008); a file's own values as read, in the file's unit
+
+def _feet_field(tmp_path, fwl: str = "3313.6", survey: str | None = None, tops: str = ""):
+    """tiny_field's one well (MD 1000-1029.9 m, EKB 25 m) in a project of units "field"."""
+    p = make_field(tmp_path, wells=(("w0.las", "W0"),))
+    text = p.read_text(encoding="utf-8").replace('units = "metric"', 'units = "field"')
+    text = re.sub(r'fwl = "[^"]*"', f"fwl = {fwl}", text)
+    if survey is not None:
+        (tmp_path / "s.csv").write_text(survey, encoding="utf-8")
+        text = text.replace('las = "w0.las"\n', 'las = "w0.las"\nsurvey = "s.csv"\n' + tops)
+    p.write_text(text, encoding="utf-8")
+    return load_project(p)
+
+
+def _numbers(text: str) -> list[float]:
+    return [float(x) for x in re.findall(r"-?\d+(?:\.\d+)?", text)]
+
+
+def test_fwl_outside_the_logs_of_a_feet_project_is_told_in_feet(tmp_path):
+    import pytest
+
+    from satheight.errors import ProjectFileError
+
+    project = _feet_field(tmp_path, fwl="9842.5")           # bare number: feet
+    with pytest.raises(ProjectFileError) as ei:
+        compute_well(project, project.wells[0])
+    what = ei.value.what
+    assert "outside the logged TVDSS range" in what and not re.search(r"\d m\b", what)
+    # FWL 9842.5 ft as given; margin 1000 m (plausible.RANGES fwl_margin, common practice);
+    # logged TVDSS 1000 - 25 = 975 m to 1029.9 - 25 = 1004.9 m (tiny_field, by hand)
+    expected_m = [9842.5 * FT, 1000.0, 975.0, 1004.9]
+    shown = _numbers(what.split("(")[0])
+    assert len(shown) == 4
+    for v, m in zip(shown, expected_m):
+        assert abs(v - m / FT) <= 1e-5 * m / FT           # 6 significant digits (:g)
+    assert what.count(" ft") == 3                          # FWL, margin, range
+
+
+def test_survey_md_order_error_shows_the_file_values_as_read(tmp_path):
+    import pytest
+
+    from satheight.errors import DepthError
+
+    survey = "MD [ft],INC [deg],AZI [deg]\n0,0,0\n3400.5,1,0\n3390.25,1,0\n"
+    project = _feet_field(tmp_path, survey=survey)
+    with pytest.raises(DepthError) as ei:
+        compute_well(project, project.wells[0])
+    # the two MDs as written in the file, in its unit (ft), and the lines
+    assert "(3400.5 ft at line 3 then 3390.25 ft)" in ei.value.what
+
+
+def test_survey_tie_in_note_and_start_error_in_the_file_units(tmp_path):
+    import pytest
+
+    from satheight.errors import DepthError
+
+    # no tie-in columns, first station at MD 500 ft: a vertical station at MD 0 is added
+    project = _feet_field(tmp_path / "a", survey="MD [ft],INC,AZI\n500,0,0\n4000,0,0\n")
+    _, notes = compute_well(project, project.wells[0])
+    note = next(n for n in notes if "without a tie-in" in n)
+    assert "starts at MD 500 ft without a tie-in" in note and not re.search(r"\d m\b", note)
+    # first station at 3500 ft, below the log's first sample at MD 1000 m (the LAS file's
+    # unit, as read): each MD in its own file's unit
+    project = _feet_field(tmp_path / "b", survey="MD [ft],INC,AZI\n3500,0,0\n4000,0,0\n")
+    with pytest.raises(DepthError) as ei:
+        compute_well(project, project.wells[0])
+    assert "starts at MD 3500 ft, below the first log sample at MD 1000 m" in ei.value.what

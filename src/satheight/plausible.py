@@ -85,7 +85,7 @@ RANGES: dict[str, Plausible] = {
                            "against the wells' logged TVDSS"),
     "fwl_margin": Plausible("distance of the FWL outside the wells' logged TVDSS range",
                             "length", 0.0, 1000.0, "m", _CP + ": hydrocarbon columns and "
-                            "water legs above 1000 m beyond the logs are rare"),
+                            "water legs reaching that far beyond the logs are rare"),
     "porosity": Plausible("porosity (cutoff or log sample)", "fraction", 0.0, 0.6, "frac",
                           _CP + ": unconsolidated sands and chalks stay below 0.5"),
     "permeability": Plausible("permeability (cutoff)", "permeability", 1e-4 * _MD, 1e5 * _MD,
