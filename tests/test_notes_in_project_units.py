@@ -172,3 +172,46 @@ def test_survey_tie_in_note_and_start_error_in_the_file_units(tmp_path):
     with pytest.raises(DepthError) as ei:
         compute_well(project, project.wells[0])
     assert "starts at MD 3500 ft, below the first log sample at MD 1000 m" in ei.value.what
+
+
+def _feet_project_error(tmp_path, old: str, new: str, extra: str = "") -> str:
+    """The project reader's error for tiny_field's project in units "field" with ``old``
+    replaced by ``new`` in the zone (and ``extra`` appended)."""
+    import pytest
+
+    from satheight.errors import ProjectFileError
+
+    p = make_field(tmp_path, wells=(("w0.las", "W0"),))
+    text = p.read_text(encoding="utf-8").replace('units = "metric"', 'units = "field"')
+    assert old in text
+    p.write_text(text.replace(old, new) + extra, encoding="utf-8")
+    with pytest.raises(ProjectFileError) as ei:
+        load_project(p)
+    return ei.value.what
+
+
+def test_implausible_density_of_a_field_project_is_told_in_its_unit(tmp_path):
+    # a bare 12.5 is taken in g/cm3 (the field system's density unit); the range 950-1250
+    # kg/m3 (plausible.RANGES, common practice) is 0.95-1.25 g/cm3 (1 g/cm3 = 1000 kg/m3,
+    # nist2008)
+    what = _feet_project_error(tmp_path, 'water_density = "1.05 g/cm3"', "water_density = 12.5")
+    assert "is 12.5 g/cm3, outside the plausible range 0.95 to 1.25 g/cm3" in what
+    assert "kg/m3" not in what
+
+
+def test_density_order_error_of_a_field_project_is_in_g_per_cm3(tmp_path):
+    what = _feet_project_error(tmp_path, 'water_density = "1.05 g/cm3"',
+                               'water_density = 0.79\nallow_unusual = ["water_density"]')
+    # the two densities as given (0.79 and 0.8 g/cm3, nist2008: 790 and 800 kg/m3)
+    assert "(0.79 g/cm3) is not greater than" in what and "(0.8 g/cm3)" in what
+    assert "kg/m3" not in what
+
+
+def test_monte_carlo_spread_of_a_feet_project_is_told_in_feet(tmp_path):
+    # sd 2000 ft = 609.6 m is wider than the plausible 500 m (uncertainty_keys.PLAUSIBLE_SPREAD,
+    # common practice) = 1640.42 ft (500 / 0.3048, nist2008)
+    what = _feet_project_error(tmp_path, 'sigma_cos_theta = "26 mN/m"\n',
+                               'sigma_cos_theta = "26 mN/m"\n'
+                               'uncertainty = { fwl = { distribution = "normal", sd = 2000 } }\n')
+    assert "a spread of 2000 ft is wider than the plausible 1640.42 ft" in what
+    assert "(SI)" not in what

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from . import constants as C
-from .errors import SatHeightError
+from .errors import SatHeightError, UnitError
 from .units import GRADIENT_UNITS, from_si, normalise_unit, to_si
 
 
@@ -55,9 +55,24 @@ class Plausible:
         """``value_si`` in the range's display unit."""
         return _from_si(value_si, self.unit, self.kind)
 
-    def text(self) -> str:
-        """``"950 to 1250 kg/m3"``, in the range's display unit."""
-        return f"{self.show(self.low):g} to {self.show(self.high):g} {self.unit}".rstrip()
+    def text(self, unit: str | None = None) -> str:
+        """``"950 to 1250 kg/m3"``, in the range's display unit (or ``unit``)."""
+        u = self.unit if unit is None else unit
+        lo, hi = (_from_si(v, u, self.kind) for v in (self.low, self.high))
+        return f"{lo:g} to {hi:g} {u}".rstrip()
+
+    def unit_for(self, unit: str | None) -> str:
+        """``unit`` if the range can be shown in it (the user's unit), else :attr:`unit`.
+
+        A fraction keeps the range's own unit unless ``unit`` is written (``%``).
+        """
+        if not unit or (self.kind == "fraction" and normalise_unit(unit) in ("", "frac")):
+            return self.unit
+        try:
+            _from_si(1.0, unit, self.kind)
+        except UnitError:
+            return self.unit
+        return unit
 
 
 _CP = "common practice"
@@ -164,7 +179,8 @@ def likely_units(number: float, read_unit: str, rng: Plausible, written: bool = 
 
 
 def outside_message(name: str, value_si: float, shown: str, number: float | None,
-                    read_unit: str | None, written: bool = False) -> tuple[str, str] | None:
+                    read_unit: str | None, written: bool = False,
+                    display_unit: str | None = None) -> tuple[str, str] | None:
     """``(what, hint)`` when ``value_si`` is outside ``RANGES[name]``; ``None`` inside.
 
     Parameters
@@ -179,13 +195,18 @@ def outside_message(name: str, value_si: float, shown: str, number: float | None
         The number and unit as read, to name a unit that fits (``None``: derived value).
     written : bool
         True when the unit was written with the number (see :func:`likely_units`).
+    display_unit : str, optional
+        The user's unit (as read, or the project's): the value and the range are shown in
+        it when it is a unit of the quantity (:meth:`Plausible.unit_for`); default the
+        range's own unit.
     """
     rng = RANGES[name]
     if rng.contains(value_si):
         return None
-    now = rng.show(value_si)
-    what = (f"{shown} is {now:.6g} {rng.unit}".rstrip() + f", outside the plausible range {rng.text()} of the "
-            f"{rng.what} ({rng.source})")
+    unit = rng.unit_for(display_unit)
+    now = _from_si(value_si, unit, rng.kind)
+    what = (f"{shown} is {now:.6g} {unit}".rstrip() + f", outside the plausible range "
+            f"{rng.text(unit)} of the {rng.what} ({rng.source})")
     fits = likely_units(number, read_unit or "", rng, written) if number is not None else []
     hint = (f"did you mean {number:g} {fits[0]}? " if fits else "check the value and its unit; ")
     return what, hint

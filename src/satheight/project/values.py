@@ -156,6 +156,11 @@ class ValueReader:
         unit = self.units["length"]
         return f"{from_si(metres, unit, 'length'):g} {unit}"
 
+    def unit_text(self, value_si: float, kind: str) -> str:
+        """An SI value shown in the project's unit of ``kind`` (6 significant digits)."""
+        unit = self.units[kind]
+        return f"{float(from_si(value_si, unit, kind)):.6g} {unit}"
+
     def existing_file(self, value: Any, key: str, what: str) -> Path:
         """A file path relative to the project file that must exist."""
         text = self.text(value, key)
@@ -210,8 +215,10 @@ class ValueReader:
         leaf = allow_as or key.rsplit(".", 1)[-1]
         if leaf in allowed:
             return
-        number, unit, written, shown = self._as_read(raw, RANGES[name].kind, leaf, derived)
-        msg = outside_message(name, value_si, shown, number, unit, written)
+        kind = RANGES[name].kind
+        number, unit, written, shown = self._as_read(raw, kind, leaf, derived)
+        msg = outside_message(name, value_si, shown, number, unit, written,
+                              display_unit=unit or self.units.get(kind))
         if msg is not None:
             raise self.error(key, msg[0], hint=msg[1] + hint + "if the value is deliberate, add "
                              f'"{leaf}" to {ALLOW_KEY} = [...] in this table')
