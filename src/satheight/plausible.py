@@ -277,7 +277,7 @@ def out_of_range_samples(phi, k) -> np.ndarray:
         return (phi < p.low) | (phi > p.high) | (k < q.low) | (k > q.high)
 
 
-def fluid_line_problems(densities: dict) -> list[str]:
+def fluid_line_problems(densities: dict, unit: str = "kg/m3") -> list[str]:
     """What is implausible about densities derived from pressure lines (gradient / g).
 
     Parameters
@@ -285,6 +285,8 @@ def fluid_line_problems(densities: dict) -> list[str]:
     densities : dict
         Phase (``"water"``, ``"oil"``, ``"gas"``) -> density [kg/m^3] from the fitted
         pressure gradient of that phase.
+    unit : str
+        Density unit the sentences show values and ranges in.
 
     Returns
     -------
@@ -301,12 +303,14 @@ def fluid_line_problems(densities: dict) -> list[str]:
         if rng.contains(rho):
             continue
         fits = [p for p, n in names.items() if p != phase and RANGES[n].contains(rho)]
-        out.append(f"the {phase} line gives {rho:.6g} kg/m3, outside {rng.text()}"
+        out.append(f"the {phase} line gives {_from_si(rho, unit, 'density'):.6g} {unit}, "
+                   f"outside {rng.text(unit)}"
                    + (f" (it fits {' or '.join(fits)})" if fits else
                       " (no phase fits: is the pressure or depth unit right?)"))
     order = [p for p in ("water", "oil", "gas") if p in densities]
     for heavy, light in zip(order, order[1:]):
         if not densities[heavy] > densities[light]:
-            out.append(f"the {heavy} line ({densities[heavy]:.6g} kg/m3) is not denser than the "
-                       f"{light} line ({densities[light]:.6g} kg/m3)")
+            a, b = (_from_si(densities[p], unit, "density") for p in (heavy, light))
+            out.append(f"the {heavy} line ({a:.6g} {unit}) is not denser than the "
+                       f"{light} line ({b:.6g} {unit})")
     return out

@@ -242,7 +242,8 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
         points = resolve_tvdss(points, {})
     notes += points.notes
     bar.step("fitting gradients")
-    analysis = analyse_pressures(points, qualities=qualities)
+    analysis = analyse_pressures(points, qualities=qualities,
+                                 density_unit=U.UNIT_SYSTEMS[system]["density"])
     bar.step("FWL from log Sw")
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
