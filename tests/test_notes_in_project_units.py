@@ -215,3 +215,22 @@ def test_monte_carlo_spread_of_a_feet_project_is_told_in_feet(tmp_path):
                                'uncertainty = { fwl = { distribution = "normal", sd = 2000 } }\n')
     assert "a spread of 2000 ft is wider than the plausible 1640.42 ft" in what
     assert "(SI)" not in what
+
+
+def test_monte_carlo_density_overlap_of_a_field_project_is_in_g_per_cm3(tmp_path):
+    import pytest
+
+    from satheight.errors import SatHeightError
+    from satheight.workflows.uncertainty import well_uncertainty
+
+    # water uniform 0.75 to 1.0 g/cm3 (bare numbers: the field system's unit) against the
+    # oil's 0.8 g/cm3: draws may cross; the message gives both as the user wrote them
+    p = make_field(tmp_path, wells=(("w0.las", "W0"),))
+    text = p.read_text(encoding="utf-8").replace('units = "metric"', 'units = "field"')
+    text += "[zones.uncertainty]\nwater_density = { distribution = \"uniform\", low = 0.75, high = 1.0 }\n"
+    p.write_text(text, encoding="utf-8")
+    project = load_project(p)
+    result, _ = compute_well(project, project.wells[0])
+    with pytest.raises(SatHeightError) as ei:
+        well_uncertainty(project, result)
+    assert "(down to 0.75 g/cm3)" in ei.value.what and "(up to 0.8 g/cm3)" in ei.value.what
