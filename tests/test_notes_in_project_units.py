@@ -234,3 +234,21 @@ def test_monte_carlo_density_overlap_of_a_field_project_is_in_g_per_cm3(tmp_path
     with pytest.raises(SatHeightError) as ei:
         well_uncertainty(project, result)
     assert "(down to 0.75 g/cm3)" in ei.value.what and "(up to 0.8 g/cm3)" in ei.value.what
+
+
+def test_md_top_above_the_first_survey_station_is_told_in_feet(tmp_path):
+    import pytest
+
+    from satheight.errors import DepthError
+
+    # the survey is tied in at MD 3280 ft (999.744 m, just above the log's first sample at
+    # 1000 m); the zone's MD top 3000 ft (914.4 m) lies above it: both in feet, 0.1 ft
+    survey = "MD [ft],INC [deg],AZI [deg],TVD [ft]\n3280,0,0,3280\n4000,0,0,\n"
+    project = _feet_field(tmp_path, survey=survey, tops="[wells.tops]\nS = [3000, 3400]\n")
+    with pytest.raises(DepthError) as ei:
+        compute_well(project, project.wells[0])
+    what = ei.value.what
+    assert "lies above the first survey station" in what and not re.search(r"\d m\b", what)
+    top, station = _numbers(what)
+    # shown to 0.1 ft (units.SHOWN_DECIMALS): within 0.05 ft of metres / 0.3048
+    assert abs(top - 914.4 / FT) <= 0.05 and abs(station - 999.744 / FT) <= 0.05
