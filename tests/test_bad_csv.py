@@ -138,3 +138,12 @@ def test_valid_files_load_with_the_values_written(tmp_path):
     assert list(pp.line) == [2, 3] and math.isclose(pp.pressure[0], 3000 * 6894.757, rel_tol=1e-6)
     assert [t.line for t in read_tops(write(tmp_path, TOPS))] == [2, 3]
     assert len(read_plug_table(write(tmp_path, PLUGS))) == 2
+
+
+def test_core_steps_out_of_order_are_shown_as_read_in_psi(tmp_path):
+    # steps 5 psi then 2.5 psi: the message gives the file's numbers in the file's unit
+    # (not Pa: 5 psi = 34473.8 Pa, NIST SP 811)
+    text = STEPS.replace("P1,air_brine,20,0.3", "P1,air_brine,2.5,0.3")
+    with pytest.raises(SatHeightError) as info:
+        read_pressure_steps(write(tmp_path, text))
+    assert "(5 psi then 2.5 psi)" in info.value.what and "Pa" not in info.value.what

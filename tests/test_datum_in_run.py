@@ -85,3 +85,14 @@ def test_pressures_use_the_parameter_section_datum_for_md_points(tmp_path):
     res = run_pressures(csv, tmp_path / "pout", project_path=project.path, with_logs=False,
                         plot=False)
     assert res["analysis"]["S"].points.tvdss.tolist() == pytest.approx([978.5, 988.5], abs=1e-9)
+
+
+def test_implausible_header_elevation_is_told_in_the_item_unit(tmp_path):
+    # EKB 30000 ft = 9144 m, above the plausible 6000 m (datum.PLAUSIBLE_ELEVATION, common
+    # practice); the item as read and the range in its unit: -1000 m = -3280.84 ft and
+    # 6000 m = 19685 ft (1 ft = 0.3048 m, nist2008)
+    project, spec = _field(tmp_path, well_items="EKB.FT 30000 :\n")
+    with pytest.raises(SatHeightError) as e:
+        compute_well(project, spec)
+    assert "EKB = 30000 FT (~Well) is outside the plausible -3280.84 to 19685 FT" in e.value.what
+    assert " m" not in e.value.what

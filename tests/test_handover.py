@@ -14,6 +14,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import pytest
+from scipy import stats
 
 import satheight
 from satheight.handover import covariance, md_at_tvdss
@@ -152,7 +153,10 @@ def test_covariance_from_stderr_and_correlation():
 
 def test_contacts_csv_lists_given_fwl_and_model_contacts(demo_run, demo_toml):
     c = pd.read_csv(demo_run / "contacts.csv")
-    assert list(c.columns) == ["well", "marker", "zone", "kind", "MD [m]", "TVDSS [m]", "source"]
+    # README (hand-over files): the documented columns, in the project's length unit
+    assert list(c.columns) == ["well", "marker", "zone", "kind", "MD [m]", "TVDSS [m]",
+                               "TVDSS low [m]", "TVDSS high [m]", "interval level [frac]",
+                               "interval meaning", "source"]
     fwl = {z["name"]: float(z["fwl"].split()[0]) for z in demo_toml["zones"]}   # "2105 m"
     kinds = {"oil": "OWC", "gas": "GWC"}
     for z in demo_toml["zones"]:
@@ -161,11 +165,22 @@ def test_contacts_csv_lists_given_fwl_and_model_contacts(demo_run, demo_toml):
         assert len(f) == 5 and (f["source"] == "project file").all()
         # the project file's FWL (demo_project.toml)
         assert np.allclose(f["TVDSS [m]"], fwl[z["name"]], atol=1e-9)
+        # its Monte Carlo FWL is normal with sd "3 m" (demo_project.toml): P10 and P90 are
+        # fwl -+ 3 m x norm.ppf(0.9) (scipy.stats, reference library)
+        sd = float(z["uncertainty"]["fwl"]["sd"].split()[0])
+        q = stats.norm.ppf(0.9) * sd
+        assert np.allclose(f["TVDSS low [m]"], fwl[z["name"]] - q, atol=1e-9)
+        assert np.allclose(f["TVDSS high [m]"], fwl[z["name"]] + q, atol=1e-9)
+        assert (f["interval level [frac]"] == 0.8).all()
+        assert f["interval meaning"].str.startswith("P10 to P90 of the project's Monte Carlo "
+                                                    "FWL distribution (normal)").all()
         oc = rows[rows["kind"] == kinds[z["hydrocarbon"]]]
         assert len(oc) == 5
         # a contact lies above its FWL by the entry height: a few metres in this field
         # (common practice; the demo's entry heights are 5-10 m)
         assert ((oc["TVDSS [m]"] < fwl[z["name"]]) & (oc["TVDSS [m]"] > fwl[z["name"]] - 30)).all()
+        # no stated uncertainty for a contact from the entry height: no interval
+        assert oc[["TVDSS low [m]", "TVDSS high [m]", "interval level [frac]"]].isna().all().all()
     # VANTREL-4 is vertical with datum_elevation = "31.2 m" in the project file: MD = TVDSS + 31.2
     v4 = c[c["well"] == "VANTREL-4"]
     assert np.allclose(v4["MD [m]"], v4["TVDSS [m]"] + 31.2, atol=1e-6)

@@ -87,3 +87,27 @@ def test_zone_option_not_needed_when_the_project_has_one_zone(tmp_path):
     assert list(doc["zones"]) == ["S"]
     assert abs(doc["zones"]["S"]["fwl"]["depth"] - 1000.0) < 0.5   # where the lines were made to meet
     assert doc["zones"]["S"]["project_fwl"] == 1000.0              # tiny field's fwl = "1000 m"
+
+
+def test_line_densities_of_a_field_summary_are_in_g_per_cm3(tmp_path):
+    import re
+
+    csv = tmp_path / "p.csv"
+    # the swapped labels above: water 7.0 kPa/m, oil 9.5 kPa/m; with --units field the
+    # messages give the densities in g/cm3: 7000 / g / 1000 = 0.713801 and 9500 / g / 1000 =
+    # 0.968730 g/cm3 (g = 9.80665 m/s2, 1 g/cm3 = 1000 kg/m3, nist2008)
+    _write(csv, {"water": (7.0, 20000.0, [2050, 2060, 2070, 2080, 2090]),
+                 "oil": (9.5, 20000.0, [1950, 1960, 1970, 1980, 1990])})
+    assert main(["pressures", str(csv), "--no-plots", "--units", "field",
+                 "--out", str(tmp_path / "o")]) == 0
+    doc = json.loads((tmp_path / "o" / "pressures_summary.json").read_text(encoding="utf-8"))
+    z = doc["zones"]["S"]
+    text = " ".join(z["implausible"] + z["notes"])
+    assert "kg/m3" not in text
+    order = next(p for p in z["implausible"] if "not denser" in p)
+    water, oil = (float(x) for x in re.findall(r"\(([\d.]+) g/cm3\)", order))
+    # the fitted lines carry the points' scatter: to 0.5 % of the density
+    assert abs(water - 7000 / G / 1000) < 0.005 * water
+    assert abs(oil - 9500 / G / 1000) < 0.005 * oil
+    # each value in the messages is the summary's own density of that line
+    assert abs(water - z["lines"]["water"]["density_g_cm3"]) < 1e-5

@@ -338,8 +338,9 @@ class PcCurve:
     source: str = ""
 
 
-def make_curve(plug_id, system, pc, sw, rows, source) -> PcCurve:
-    """Validated :class:`PcCurve` (drainage: Pc strictly increasing, Sw non-increasing).
+def make_curve(plug_id, system, pc, sw, rows, source, unit: tuple = ("Pa", 1.0)) -> PcCurve:
+    """Validated :class:`PcCurve` (drainage: Pc strictly increasing, Sw non-increasing);
+    ``unit``: the file's pressure unit and its size [Pa], to show steps as read.
 
     Raises
     ------
@@ -356,8 +357,8 @@ def make_curve(plug_id, system, pc, sw, rows, source) -> PcCurve:
     bad = np.flatnonzero(np.diff(pc) <= 0)
     if bad.size:
         i = bad[0] + 1
-        raise SatHeightError(f"plug {plug_id!r}: pressure steps are not increasing "
-                             f"({pc[i - 1]:.6g} Pa then {pc[i]:.6g} Pa)",
+        a, b = (f"{pc[j] / unit[1]:.6g} {unit[0]}" for j in (i - 1, i))
+        raise SatHeightError(f"plug {plug_id!r}: pressure steps are not increasing ({a} then {b})",
                              where=f"{source}, row {rows[i]}",
                              hint="list the drainage steps of a plug in increasing pressure, "
                                   "without repeats")

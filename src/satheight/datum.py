@@ -66,6 +66,7 @@ class _Found:
     section: str
     value_m: float
     text: str           # value and unit as written
+    unit: str = "m"     # the unit as written (the file's depth unit if none)
 
     def label(self) -> str:
         return f"{self.mnemonic} = {self.text} (~{self.section})"
@@ -101,7 +102,7 @@ def _collect(well: Well, notes: list[str]) -> dict[str, list[_Found]]:
             raise InputFileError(f"datum item {mn} (~{section}) has unit {it.unit!r}: {exc.what}",
                                  where=where, hint=_HINT) from None
         text = f"{value:g} {unit}".strip()
-        found.setdefault(wanted[mn], []).append(_Found(mn, section, value_m, text))
+        found.setdefault(wanted[mn], []).append(_Found(mn, section, value_m, text, unit))
     return found
 
 
@@ -174,8 +175,10 @@ def datum_from_header(well: Well) -> tuple[float, str, list[str]]:
                                                  f"reference by its name")
     lo, hi = PLAUSIBLE_ELEVATION
     if not lo <= chosen.value_m <= hi:
-        raise InputFileError(f"datum elevation {chosen.label()} is {chosen.value_m:g} m, outside "
-                             f"the plausible {lo:g} to {hi:g} m", where=where,
+        u = chosen.unit        # the range in the item's own unit, beside the value as read
+        lo_u, hi_u = (float(units.from_si(v, u, "length")) for v in (lo, hi))
+        raise InputFileError(f"datum elevation {chosen.label()} is outside the plausible "
+                             f"{lo_u:g} to {hi_u:g} {u}", where=where,
                              hint=_HINT + " (check the item's unit)")
     if point == "ground level":
         notes.append(f"{where}: the TVDSS datum elevation is the ground level {chosen.label()}: "

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from . import constants as C
-from .errors import SatHeightError
+from .errors import SatHeightError, UnitError
 from .units import GRADIENT_UNITS, from_si, normalise_unit, to_si
 
 
@@ -55,9 +55,24 @@ class Plausible:
         """``value_si`` in the range's display unit."""
         return _from_si(value_si, self.unit, self.kind)
 
-    def text(self) -> str:
-        """``"950 to 1250 kg/m3"``, in the range's display unit."""
-        return f"{self.show(self.low):g} to {self.show(self.high):g} {self.unit}".rstrip()
+    def text(self, unit: str | None = None) -> str:
+        """``"950 to 1250 kg/m3"``, in the range's display unit (or ``unit``)."""
+        u = self.unit if unit is None else unit
+        lo, hi = (_from_si(v, u, self.kind) for v in (self.low, self.high))
+        return f"{lo:g} to {hi:g} {u}".rstrip()
+
+    def unit_for(self, unit: str | None) -> str:
+        """``unit`` if the range can be shown in it (the user's unit), else :attr:`unit`.
+
+        A fraction keeps the range's own unit unless ``unit`` is written (``%``).
+        """
+        if not unit or (self.kind == "fraction" and normalise_unit(unit) in ("", "frac")):
+            return self.unit
+        try:
+            _from_si(1.0, unit, self.kind)
+        except UnitError:
+            return self.unit
+        return unit
 
 
 _CP = "common practice"
@@ -85,7 +100,7 @@ RANGES: dict[str, Plausible] = {
                            "against the wells' logged TVDSS"),
     "fwl_margin": Plausible("distance of the FWL outside the wells' logged TVDSS range",
                             "length", 0.0, 1000.0, "m", _CP + ": hydrocarbon columns and "
-                            "water legs above 1000 m beyond the logs are rare"),
+                            "water legs reaching that far beyond the logs are rare"),
     "porosity": Plausible("porosity (cutoff or log sample)", "fraction", 0.0, 0.6, "frac",
                           _CP + ": unconsolidated sands and chalks stay below 0.5"),
     "permeability": Plausible("permeability (cutoff)", "permeability", 1e-4 * _MD, 1e5 * _MD,
@@ -164,7 +179,8 @@ def likely_units(number: float, read_unit: str, rng: Plausible, written: bool = 
 
 
 def outside_message(name: str, value_si: float, shown: str, number: float | None,
-                    read_unit: str | None, written: bool = False) -> tuple[str, str] | None:
+                    read_unit: str | None, written: bool = False,
+                    display_unit: str | None = None) -> tuple[str, str] | None:
     """``(what, hint)`` when ``value_si`` is outside ``RANGES[name]``; ``None`` inside.
 
     Parameters
@@ -179,13 +195,18 @@ def outside_message(name: str, value_si: float, shown: str, number: float | None
         The number and unit as read, to name a unit that fits (``None``: derived value).
     written : bool
         True when the unit was written with the number (see :func:`likely_units`).
+    display_unit : str, optional
+        The user's unit (as read, or the project's): the value and the range are shown in
+        it when it is a unit of the quantity (:meth:`Plausible.unit_for`); default the
+        range's own unit.
     """
     rng = RANGES[name]
     if rng.contains(value_si):
         return None
-    now = rng.show(value_si)
-    what = (f"{shown} is {now:.6g} {rng.unit}".rstrip() + f", outside the plausible range {rng.text()} of the "
-            f"{rng.what} ({rng.source})")
+    unit = rng.unit_for(display_unit)
+    now = _from_si(value_si, unit, rng.kind)
+    what = (f"{shown} is {now:.6g} {unit}".rstrip() + f", outside the plausible range "
+            f"{rng.text(unit)} of the {rng.what} ({rng.source})")
     fits = likely_units(number, read_unit or "", rng, written) if number is not None else []
     hint = (f"did you mean {number:g} {fits[0]}? " if fits else "check the value and its unit; ")
     return what, hint
@@ -206,7 +227,7 @@ def require_plausible(name: str, value_si: float, shown: str, number: float | No
 
 
 def fwl_outside_logs(fwl: float, tvdss_low: float, tvdss_high: float,
-                     surface_tvdss: float | None = None) -> str | None:
+                     surface_tvdss: float | None = None, length_unit: str = "m") -> str | None:
     """Why a free-water level is implausible for the wells it applies to, or ``None``.
 
     Parameters
@@ -218,14 +239,21 @@ def fwl_outside_logs(fwl: float, tvdss_low: float, tvdss_high: float,
     surface_tvdss : float, optional
         TVDSS of the shallowest well's depth reference [m] (minus its elevation);
         a FWL above it is above the surface.
+    length_unit : str
+        Unit the message shows depths in (the project's length unit, e.g. ``"ft"``).
     """
     margin = RANGES["fwl_margin"].high
+
+    def d(v):
+        return f"{_from_si(v, length_unit, 'length'):g}"
+
     if surface_tvdss is not None and fwl < surface_tvdss:
-        return (f"the FWL {fwl:g} m TVDSS lies above the surface (the well's depth reference "
-                f"is at {surface_tvdss:g} m TVDSS)")
+        return (f"the FWL {d(fwl)} {length_unit} TVDSS lies above the surface (the well's depth "
+                f"reference is at {d(surface_tvdss)} {length_unit} TVDSS)")
     if fwl < tvdss_low - margin or fwl > tvdss_high + margin:
-        return (f"the FWL {fwl:g} m TVDSS lies more than {margin:g} m outside the logged "
-                f"TVDSS range {tvdss_low:g} to {tvdss_high:g} m of the wells ({RANGES['fwl_margin'].source})")
+        return (f"the FWL {d(fwl)} {length_unit} TVDSS lies more than {d(margin)} {length_unit} "
+                f"outside the logged TVDSS range {d(tvdss_low)} to {d(tvdss_high)} {length_unit} "
+                f"of the wells ({RANGES['fwl_margin'].source})")
     return None
 
 
@@ -249,7 +277,7 @@ def out_of_range_samples(phi, k) -> np.ndarray:
         return (phi < p.low) | (phi > p.high) | (k < q.low) | (k > q.high)
 
 
-def fluid_line_problems(densities: dict) -> list[str]:
+def fluid_line_problems(densities: dict, unit: str = "kg/m3") -> list[str]:
     """What is implausible about densities derived from pressure lines (gradient / g).
 
     Parameters
@@ -257,6 +285,8 @@ def fluid_line_problems(densities: dict) -> list[str]:
     densities : dict
         Phase (``"water"``, ``"oil"``, ``"gas"``) -> density [kg/m^3] from the fitted
         pressure gradient of that phase.
+    unit : str
+        Density unit the sentences show values and ranges in.
 
     Returns
     -------
@@ -273,12 +303,14 @@ def fluid_line_problems(densities: dict) -> list[str]:
         if rng.contains(rho):
             continue
         fits = [p for p, n in names.items() if p != phase and RANGES[n].contains(rho)]
-        out.append(f"the {phase} line gives {rho:.6g} kg/m3, outside {rng.text()}"
+        out.append(f"the {phase} line gives {_from_si(rho, unit, 'density'):.6g} {unit}, "
+                   f"outside {rng.text(unit)}"
                    + (f" (it fits {' or '.join(fits)})" if fits else
                       " (no phase fits: is the pressure or depth unit right?)"))
     order = [p for p in ("water", "oil", "gas") if p in densities]
     for heavy, light in zip(order, order[1:]):
         if not densities[heavy] > densities[light]:
-            out.append(f"the {heavy} line ({densities[heavy]:.6g} kg/m3) is not denser than the "
-                       f"{light} line ({densities[light]:.6g} kg/m3)")
+            a, b = (_from_si(densities[p], unit, "density") for p in (heavy, light))
+            out.append(f"the {heavy} line ({a:.6g} {unit}) is not denser than the "
+                       f"{light} line ({b:.6g} {unit})")
     return out

@@ -27,6 +27,7 @@ import numpy as np
 from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
 from .plausible import fluid_line_problems
+from .units import from_si
 
 __all__ = ["PressurePoints", "LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "analyse_pressures",
            "compare_levels", "DEFAULT_QUALITIES"]
@@ -162,6 +163,8 @@ class Level:
         95 % interval [m] (Student t with the smaller of the two fits' degrees of freedom).
     lines : tuple[str, str]
         The fluids whose lines meet here (denser first).
+    level : float or None
+        Confidence level of ``low``/``high`` (None when there is no interval).
     """
 
     kind: str
@@ -170,6 +173,7 @@ class Level:
     low: float | None
     high: float | None
     lines: tuple[str, str]
+    level: float | None = None
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "depth_m": self.depth, "se_m": self.se,
@@ -390,22 +394,26 @@ def intersect(dense: LineFit, light: LineFit, kind: str = "FWL", level: float = 
     if not np.isfinite(q):
         return Level(kind, float(z), se, None, None, (dense.fluid, light.fluid))
     return Level(kind, float(z), se, float(z - q * se), float(z + q * se),
-                 (dense.fluid, light.fluid))
+                 (dense.fluid, light.fluid), level)
 
 
-def _free_levels(res: ZonePressures) -> None:
+def _free_levels(res: ZonePressures, density_unit: str = "kg/m3") -> None:
     """FWL (water line meets the oil, else gas, line) and free-oil level (oil meets gas).
 
-    A level is refused (not computed, a note says why) when the denser phase's line is
-    not denser than the lighter one's: the lines would meet at a level that does not exist.
+    A level is refused (not computed, a note says why, densities in ``density_unit``) when
+    the denser phase's line is not denser than the lighter one's: the lines would meet at a
+    level that does not exist.
     """
+    def rho(v):
+        return f"{float(from_si(v, density_unit, 'density')):.6g} {density_unit}"
+
     w, o, g = (res.lines.get(f) for f in ("water", "oil", "gas"))
     for dense, light, kind in ((w, o or g, "FWL"), (o, g, "free-oil level")):
         if dense is None or light is None:
             continue
         if not dense.density > light.density:
-            res.notes.append(f"no {kind}: the {dense.fluid} line ({dense.density:.0f} kg/m3) is "
-                             f"not denser than the {light.fluid} line ({light.density:.0f} kg/m3); "
+            res.notes.append(f"no {kind}: the {dense.fluid} line ({rho(dense.density)}) is "
+                             f"not denser than the {light.fluid} line ({rho(light.density)}); "
                              "check the fluid labels and units of the points")
             continue
         try:
@@ -423,7 +431,8 @@ def _free_levels(res: ZonePressures) -> None:
 
 def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
                       gradients: dict[str, float] | None = None, reject: bool = True,
-                      alpha: float = 0.05) -> dict[str, ZonePressures]:
+                      alpha: float = 0.05,
+                      density_unit: str = "kg/m3") -> dict[str, ZonePressures]:
     """Fit lines and find free levels per zone of a pressure file.
 
     Parameters
@@ -437,6 +446,8 @@ def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
         points (only its intercept is then fitted).
     reject, alpha :
         Outlier rejection (see :func:`fit_gradient`).
+    density_unit : str
+        Unit of the densities in the notes and problems (the user's, e.g. ``"g/cm3"``).
 
     Returns
     -------
@@ -465,8 +476,9 @@ def analyse_pressures(points: PressurePoints, *, qualities=DEFAULT_QUALITIES,
                 continue
             lf.used, lf.rejected = sel[lf.used], sel[lf.rejected]
             res.lines[fluid] = lf
-        res.problems = fluid_line_problems({f: ln.density for f, ln in res.lines.items()})
-        _free_levels(res)
+        res.problems = fluid_line_problems({f: ln.density for f, ln in res.lines.items()},
+                                           density_unit)
+        _free_levels(res, density_unit)
         unk = np.flatnonzero(zp.fluid == "unknown")
         if unk.size and res.lines:
             names = list(res.lines)

@@ -51,6 +51,7 @@ from .constants import STANDARD_GRAVITY
 from .distributions import Distribution
 from .engine import ZoneModel
 from .errors import SatHeightError
+from .units import from_si
 from .random_fields import BLOCK, FieldStream, ar1_coefficients, generator, open_uniforms, text_key
 from .results import ShmResult
 
@@ -151,14 +152,31 @@ class MonteCarloResult:
 # --------------------------------------------------------------------------------------
 # checks
 
-def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = "") -> None:
+#: Unit kind of each zone input, for messages in the user's units.
+_INPUT_KIND = {"fwl": "length", "water_density": "density", "hydrocarbon_density": "density",
+               "sigma_cos_theta": "tension"}
+
+
+def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = "",
+                           units: dict | None = None) -> None:
     """Refuse what the Monte Carlo cannot do with this zone, naming ``where`` and the input.
 
     The zone must be two-phase with one J-Sw function (no gas cap, no per-depth rock
     types); every named input must exist; each distribution's support must stay where
     the input is physical: densities > 0 with water denser than the hydrocarbon,
-    sigma*cos(theta) > 0, J-Sw parameters inside the family's bounds.
+    sigma*cos(theta) > 0, J-Sw parameters inside the family's bounds. ``units`` (unit
+    kind -> unit, e.g. :data:`satheight.units.UNIT_SYSTEMS` ``["field"]``) are the units
+    the messages show values in (default SI).
     """
+    si = {"length": "m", "density": "kg/m3", "tension": "N/m"}
+
+    def shown(v, name):
+        kind = _INPUT_KIND.get(name)
+        if kind is None:
+            return f"{v:.6g}"
+        unit = (units or si)[kind]
+        return f"{float(from_si(v, unit, kind)):.6g} {unit}"
+
     where = where or f"zone {zone.name!r}"
     if zone.three_phase or zone.rock_functions:
         raise SatHeightError("Monte Carlo handles two-phase zones with one J-Sw function; this "
@@ -180,13 +198,14 @@ def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = 
                                      hint="use a truncated_normal, triangular or uniform "
                                           "distribution inside the bounds")
         elif name != "fwl" and lo <= 0:
-            raise SatHeightError(f"draws of {name} may reach {lo:.6g}, not > 0",
+            raise SatHeightError(f"draws of {name} may reach {shown(lo, name)}, not > 0",
                                  where=f"{where}.{name}", hint="narrow the distribution")
     w = _support(zone, spec, "water_density")
     h = _support(zone, spec, "hydrocarbon_density")
     if not w[0] > h[1]:
-        raise SatHeightError(f"water density draws (down to {w[0]:.6g} kg/m3) may fall to the "
-                             f"hydrocarbon density draws (up to {h[1]:.6g} kg/m3)", where=where,
+        raise SatHeightError(f"water density draws (down to {shown(w[0], 'water_density')}) may "
+                             "fall to the hydrocarbon density draws (up to "
+                             f"{shown(h[1], 'hydrocarbon_density')})", where=where,
                              hint="narrow the density distributions")
     for name in LOG_ERRORS:
         err = getattr(spec, name)

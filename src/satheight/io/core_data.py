@@ -244,7 +244,8 @@ def _steps_from_rows(t: _Table, rows, plug_of, system_of, default_system):
             sw = 1.0 - s
         else:
             sw = s
-        curves.append(make_curve(plug, system, pc, sw, lines, str(t.path)))
+        curves.append(make_curve(plug, system, pc, sw, lines, str(t.path),
+                                 unit=(t.unit("pc").strip(), pf)))
     return curves
 
 

@@ -80,6 +80,8 @@ class Survey:
     labels : list[str]
         Where each station is in the file (``"line 7"``, ``"MD 1200 m"``), for messages.
     warnings : list[str]
+    md_unit : str
+        The file's MD unit (``"m"``, ``"ft"``...): messages show MDs in it, as read.
     """
 
     md: np.ndarray
@@ -89,6 +91,7 @@ class Survey:
     source: Path
     labels: list[str]
     warnings: list[str] = field(default_factory=list)
+    md_unit: str = "m"
 
 
 def _format_of(path: Path, fmt: str | None) -> str:
@@ -119,7 +122,8 @@ def _unit_factor(unit: str, kind: str, where: str, column: str, default: str | N
         raise InputFileError(f"column {column!r}: {exc.what}", where=where, hint=exc.hint) from None
 
 
-def _validate(md, inc, azi, source: Path, labels: list[str]) -> None:
+def _validate(md, inc, azi, source: Path, labels: list[str], md_unit: str = "m") -> None:
+    """Refuse missing, negative, unordered or out-of-range stations; MDs shown in ``md_unit``."""
     def at(mask):
         return labels[int(np.argmax(mask))]
 
@@ -135,8 +139,9 @@ def _validate(md, inc, azi, source: Path, labels: list[str]) -> None:
         bad = np.r_[False, ~(np.diff(md) > 0)]
         if np.any(bad):
             k = int(np.argmax(bad))
-            raise DepthError(f"survey MD does not increase ({md[k - 1]:g} m at {labels[k - 1]} "
-                             f"then {md[k]:g} m)", where=f"{source}, {labels[k]}",
+            a, b = (_shown_md(v, md_unit) for v in (md[k - 1], md[k]))
+            raise DepthError(f"survey MD does not increase ({a} at {labels[k - 1]} "
+                             f"then {b})", where=f"{source}, {labels[k]}",
                              hint="stations must be in order of strictly increasing MD, without repeats")
     tol = 1e-9
     bad = (inc < -tol) | (inc > math.pi + tol)
@@ -153,6 +158,11 @@ def _validate(md, inc, azi, source: Path, labels: list[str]) -> None:
                              hint="azimuth is measured clockwise from north, 0 to 360 deg")
 
 
+def _shown_md(md_si: float, unit: str) -> str:
+    """An MD [m] as text in the file's unit ``unit``, as read (``"6600 ft"``)."""
+    return f"{float(U.from_si(md_si, unit, 'length')):g} {unit}"
+
+
 def _read_csv(path: Path) -> Survey:
     t = read_table(path, "survey")
     idx = {}
@@ -165,7 +175,7 @@ def _read_csv(path: Path) -> Survey:
                                  hint="name the columns e.g. 'MD [m],INC [deg],AZI [deg]'")
         idx[key] = i
     where_h = f"{path}, line {t.header_line}"
-    md_unit = t.units[idx["md"]]
+    md_unit = t.units[idx["md"]].strip()
     f_md = _unit_factor(md_unit, "length", where_h, t.original[idx["md"]], None)
     f_inc = _unit_factor(t.units[idx["inc"]], "angle", where_h, t.original[idx["inc"]], "deg")
     f_azi = _unit_factor(t.units[idx["azi"]], "angle", where_h, t.original[idx["azi"]], "deg")
@@ -189,8 +199,8 @@ def _read_csv(path: Path) -> Survey:
                                      hint="give the first station's TVD (and NORTH, EAST), or remove the column")
             vals.append(t.first_number(c) * f)          # later rows are not read
         tie = (vals[0], vals[1], vals[2])
-    _validate(md, inc, azi, path, labels)
-    return Survey(md=md, inc=inc, azi=azi, tie_in=tie, source=path, labels=labels)
+    _validate(md, inc, azi, path, labels, md_unit)
+    return Survey(md=md, inc=inc, azi=azi, tie_in=tie, source=path, labels=labels, md_unit=md_unit)
 
 
 def _read_las_survey(path: Path) -> Survey:
@@ -237,9 +247,9 @@ def _read_las_survey(path: Path) -> Survey:
             vals.append(v)
         tie = (vals[0], vals[1], vals[2])
     md, inc, azi = well.md.copy(), angle(inc_c), angle(azi_c)
-    _validate(md, inc, azi, path, labels)
+    _validate(md, inc, azi, path, labels, depth_unit)
     return Survey(md=md, inc=inc, azi=azi, tie_in=tie, source=path, labels=labels,
-                  warnings=list(well.warnings))
+                  warnings=list(well.warnings), md_unit=depth_unit)
 
 
 def read_survey(path, fmt: str | None = None) -> Survey:
@@ -269,7 +279,7 @@ def read_survey(path, fmt: str | None = None) -> Survey:
 
 
 def survey_trajectory(survey: Survey, log_top_md: float | None = None,
-                      log_source: str | None = None) -> Trajectory:
+                      log_source: str | None = None, log_unit: str = "m") -> Trajectory:
     """Minimum-curvature trajectory of a survey, tied in by the rule of the module docstring.
 
     Parameters
@@ -279,6 +289,9 @@ def survey_trajectory(survey: Survey, log_top_md: float | None = None,
         MD of the first log sample [m]; the first station must be at or above it.
     log_source : str, optional
         The log file, named in the error.
+    log_unit : str
+        The log file's depth unit: the error shows the log's MD in it, the survey's MD in
+        the survey's own unit (each as read).
 
     Returns
     -------
@@ -297,8 +310,9 @@ def survey_trajectory(survey: Survey, log_top_md: float | None = None,
     """
     md, inc, azi = survey.md, survey.inc, survey.azi
     if log_top_md is not None and math.isfinite(log_top_md) and md[0] > log_top_md + 1e-6:
-        raise DepthError(f"the survey starts at MD {md[0]:g} m, below the first log sample at MD "
-                         f"{log_top_md:g} m" + (f" of {log_source}" if log_source else ""),
+        raise DepthError(f"the survey starts at MD {_shown_md(md[0], survey.md_unit)}, below the "
+                         f"first log sample at MD {_shown_md(log_top_md, log_unit)}"
+                         + (f" of {log_source}" if log_source else ""),
                          where=str(survey.source),
                          hint="add survey stations up to the top of the log (or to MD 0)")
     tie = survey.tie_in
@@ -308,7 +322,8 @@ def survey_trajectory(survey: Survey, log_top_md: float | None = None,
             md = np.r_[0.0, md]
             inc = np.r_[0.0, inc]
             azi = np.r_[azi[0], azi]
-            warnings.warn(f"{survey.source}: the survey starts at MD {survey.md[0]:g} m without a "
+            warnings.warn(f"{survey.source}: the survey starts at MD "
+                          f"{_shown_md(survey.md[0], survey.md_unit)} without a "
                           "tie-in (TVD, NORTH, EAST): a vertical station at MD 0 was added above it",
                           stacklevel=2)
     return minimum_curvature(md, inc, azi, tie_in=tie, source=str(survey.source))

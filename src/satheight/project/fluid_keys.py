@@ -293,8 +293,9 @@ def _gas_cap(reader, t, key, hydrocarbon, fwl, rho_h, conditions, notes) -> dict
         raise reader.error(f"{key}.gas_density", "a gas_oil_level needs the gas density",
                            hint='add gas_density = "0.2 g/cm3" or gas = { gravity = 0.65 }')
     if not rho_g < rho_h:
-        raise reader.error(f"{key}.gas_density", f"gas density {rho_g:.6g} kg/m3 is not less "
-                           f"than the oil density {rho_h:.6g} kg/m3",
+        raise reader.error(f"{key}.gas_density", f"gas density "
+                           f"{reader.unit_text(rho_g, 'density')} is not less than the oil "
+                           f"density {reader.unit_text(rho_h, 'density')}",
                            hint="check the two densities and their units")
     if "gas_sigma_cos_theta" not in t:
         raise reader.error(f"{key}.gas_sigma_cos_theta",
@@ -322,10 +323,12 @@ def _check_conditions(reader, t, key, p, temp, info, allowed) -> None:
         reader.plausible("pressure_gradient", grad, f"{ck}.pressure_gradient",
                          c["pressure_gradient"], allowed=allowed)
         reader.plausible("pressure", p, f"{ck}.pressure_gradient", None, allowed=allowed,
-                         allow_as="pressure", derived=f"at {info['depth_m']:g} m from the gradient")
+                         allow_as="pressure",
+                         derived=f"at {reader.length_text(info['depth_m'])} from the gradient")
     temp_raw = c["temperature"] if "temperature" in c else None
     reader.plausible("temperature", temp, f"{ck}.temperature", temp_raw, allowed=allowed,
-                     derived=f"at {info['depth_m']:g} m from the temperature gradient")
+                     derived=f"at {reader.length_text(info['depth_m'])} from the temperature "
+                             "gradient")
 
 
 def _read_conditions(reader, t, key, fwl, system) -> tuple[float, float, dict]:
@@ -376,8 +379,9 @@ def _read_conditions(reader, t, key, fwl, system) -> tuple[float, float, dict]:
                            "is given", hint='add temperature = "80 degC" or temperature_gradient '
                                             '= "30 degC/km"')
     if not (p > 0 and temp > 0):
-        raise reader.error(ck, f"conditions give pressure {p:.6g} Pa and temperature "
-                           f"{temp:.6g} K at depth {depth:g} m; both must be positive",
+        raise reader.error(ck, f"conditions give pressure {reader.unit_text(p, 'pressure')} and "
+                           f"temperature {reader.unit_text(temp, 'temperature')} at depth "
+                           f"{reader.length_text(depth)}; both must be positive",
                            hint="check the gradients, surface values and depth")
     info.update(pressure_Pa=p, temperature_K=temp)
     return p, temp, info

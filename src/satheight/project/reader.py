@@ -416,9 +416,11 @@ class _Reader(ValueReader):
         rho_w, rho_h = zf["water_density"], zf["hydrocarbon_density"]
         if not rho_w > rho_h:
             raise self.error(f"{key}.water_density",
-                             f"water_density {t.get('water_density', 'from water')!r} ({rho_w:.6g} kg/m3) is not "
-                             f"greater than hydrocarbon_density {t.get('hydrocarbon_density', 'from a correlation')!r} "
-                             f"({rho_h:.6g} kg/m3): water must be denser than the hydrocarbon",
+                             f"water_density {t.get('water_density', 'from water')!r} "
+                             f"({self.unit_text(rho_w, 'density')}) is not greater than "
+                             f"hydrocarbon_density {t.get('hydrocarbon_density', 'from a correlation')!r} "
+                             f"({self.unit_text(rho_h, 'density')}): water must be denser than "
+                             "the hydrocarbon",
                              hint="check the two values and their units")
         sigma = self.quantity(t["sigma_cos_theta"], f"{key}.sigma_cos_theta", "tension",
                               positive=True)
@@ -446,7 +448,8 @@ class _Reader(ValueReader):
         ge = self.number(p["gradient_east"], f"{k}.gradient_east")
         gn = self.number(p["gradient_north"], f"{k}.gradient_north")
         if "fwl_plane" not in allowed and (ge * ge + gn * gn) ** 0.5 > _MAX_FWL_TILT:
-            raise self.error(k, f"the FWL plane dips {(ge * ge + gn * gn) ** 0.5:g} m per m "
+            lu = self.units["length"]
+            raise self.error(k, f"the FWL plane dips {(ge * ge + gn * gn) ** 0.5:g} {lu} per {lu} "
                              f"(more than {_MAX_FWL_TILT:g}, about 3 degrees)",
                              hint="gradients are depth change per horizontal distance (m/m or "
                                   'ft/ft); if the tilt is deliberate, add "fwl_plane" to '
@@ -471,7 +474,9 @@ class _Reader(ValueReader):
             if phase == "hydrocarbon":
                 fits = [ph for ph, n in PHASE_DENSITY.items()
                         if ph not in (hydrocarbon, "air") and RANGES[n].contains(rho)]
-                hint = "".join(f"{rho:.6g} kg/m3 fits {ph} ({RANGES[PHASE_DENSITY[ph]].text()}): "
+                du = self.units["density"]
+                hint = "".join(f"{self.unit_text(rho, 'density')} fits {ph} "
+                               f"({RANGES[PHASE_DENSITY[ph]].text(du)}): "
                                f'is hydrocarbon = "{ph}" meant? ' for ph in fits)
             where = f"{key}.{k}" if k in t else f"{key}.{source}"
             self.plausible(name, rho, where, t.get(k), allowed=allowed, allow_as=k,

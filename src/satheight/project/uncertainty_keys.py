@@ -44,7 +44,7 @@ from typing import Any
 from ..distributions import KINDS, Distribution
 from ..errors import ProjectFileError, UnitError
 from ..uncertainty import LOG_ERRORS, LogError, MonteCarloSettings, ZoneUncertainty
-from ..units import UNIT_SYSTEMS, parse_quantity
+from ..units import UNIT_SYSTEMS, from_si, parse_quantity
 
 #: The zone key this module reads (added to the project reader's allowed zone keys).
 UNCERTAINTY_ZONE_KEY = "uncertainty"
@@ -94,6 +94,13 @@ class _Keys:
                                  hint="allowed keys: " + ", ".join(allowed))
         return raw
 
+    def shown(self, value_si: float, kind: str | None) -> str:
+        """An SI value (or a spread of values) in the project's unit of ``kind``."""
+        if kind is None:
+            return f"{value_si:.6g}"
+        unit = self.units[kind]
+        return f"{float(from_si(value_si, unit, kind)):.6g} {unit}".rstrip()
+
     def value(self, raw: Any, key: str, kind: str | None) -> float:
         if kind is None:
             if isinstance(raw, bool) or not isinstance(raw, (int, float)) or not math.isfinite(raw):
@@ -137,8 +144,9 @@ class _Keys:
             raise self.error(f"{key}.low", f"low {t['low']!r} is above high {t['high']!r}")
         spread = vals["sd"] if "sd" in vals else vals["high"] - vals["low"]
         if spread > spread_limit and not self.accept:
-            raise self.error(key, f"a spread of {spread:.6g} (SI) is wider than the plausible "
-                                  f"{spread_limit:g}", hint="check the value and its unit, or set "
+            raise self.error(key, f"a spread of {self.shown(spread, kind)} is wider than the "
+                                  f"plausible {self.shown(spread_limit, kind)}",
+                             hint="check the value and its unit, or set "
                                   "accept_implausible = true under [uncertainty]")
         return Distribution(kind=name, **vals)
 
@@ -190,8 +198,8 @@ def _zone(keys: _Keys, raw: Any, key: str) -> ZoneUncertainty:
                 length = keys.value(t[name]["correlation_length"], f"{k}.correlation_length", "length")
                 if not 0 <= length <= PLAUSIBLE_CORRELATION_LENGTH and not (keys.accept and length >= 0):
                     raise keys.error(f"{k}.correlation_length", f"expected 0 to "
-                                     f"{PLAUSIBLE_CORRELATION_LENGTH:g} m, found "
-                                     f"{t[name]['correlation_length']!r}")
+                                     f"{keys.shown(PLAUSIBLE_CORRELATION_LENGTH, 'length')}, "
+                                     f"found {t[name]['correlation_length']!r}")
             errors[name] = LogError(distribution=d, correlation_length=length)
     return ZoneUncertainty(inputs=inputs, **errors)
 

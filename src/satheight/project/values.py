@@ -156,6 +156,11 @@ class ValueReader:
         unit = self.units["length"]
         return f"{from_si(metres, unit, 'length'):g} {unit}"
 
+    def unit_text(self, value_si: float, kind: str) -> str:
+        """An SI value shown in the project's unit of ``kind`` (6 significant digits)."""
+        unit = self.units[kind]
+        return f"{float(from_si(value_si, unit, kind)):.6g} {unit}"
+
     def existing_file(self, value: Any, key: str, what: str) -> Path:
         """A file path relative to the project file that must exist."""
         text = self.text(value, key)
@@ -210,8 +215,10 @@ class ValueReader:
         leaf = allow_as or key.rsplit(".", 1)[-1]
         if leaf in allowed:
             return
-        number, unit, written, shown = self._as_read(raw, RANGES[name].kind, leaf, derived)
-        msg = outside_message(name, value_si, shown, number, unit, written)
+        kind = RANGES[name].kind
+        number, unit, written, shown = self._as_read(raw, kind, leaf, derived)
+        msg = outside_message(name, value_si, shown, number, unit, written,
+                              display_unit=unit or self.units.get(kind))
         if msg is not None:
             raise self.error(key, msg[0], hint=msg[1] + hint + "if the value is deliberate, add "
                              f'"{leaf}" to {ALLOW_KEY} = [...] in this table')
@@ -228,7 +235,8 @@ class ValueReader:
         return float(raw), default, False, f"{leaf} = {raw!r} (a bare number, taken in {default})"
 
 
-def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) -> None:
+def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None,
+                         system: str = "metric") -> None:
     """Refuse a zone's FWL far outside a well's logged TVDSS or above its surface.
 
     Called by the run with each well's TVDSS, as the check needs the wells; the zone's
@@ -244,12 +252,15 @@ def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None) 
         The well's TVDSS [m], positive down.
     surface_tvdss : float, optional
         TVDSS of the well's depth reference [m] (minus its elevation).
+    system : str
+        The project's unit system: the message shows depths in its length unit.
     """
     z = np.asarray(tvdss, dtype=float)
     z = z[np.isfinite(z)]
     if "fwl" in zone.allow_unusual or z.size == 0:
         return
-    why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss)
+    why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss,
+                           UNIT_SYSTEMS[system]["length"])
     if why is not None:
         raise ProjectFileError(why, where=f"{path}, key zones[{zone.name}].fwl",
                                hint="check the FWL and its unit (TVDSS, positive down); if it "

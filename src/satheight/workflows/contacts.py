@@ -33,6 +33,7 @@ from ..roles import find_curve
 from .output_folder import InputFiles, OutputSession
 from .console import SCHEMA_VERSION, Progress
 from .outputs import check_wells, open_project, project_inputs, safe_name
+from .handover import fwl_search_rows, pressure_rows, write_contacts
 from .well import compute_well, datum_elevation, well_path
 
 __all__ = ["run_fwl", "run_pressures", "fwl_from_project", "parse_exclude", "parse_fit_bounds"]
@@ -103,7 +104,8 @@ def check_fwl_options(options: dict) -> None:
 
 def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
             overwrite: bool = False, progress: bool = False, **options) -> dict:
-    """FWL search per zone from log Sw; writes ``fwl_<zone>.json`` and ``fwl_<zone>_misfit.png``.
+    """FWL search per zone from log Sw; writes ``fwl_<zone>.json``, ``fwl_<zone>_misfit.png``
+    and ``contacts.csv`` (the hand-over columns of :mod:`satheight.workflows.handover`).
 
     Parameters
     ----------
@@ -163,6 +165,7 @@ def run_fwl(project_path, out_dir, zones=None, wells=None, plot: bool = True,
             if plot:
                 files += save_figure(misfit_plot(res, units=project.unit_system),
                                      session.work / f"fwl_{_safe(name)}_misfit.png")
+        files.append(write_contacts(fwl_search_rows(summary), session.work / "contacts.csv", lu))
         files = session.commit(files)
     return {"project": str(project.path), "units": lu, "zones": summary, "notes": notes,
             "files": files, "results": results}
@@ -173,6 +176,9 @@ def run_pressures(pressure_file, out_dir, project_path=None, zone: str | None = 
                   with_logs: bool = True, plot: bool = True, n_boot: int = 200,
                   overwrite: bool = False, progress: bool = False) -> dict:
     """Gradients, FWL and free-oil level from a pressure file; compare with the project.
+
+    Writes ``pressures_summary.json``, ``contacts.csv`` (the hand-over columns of
+    :mod:`satheight.workflows.handover`) and the pressure-depth plot(s).
 
     Parameters
     ----------
@@ -236,7 +242,8 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
         points = resolve_tvdss(points, {})
     notes += points.notes
     bar.step("fitting gradients")
-    analysis = analyse_pressures(points, qualities=qualities)
+    analysis = analyse_pressures(points, qualities=qualities,
+                                 density_unit=U.UNIT_SYSTEMS[system]["density"])
     bar.step("FWL from log Sw")
     log = _log_fwls(project, analysis, n_boot, notes) if project is not None and with_logs else {}
     summary = {name: _zone_pressures_summary(name, zp, project, log, (lf, pf, lu, pu), notes)
@@ -249,7 +256,7 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
     with OutputSession(Path(out_dir), "pressures", overwrite, inputs) as session:
         path = session.work / "pressures_summary.json"
         atomic_write_text(path, json.dumps(doc, indent=2, allow_nan=False) + "\n")
-        files = [path]
+        files = [path, write_contacts(pressure_rows(summary), session.work / "contacts.csv", lu)]
         for name, zp in analysis.items() if plot else ():
             lg = (log[name].best, log[name].low, log[name].high) if name in log else None
             files += save_figure(pressure_plot(zp, units=system, log_fwl=lg),
@@ -300,7 +307,8 @@ def _zone_pressures_summary(name: str, zp, project: Project | None, log: dict, u
     if name in log and zp.fwl is not None:
         r = log[name]
         c = compare_levels(zp.fwl.depth, zp.fwl.low, zp.fwl.high, r.best, r.low, r.high)
-        d["log_fwl"] = {"best": r.best / lf, "interval": [r.low / lf, r.high / lf]}
+        d["log_fwl"] = {"best": r.best / lf, "interval": [r.low / lf, r.high / lf],
+                        "confidence_level": r.level}
         d["versus_log_fwl"] = _cmp(c, lf)
         if not c["consistent"]:
             notes.append(f"zone {name}: FWL from pressures {zp.fwl.depth / lf:.2f} {lu} and "
@@ -347,7 +355,7 @@ def _datums(project, wells: set, notes: list[str] | None = None) -> dict:
             elev, _, more = datum_elevation(well, spec, project.unit_system)
             if notes is not None:
                 notes += more
-            md_to_tvdss = well_path(spec, well, elev)[3]
+            md_to_tvdss = well_path(spec, well, elev, project.unit_system)[3]
             out[name] = elev if md_to_tvdss is None else md_to_tvdss
     return out
 
@@ -369,7 +377,7 @@ def _level(lv, lf):
     return {"depth": lv.depth / lf, "se": None if lv.se is None else lv.se / lf,
             "interval": [None if lv.low is None else lv.low / lf,
                          None if lv.high is None else lv.high / lf],
-            "lines": list(lv.lines)}
+            "confidence_level": lv.level, "lines": list(lv.lines)}
 
 
 def _cmp(c, lf):

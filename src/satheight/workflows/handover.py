@@ -1,7 +1,9 @@
 """The hand-over files of a run, for the tools that come next.
 
 * ``contacts.csv``: every contact the run used or found, one row each, as markers
-  (well, zone, kind, MD, TVDSS, source, interval) in the project's length unit;
+  (well, zone, kind, MD, TVDSS, interval and what it means, source) in the project's
+  length unit; the ``fwl`` and ``pressures`` commands write the same columns
+  (:data:`CONTACT_COLUMNS`) for the levels they find;
 * ``shf_models.json``: per zone and rock type, the J-Sw function with its parameters,
   standard errors and covariance, the fluids and the FWL;
 * ``shf_table.csv``: Sw against height above the FWL for a grid of permeabilities at the
@@ -39,13 +41,49 @@ POROSITY_RULE = ("median over the computed wells of each well's median porosity 
                  "zone's net-reservoir samples (the comparison cutoffs)")
 
 
-def contact_rows(summaries: list[dict]) -> list[dict]:
+#: Columns of every ``contacts.csv`` (``run``, ``fwl`` and ``pressures`` write the same
+#: schema); ``{u}`` is the length unit. Depths are TVDSS, positive down; low is the
+#: shallow end of the interval, high the deep end.
+CONTACT_COLUMNS = ("well", "marker", "zone", "kind", "MD [{u}]", "TVDSS [{u}]",
+                   "TVDSS low [{u}]", "TVDSS high [{u}]", "interval level [frac]",
+                   "interval meaning", "source")
+
+#: What each row's interval means (the ``interval meaning`` column).
+MEANING_MONTE_CARLO = "P10 to P90 of the project's Monte Carlo FWL distribution ({kind})"
+MEANING_BOOTSTRAP = "confidence interval: moving-block bootstrap of the log samples"
+MEANING_PRESSURE = "confidence interval: Student t, propagated from the two pressure-line fits"
+#: Probabilities of the Monte Carlo FWL interval (10th and 90th percentiles of depth).
+MONTE_CARLO_QUANTILES = (0.1, 0.9)
+
+
+def _row(well, zone, kind, tvdss, source, *, md=None, low=None, high=None, level=None,
+         meaning="") -> dict:
+    """One contact row (depths in the file's length unit); without ``low``/``high`` no interval."""
+    if low is None or high is None:
+        low = high = level = None
+        meaning = ""
+    return {"well": well, "zone": zone, "kind": kind, "md": md, "tvdss": tvdss, "low": low,
+            "high": high, "level": level, "meaning": meaning, "source": source}
+
+
+def _fwl_spread(project: Project | None, zone: str):
+    """The zone's Monte Carlo FWL distribution (SI), or None when the project gives none."""
+    spec = project.uncertainty if project is not None else None
+    zu = spec.zones.get(zone) if spec is not None else None
+    return zu.inputs.get("fwl") if zu is not None else None
+
+
+def contact_rows(summaries: list[dict], project: Project | None = None) -> list[dict]:
     """One row per contact of each well's summary (``zones[*].contact``), in summary units.
 
     Kinds: ``FWL`` (given in the project file), ``FOL`` (free-oil level of a gas cap over
     an oil leg, given), and ``OWC``/``GWC``/``entry level`` (one entry height above the FWL
-    for the well's typical rock: from the model and the well's logs).
+    for the well's typical rock: from the model and the well's logs). A FWL whose zone
+    has a Monte Carlo FWL distribution in ``project`` gets its P10 to P90 as the
+    interval (the distribution centred on the well's FWL, as the Monte Carlo draws it);
+    the other rows have no stated uncertainty and no interval.
     """
+    lf = U.factor(U.UNIT_SYSTEMS[project.unit_system]["length"], "length") if project else 1.0
     rows = []
     for s in summaries:
         for zone, block in s.get("zones", {}).items():
@@ -60,26 +98,79 @@ def contact_rows(summaries: list[dict]) -> list[dict]:
                 tvdss = c.get(f"{key}_tvdss")
                 if tvdss is None:
                     continue
-                rows.append({"well": s["well"], "zone": zone, "kind": kind,
-                             "md": c.get(f"{key}_md"), "tvdss": tvdss, "source": source})
+                spread = _fwl_spread(project, zone) if key == "fwl" else None
+                low = high = None
+                if spread is not None:
+                    q = spread.centred(tvdss * lf).ppf(np.array(MONTE_CARLO_QUANTILES))
+                    low, high = float(q[0]) / lf, float(q[1]) / lf
+                rows.append(_row(s["well"], zone, kind, tvdss, source, md=c.get(f"{key}_md"),
+                                 low=low, high=high,
+                                 level=MONTE_CARLO_QUANTILES[1] - MONTE_CARLO_QUANTILES[0],
+                                 meaning=MEANING_MONTE_CARLO.format(
+                                     kind=spread.kind if spread else "")))
     return rows
 
 
-def write_contacts(summaries: list[dict], path: Path, length_unit: str) -> Path:
-    """``contacts.csv``: well, marker, zone, kind, MD, TVDSS [project length unit], source."""
-    rows = contact_rows(summaries)
+def fwl_search_rows(zones: dict) -> list[dict]:
+    """Rows of the ``fwl`` command: each zone's joint best FWL and its interval.
 
+    ``zones``: zone name -> the zone's JSON summary (``fwl_<zone>.json``), whose units the
+    rows keep. The FWL is one level for the zone (no well, no MD).
+    """
+    rows = []
+    for name, d in zones.items():
+        low, high = d["interval"]
+        n = len(d.get("wells", []))
+        rows.append(_row("", name, "FWL", d["best_fwl"],
+                         f"FWL search from log Sw, joint over {n} well{'s' if n != 1 else ''}",
+                         low=low, high=high, level=d["confidence_level"],
+                         meaning=MEANING_BOOTSTRAP))
+    return rows
+
+
+def pressure_rows(zones: dict) -> list[dict]:
+    """Rows of the ``pressures`` command: per zone the FWL and free-oil level from the
+    pressure lines, and the FWL from log Sw when it was searched.
+
+    ``zones``: zone name -> the zone's block of ``pressures_summary.json`` (its units).
+    """
+    rows = []
+    for name, d in zones.items():
+        for kind, key in (("FWL", "fwl"), ("FOL", "free_oil_level")):
+            lv = d.get(key)
+            if lv is None:
+                continue
+            low, high = lv["interval"]
+            rows.append(_row("", name, kind, lv["depth"],
+                             f"pressure gradients: the {' and '.join(lv['lines'])} lines meet",
+                             low=low, high=high, level=lv.get("confidence_level"),
+                             meaning=MEANING_PRESSURE))
+        lg = d.get("log_fwl")
+        if lg is not None:
+            rows.append(_row("", name, "FWL", lg["best"], "FWL search from log Sw",
+                             low=lg["interval"][0], high=lg["interval"][1],
+                             level=lg.get("confidence_level"), meaning=MEANING_BOOTSTRAP))
+    return rows
+
+
+def write_contacts(rows: list[dict], path: Path, length_unit: str) -> Path:
+    """``contacts.csv`` of ``rows`` (:func:`contact_rows`, :func:`fwl_search_rows`,
+    :func:`pressure_rows`) in the columns :data:`CONTACT_COLUMNS`, written atomically.
+
+    Text from inputs (well and zone names) is made safe for a spreadsheet cell by the
+    table writer (:func:`satheight.io.tables.safe_cell`).
+    """
     def col(key):
         return [r[key] for r in rows]
 
     def num(key):
         return np.array([np.nan if r[key] is None else r[key] for r in rows], dtype=float)
 
-    columns = {"well": col("well"), "marker": [f"{r['zone']} {r['kind']}" for r in rows],
-               "zone": col("zone"), "kind": col("kind"),
-               f"MD [{length_unit}]": num("md"), f"TVDSS [{length_unit}]": num("tvdss"),
-               "source": col("source")}
-    return write_table(columns, csv_path=path)[0]
+    names = [c.format(u=length_unit) for c in CONTACT_COLUMNS]
+    values = [col("well"), [f"{r['zone']} {r['kind']}" for r in rows], col("zone"),
+              col("kind"), num("md"), num("tvdss"), num("low"), num("high"), num("level"),
+              col("meaning"), col("source")]
+    return write_table(dict(zip(names, values)), csv_path=path)[0]
 
 
 def _zone_porosity(summaries: list[dict], zone: str) -> float | None:
@@ -201,7 +292,7 @@ def write_handover(project: Project, summaries: list[dict], out_dir: Path,
                    notes: list[str]) -> list[Path]:
     """Write the hand-over files; a failure of the function files is a note, not a failed run."""
     lu = U.UNIT_SYSTEMS[project.unit_system]["length"]
-    files = [write_contacts(summaries, out_dir / "contacts.csv", lu)]
+    files = [write_contacts(contact_rows(summaries, project), out_dir / "contacts.csv", lu)]
     try:
         files += write_shf(project, summaries, out_dir)
     except SatHeightError as exc:

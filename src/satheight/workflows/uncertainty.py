@@ -68,7 +68,8 @@ def well_uncertainty(project, result: WellResult) -> WellUncertainty | None:
     if not unc:
         return None
     for name, z in unc.items():
-        check_zone_uncertainty(here[name], z, where=f"{project.path}, key zones[{name}].uncertainty")
+        check_zone_uncertainty(here[name], z, where=f"{project.path}, key zones[{name}].uncertainty",
+                               units=U.UNIT_SYSTEMS[project.unit_system])
     cut = project.comparison
     mc = monte_carlo(result.tvdss, result.phi, result.k, result.zones, result.shm, unc,
                      spec.settings, cut.min_porosity, cut.min_permeability, well=result.well.name)

@@ -18,7 +18,7 @@ from .. import __version__
 from .. import units as U
 from ..datum import AGREE_TOLERANCE as DATUM_AGREE_TOLERANCE, datum_from_header
 from ..engine import ZoneModel, compute_shm, zone_for_well
-from ..errors import ProjectFileError, SatHeightError
+from ..errors import DepthError, ProjectFileError, SatHeightError
 from ..io.dlis import read_log_file
 from ..io.survey import read_survey, survey_trajectory
 from ..logsw import SHALY_SAND, archie_sw
@@ -231,7 +231,7 @@ def compute_well(project: Project, spec: WellSpec,
     zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss, need_fwl)
     for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
         if not math.isnan(zn.fwl):
-            check_fwl_near_wells(project.path, zn, tvdss, -elev)
+            check_fwl_near_wells(project.path, zn, tvdss, -elev, project.unit_system)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
@@ -292,7 +292,7 @@ def well_path(spec: WellSpec, well: Well, elev: float, system: str = "metric"):
         warnings.simplefilter("always")
         survey = read_survey(spec.survey, spec.survey_format)
         md0 = float(np.nanmin(well.md)) if well.md.size else None
-        traj = survey_trajectory(survey, md0, str(well.source))
+        traj = survey_trajectory(survey, md0, str(well.source), well.depth_unit)
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")     # said below in the project's length unit
         tvd, north, east = traj.at(well.md)
@@ -304,6 +304,12 @@ def well_path(spec: WellSpec, well: Well, elev: float, system: str = "metric"):
                     "along the last station's direction")
 
     def md_to_tvdss(md):
+        above = np.asarray(md, dtype=float) < traj.md[0] - 1e-9
+        if np.any(above):        # said here in the project's length unit, not the survey's metres
+            raise DepthError(f"MD {U.shown(float(np.min(np.asarray(md)[above])), 'length', system)} "
+                             f"lies above the first survey station (MD "
+                             f"{U.shown(traj.md[0], 'length', system)})", where=str(spec.survey),
+                             hint="add survey stations above it or a tie-in station at MD 0")
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
             return traj.at(md)[0] - elev
