@@ -307,3 +307,72 @@ def test_a_non_positive_model_file_covariance_names_the_file(tmp_path):
     msg = str(e.value)
     assert "not positive semi-definite" in msg and "core_models.json" in msg
     assert "rock_types[Upper Sand].fits[power_law]" in msg
+
+
+# ---------------------------------------------------------------------- the band in the track plot
+
+def test_track_plot_band_edges_are_the_percentile_curves_written_to_the_las(tmp_path):
+    """The band is drawn when percentiles exist and not otherwise; its dashed edges and the
+    fill's outline hold exactly the SW_P10 / SW_P90 values the run wrote to the LAS (the
+    file's values, read back with lasio), at the samples kept by the thinning."""
+    import lasio
+    from matplotlib.collections import PolyCollection
+
+    from satheight.plots import track_plot
+    from satheight.plots.track_curves import BAND_LABEL
+    from satheight.workflows.outputs import PlotOptions, write_outputs
+    from satheight.api import run_well
+    from satheight.workflows.uncertainty import well_uncertainty
+
+    project = parse_project(_project(tmp_path, 'covariance = "model file"'))
+    result = run_well(project, "VANTREL-1").result
+    write_outputs(result, project, tmp_path / "out", PlotOptions(draw=False))
+    las = lasio.read(tmp_path / "out" / "VANTREL-1.las")
+    mc = well_uncertainty(project, result)
+    # the LAS holds the run's curves to 5 decimals; the figure is drawn from the same run
+    np.testing.assert_allclose(las["SW_P90"], mc.result.sw_percentiles["SW_P90"], atol=5e-6)
+    fig = track_plot(result, sw_band=mc.result.sw_percentiles)
+    ax = [a for a in fig.axes if any(ln.get_label() == "SW_P10" for ln in a.get_lines())]
+    assert len(ax) == 1
+    lines = {ln.get_label(): ln for ln in ax[0].get_lines() if ln.get_label() in ("SW_P10", "SW_P90")}
+    tvdss = np.asarray(result.tvdss)
+    for name, ln in lines.items():
+        x, y = (np.asarray(v, dtype=float) for v in ln.get_data())
+        ok = np.isfinite(x)
+        assert ok.sum() > 100
+        idx = np.searchsorted(tvdss, y[ok])                # TVDSS increases in this well
+        np.testing.assert_array_equal(tvdss[idx], y[ok])
+        np.testing.assert_allclose(x[ok], las[name][idx], atol=5e-6, err_msg=name)
+    # the fill: every outline vertex lies on one of the two curves at its depth
+    band = [c for c in ax[0].collections if isinstance(c, PolyCollection)
+            and np.allclose(c.get_facecolor()[0][:3], [0x55 / 255] * 3)]
+    assert len(band) == 1
+    verts = np.concatenate([p.vertices for p in band[0].get_paths()])
+    idx = np.searchsorted(tvdss, verts[:, 1])
+    on_edge = (np.abs(verts[:, 0] - las["SW_P10"][idx]) < 5e-6) | \
+              (np.abs(verts[:, 0] - las["SW_P90"][idx]) < 5e-6)
+    assert on_edge.all()
+    labels = [t.get_text() for t in fig.legends[0].get_texts()]
+    assert BAND_LABEL in labels and "P90 = high Sw" in BAND_LABEL
+    # without percentiles: no band, no legend entry
+    plain = track_plot(result)
+    assert BAND_LABEL not in [t.get_text() for t in plain.legends[0].get_texts()]
+    assert not any(ln.get_label() in ("SW_P10", "SW_P90") for a in plain.axes for ln in a.get_lines())
+    with pytest.raises(SatHeightError, match="sw_band needs SW_P10 with one value per sample"):
+        track_plot(result, sw_band={"SW_P10": np.zeros(3), "SW_P90": np.zeros(3)})
+
+
+def test_joint_draws_give_the_same_files_with_one_or_two_workers(tmp_path):
+    from satheight.workflows.run import run_project
+
+    project = _project(tmp_path, 'covariance = "model file"', wells=("VANTREL-1", "VANTREL-2"),
+                       realisations=40)
+    run_project(project, tmp_path / "one", plot=False, workers=1)
+    run_project(project, tmp_path / "two", plot=False, workers=2)
+    for name in ("VANTREL-1", "VANTREL-2"):
+        for suffix in (".las", ".csv", "_summary.json"):
+            a = (tmp_path / "one" / f"{name}{suffix}").read_bytes()
+            b = (tmp_path / "two" / f"{name}{suffix}").read_bytes()
+            assert a == b, name + suffix
+    summary = json.loads((tmp_path / "one" / "VANTREL-1_summary.json").read_text())
+    assert {"swirr", "a", "b"} <= {b["input"] for b in summary["uncertainty"]["tornado"]["bars"]}

@@ -423,11 +423,8 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     core_sw, pressures : DepthPoints, optional
         Core plug Sw [fraction] and formation pressures [Pa] to draw as points.
     sw_band : dict, optional
-        A Monte Carlo's percentile curves (``"SW_P10"``, ``"SW_P90"`` [fraction], one
-        value per sample, e.g. :attr:`satheight.uncertainty.MonteCarloResult.sw_percentiles`):
-        drawn as a grey band between them on the Sw track, under the SHM Sw line. By the
-        volume convention SW_P90 is the high-Sw edge (the P90 volume is exceeded with
-        90 % probability) and SW_P10 the low-Sw edge.
+        Monte Carlo ``"SW_P10"``, ``"SW_P90"`` [fraction] per sample: a grey band on the Sw
+        track (SW_P90 the high-Sw edge: the P90 volume is exceeded with 90 % probability).
 
     Returns
     -------
@@ -445,7 +442,6 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
         number of samples.
     """
     md, tvdss = _checked_depths(result, depth_axis, units, interval, page)
-    band = _checked_band(sw_band, result)
     gr = _gr_curve(result)
     tracks = _track_list(result, gr, pressures)
     f = _frame(result, md, tvdss, depth_axis, units, tracks, interval, page)
@@ -458,7 +454,7 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     draw_phik(f, result.phi, result.k)
     if result.rt is not None:
         draw_rt(f, result.rt, (result.roles or {}).get("resistivity") or "RT")
-    _draw_results(f, result, units, notes, j_range, band)
+    _draw_results(f, result, units, notes, j_range, _checked_band(sw_band, result))
     _draw_measured(f, core_sw, pressures, units)
     _title_and_legend(f, result, title)
     return f.fig
