@@ -26,9 +26,9 @@ _WETTER = SKY          # log Sw above SHM Sw
 _DRIER = VERMILLION    # log Sw below SHM Sw
 _FLAG = "#333333"
 #: The Monte Carlo band of SHM Sw: a grey (no hue, so it reads the same to every eye) fill
-#: with thin dashed grey edges, under the SHM Sw line and over the hydrocarbon shading.
+#: with thin grey edges, under the SHM Sw line and over the hydrocarbon shading.
 _BAND = "#555555"
-_BAND_ALPHA = 0.28
+_BAND_ALPHA = 0.35
 #: Legend text of the band: the percentile convention as the run's files state it.
 BAND_LABEL = ("SHM Sw P10–P90 band (Monte Carlo; P90 = high Sw:\n"
               "volume exceeded with 90 % probability)")
@@ -127,7 +127,7 @@ def draw_sw(f: Frame, sw, sw_log, source: str, kind) -> None:
 
 def draw_sw_band(f: Frame, p10, p90) -> None:
     """The P10-P90 band of SHM Sw on the Sw track: a grey fill between the two drawn
-    percentile curves [fraction] with dashed edges, thinned like every fill; nothing
+    percentile curves [fraction] with thin edges, thinned like every fill; nothing
     where either curve is missing."""
     from matplotlib.patches import Patch
 
@@ -137,10 +137,9 @@ def draw_sw_band(f: Frame, p10, p90) -> None:
         return
     f.fill(ax, p10, p90, ok, color=_BAND, alpha=_BAND_ALPHA, lw=0, zorder=2.5)
     for curve, name in ((p10, "SW_P10"), (p90, "SW_P90")):
-        f.line(ax, np.where(ok, curve, np.nan), color=_BAND, lw=0.6, ls=(0, (3, 2)),
-               zorder=2.6, label=name)
-    f.handles.append(Patch(facecolor=_BAND, alpha=_BAND_ALPHA, edgecolor=_BAND, ls="--",
-                           label=BAND_LABEL))
+        f.line(ax, np.where(ok, curve, np.nan), color=_BAND, lw=0.5, zorder=2.6, label=name)
+    f.handles.append(Patch(facecolor=(0x55 / 255,) * 3 + (_BAND_ALPHA,), edgecolor=_BAND,
+                           lw=0.5, label=BAND_LABEL))
 
 
 def draw_flags(f: Frame, flag) -> None:
