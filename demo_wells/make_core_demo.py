@@ -168,7 +168,7 @@ def files() -> dict[str, str]:
 def fitted_model_text(folder: Path) -> str:
     """Fit the core files in ``folder`` with the package and return the model file text."""
     sys.path.insert(0, str(HERE.parent / "src"))
-    from satheight.core_workflow import FitSettings, ReservoirFluids, run_fit
+    from satheight.workflows.fit import FitSettings, ReservoirFluids, run_fit
     from satheight.units import parse_quantity
 
     reservoir = {name: ReservoirFluids(parse_quantity(sct, "tension"), drho)

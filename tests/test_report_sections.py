@@ -87,3 +87,13 @@ def test_report_shows_monte_carlo_numbers_of_the_summary():
     assert "200 realisations, seed 7" in page
     # without an uncertainty key there is no such section
     assert "monte-carlo" not in render(_summary("W-1"), "Demo")
+
+
+def test_track_plot_caption_names_the_band_only_with_a_monte_carlo(tmp_path):
+    # README (Uncertainty): the band is in each track plot, and so in the report
+    summary = copy.deepcopy(_summary("W-1"))
+    _png(tmp_path / "W_tracks.png")
+    assert "SW_P10" not in render(summary, "Demo", out_dir=tmp_path)
+    summary["wells"][0]["summary"]["uncertainty"] = {"realisations": 10, "seed": 1, "hcpt": {}}
+    page = render(summary, "Demo", out_dir=tmp_path)
+    assert "grey band on the Sw track: SHM Sw from SW_P10 (low Sw) to SW_P90 (high Sw)" in page

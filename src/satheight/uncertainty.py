@@ -4,7 +4,9 @@ Pure vectorised numpy (no I/O, no plotting). Uncertain inputs are declared per z
 
 * the zone's scalars ``fwl`` [m TVDSS], ``water_density`` and ``hydrocarbon_density``
   [kg/m^3], ``sigma_cos_theta`` [N/m] and any parameter of its J-Sw function (by the
-  family's parameter name), each with a :class:`Distribution`;
+  family's parameter name), each with a :class:`Distribution`; or the J-Sw parameters
+  together, with a :class:`JointNormal` (a multivariate normal around the fitted values,
+  e.g. with the fit's own parameter covariance);
 * two log errors (:class:`LogError`): an additive porosity error [fraction] and a
   permeability error in decades (``k * 10**e``, a multiplicative error), each a
   stationary random field along TVDSS with an exponential correlation
@@ -13,7 +15,7 @@ Pure vectorised numpy (no I/O, no plotting). Uncertain inputs are declared per z
 Each realisation ``r`` draws from its own random streams,
 ``numpy.random.SeedSequence(seed, spawn_key=(r, stream, key))``: stream 0 keyed by the
 zone's name for the zone scalars (one uniform per input, turned into a value by the
-inverse distribution function; so realisation ``r`` has the same FWL in every well),
+inverse distribution function, then one per jointly drawn parameter; so realisation ``r`` has the same FWL in every well),
 streams 1 and 2 keyed by the well's name for the porosity and permeability fields
 (independent between wells). A realisation's numbers therefore depend only on the
 seed, its index and these names, not on how many realisations run, in which process,
@@ -48,7 +50,7 @@ import numpy as np
 
 from .compare import net_mask, sample_thickness
 from .constants import STANDARD_GRAVITY
-from .distributions import Distribution
+from .distributions import Distribution, JointNormal
 from .engine import ZoneModel
 from .errors import SatHeightError
 from .units import from_si
@@ -82,12 +84,15 @@ class ZoneUncertainty:
     """The uncertain inputs of one zone.
 
     ``inputs`` maps a name of :data:`ZONE_INPUTS` or a J-Sw parameter name to its
-    :class:`Distribution` (SI); inputs not named keep their deterministic value.
+    :class:`Distribution` (SI); ``joint`` draws the J-Sw parameters it names together
+    (none of them may also be in ``inputs``); inputs not named keep their deterministic
+    value.
     """
 
     inputs: dict = field(default_factory=dict)
     porosity_error: LogError | None = None
     permeability_error: LogError | None = None
+    joint: JointNormal | None = None
 
 
 @dataclass(frozen=True)
@@ -191,15 +196,12 @@ def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = 
         d.check(f"{where}.{name}")
         lo, hi = d.support()
         if name in fn.param_names:
-            blo, bhi = fn.bounds[name]
-            if lo < blo or hi > bhi:
-                raise SatHeightError(f"draws of {name} may reach [{lo:.6g}, {hi:.6g}], outside the "
-                                     f"{fn.name} bounds [{blo}, {bhi}]", where=f"{where}.{name}",
-                                     hint="use a truncated_normal, triangular or uniform "
-                                          "distribution inside the bounds")
+            _check_bounds(fn, name, lo, hi, f"{where}.{name}")
         elif name != "fwl" and lo <= 0:
             raise SatHeightError(f"draws of {name} may reach {shown(lo, name)}, not > 0",
                                  where=f"{where}.{name}", hint="narrow the distribution")
+    if spec.joint is not None:
+        _check_joint(zone, spec, f"{where}.function")
     w = _support(zone, spec, "water_density")
     h = _support(zone, spec, "hydrocarbon_density")
     if not w[0] > h[1]:
@@ -214,6 +216,33 @@ def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = 
             if not (np.isfinite(err.correlation_length) and err.correlation_length >= 0):
                 raise SatHeightError(f"correlation_length must be >= 0 m, got "
                                      f"{err.correlation_length!r}", where=f"{where}.{name}")
+
+
+def _check_bounds(fn, name: str, lo: float, hi: float, where: str) -> None:
+    blo, bhi = fn.bounds[name]
+    if lo < blo or hi > bhi:
+        raise SatHeightError(f"draws of {name} may reach [{lo:.6g}, {hi:.6g}], outside the "
+                             f"{fn.name} bounds [{blo}, {bhi}]", where=where,
+                             hint="use a truncated_normal, triangular or uniform "
+                                  "distribution inside the bounds")
+
+
+def _check_joint(zone: ZoneModel, spec: ZoneUncertainty, where: str) -> None:
+    """The jointly drawn parameters: the function's, not drawn twice, a usable covariance,
+    and each one's normal (mean +- NORMAL_SUPPORT_SD sd) inside the family's bounds."""
+    fn = zone.function
+    joint = spec.joint
+    for name in joint.names:
+        if name not in fn.param_names:
+            raise SatHeightError(f"{fn.name} has no parameter {name!r} to draw", where=where,
+                                 hint="use " + ", ".join(fn.param_names))
+        if name in spec.inputs:
+            raise SatHeightError(f"{name} has its own distribution and is also drawn with the "
+                                 "others", where=where, hint="give it one way only")
+    joint.check(where)
+    for i, name in enumerate(joint.names):
+        lo, hi = joint.marginal(i, _deterministic(zone, name)).support()
+        _check_bounds(fn, name, lo, hi, f"{where}.{name}")
 
 
 def _deterministic(zone: ZoneModel, name: str) -> float:
@@ -274,8 +303,17 @@ def _prepare(tvdss, phi, k, zones, shm: ShmResult, uncertainty: dict, min_porosi
 
 
 def _input_names(zone: ZoneModel, spec: ZoneUncertainty) -> list[str]:
-    """The uncertain scalar inputs of a zone in their fixed draw order."""
+    """The uncertain scalar inputs of a zone drawn one by one, in their fixed draw order."""
     return [n for n in ZONE_INPUTS + tuple(zone.function.param_names) if n in spec.inputs]
+
+
+def _joint_names(spec: ZoneUncertainty) -> list[str]:
+    """The J-Sw parameters drawn together (after the others in each realisation's stream)."""
+    return [] if spec.joint is None else list(spec.joint.names)
+
+
+def _joint_means(zone: ZoneModel, spec: ZoneUncertainty) -> np.ndarray:
+    return np.array([_deterministic(zone, n) for n in spec.joint.names])
 
 
 def _all_values(zone: ZoneModel, given: dict, n: int) -> dict:
@@ -293,14 +331,18 @@ def _draw_values(well: _Well, settings: MonteCarloSettings) -> list[dict]:
     R = settings.realisations
     out = []
     for _, zn, spec in well.zones:
-        names = _input_names(zn, spec)
+        names, joint = _input_names(zn, spec), _joint_names(spec)
         given = {}
-        if names:
+        if names or joint:
             key = text_key(zn.name)
-            u = np.stack([open_uniforms(generator(settings.seed, r, _STREAM_SCALARS, key), len(names))
+            n = len(names) + len(joint)
+            u = np.stack([open_uniforms(generator(settings.seed, r, _STREAM_SCALARS, key), n)
                           for r in range(R)])        # one small draw per realisation, not per sample
             for col, nm in enumerate(names):
                 given[nm] = spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(u[:, col])
+            if joint:
+                x = spec.joint.draw(_joint_means(zn, spec), u[:, len(names):])
+                given.update({nm: x[:, col] for col, nm in enumerate(joint)})
         out.append(_all_values(zn, given, R))
     return out
 
@@ -504,6 +546,21 @@ class TornadoBar:
         return abs(self.hcpt_high - self.hcpt_low)
 
 
+def _tornado_medians(well: _Well, R: int) -> tuple[list[dict], dict]:
+    """Every input of every Monte Carlo zone at its median, ``R`` copies (the tornado's cases)."""
+    values, shifts = [], {}
+    for _, zn, spec in well.zones:
+        given = {nm: np.full(R, float(spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(0.5)))
+                 for nm in _input_names(zn, spec)}
+        given.update({nm: np.full(R, _deterministic(zn, nm)) for nm in _joint_names(spec)})
+        values.append(_all_values(zn, given, R))
+        for kind in LOG_ERRORS:
+            if getattr(spec, kind) is not None:
+                shifts[(zn.name, kind)] = np.full(
+                    R, float(getattr(spec, kind).distribution.centred(0.0).ppf(0.5)))
+    return values, shifts
+
+
 def tornado(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertainty: dict,
             min_porosity: float = 0.0, min_permeability: float = 0.0,
             memory_mb: float = 256.0) -> tuple[float, list[TornadoBar]]:
@@ -513,6 +570,9 @@ def tornado(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertain
     value at probability 0.1 and 0.9 of its distribution while all others sit at their
     medians (probability 0.5); the well's HCPT [m] is computed for each case. A log
     error is moved as one constant shift over its zone (its fully correlated limit).
+    A parameter drawn jointly (:class:`JointNormal`) moves to the 0.1 and 0.9 points of
+    its own normal while the other joint parameters follow at their mean given it (the
+    normal's conditional mean), so the bar keeps the correlation the fit found.
 
     Returns
     -------
@@ -520,33 +580,34 @@ def tornado(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertain
         HCPT with every input at its median [m], and the bars, largest swing first.
     """
     well = _prepare(tvdss, phi, k, zones, shm, uncertainty, min_porosity, min_permeability)
-    movers = [(zn, spec, nm) for _, zn, spec in well.zones for nm in _input_names(zn, spec)]
-    movers += [(zn, spec, kind) for _, zn, spec in well.zones for kind in LOG_ERRORS
-               if getattr(spec, kind) is not None]
+    movers = [(p, zn, spec, nm) for p, (_, zn, spec) in enumerate(well.zones)
+              for nm in _input_names(zn, spec) + _joint_names(spec)]
+    movers += [(p, zn, spec, kind) for p, (_, zn, spec) in enumerate(well.zones)
+               for kind in LOG_ERRORS if getattr(spec, kind) is not None]
     R = 1 + 2 * len(movers)
-    values, shifts = [], {}
-    for _, zn, spec in well.zones:
-        given = {nm: np.full(R, float(spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(0.5)))
-                 for nm in _input_names(zn, spec)}
-        values.append(_all_values(zn, given, R))
-        for kind in LOG_ERRORS:
-            if getattr(spec, kind) is not None:
-                shifts[(zn.name, kind)] = np.full(
-                    R, float(getattr(spec, kind).distribution.centred(0.0).ppf(0.5)))
+    values, shifts = _tornado_medians(well, R)
     lows_highs = []
-    for m, (zn, spec, nm) in enumerate(movers):
-        pos = [p for p, (_, z2, _) in enumerate(well.zones) if z2 is zn][0]
+    for m, (pos, zn, spec, nm) in enumerate(movers):
+        rows = [1 + 2 * m, 2 + 2 * m]
+        if spec.joint is not None and nm in spec.joint.names:
+            i, means = spec.joint.names.index(nm), _joint_means(zn, spec)
+            lo, hi = (float(v) for v in spec.joint.marginal(i, means[i]).ppf(np.array([0.1, 0.9])))
+            for row, v in zip(rows, (lo, hi)):
+                for name, x in zip(spec.joint.names, spec.joint.conditional(i, v, means)):
+                    values[pos][name][row] = x
+            lows_highs.append((lo, hi))
+            continue
         d = (getattr(spec, nm).distribution.centred(0.0) if nm in LOG_ERRORS
              else spec.inputs[nm].centred(_deterministic(zn, nm)))
         lo, hi = (float(v) for v in d.ppf(np.array([0.1, 0.9])))
         target = shifts[(zn.name, nm)] if nm in LOG_ERRORS else values[pos][nm]
-        target[1 + 2 * m], target[2 + 2 * m] = lo, hi
+        target[rows[0]], target[rows[1]] = lo, hi
         lows_highs.append((lo, hi))
     chunk = _chunk_samples(R, memory_mb, well.z.size)
     _, hcpt, _ = _run(well, values, _ShiftErrors(shifts), R, chunk, False)
     total = sum(hcpt.values()) if hcpt else np.zeros(R)
     bars = [TornadoBar(zone=zn.name, input=nm, value_low=lh[0], value_high=lh[1],
                        hcpt_low=float(total[1 + 2 * m]), hcpt_high=float(total[2 + 2 * m]))
-            for m, ((zn, _, nm), lh) in enumerate(zip(movers, lows_highs))]
+            for m, ((_, zn, _, nm), lh) in enumerate(zip(movers, lows_highs))]
     bars.sort(key=lambda b: -b.swing)
     return float(total[0]), bars

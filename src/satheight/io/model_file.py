@@ -14,7 +14,7 @@ File layout (``format`` = ``"satheight-models"``, ``version`` = 1)::
           "plugs": ["P01", ...], "n_points": 180, "selected": "power_law",
           "fits": {"power_law": {"family": "power_law", "variable": "j",
                                  "params": {...}, "stderr": {...}, "correlation": [[...]],
-                                 "n_points": 180, "rmse": 0.012, "r2": 0.99, "aic": -1500,
+                                 "covariance": [[...]], "n_points": 180, "rmse": 0.012, "r2": 0.99, "aic": -1500,
                                  "j_range": [0.004, 380.0], "residuals_by_plug": {...}}, ...}
         }, ...
       }
@@ -22,6 +22,9 @@ File layout (``format`` = ``"satheight-models"``, ``version`` = 1)::
 
 ``selected`` is the family a project file gets when it names no ``family``.
 Parameters are dimensionless (J families) or in metres (height functions).
+``covariance`` (six significant digits, rows in the order of ``params``) is the fit's
+parameter covariance; files written before it was stored give it back from ``stderr``
+and ``correlation`` (:meth:`ModelFile.covariance`).
 """
 
 from __future__ import annotations
@@ -82,6 +85,45 @@ class ModelFile:
         rec = fits[fam]
         return build_function(fam, rec["params"], j_range=rec.get("j_range"), where=where)
 
+    def covariance(self, rock_type: str, family: str | None = None) -> tuple[tuple, list, str]:
+        """The parameter covariance of a fit: ``(names, rows, where)``.
+
+        ``names`` are the parameters in the order of the rows; ``where`` names the file
+        and the fit. A file without ``covariance`` (written before it was stored) gives
+        ``stderr_i * correlation_ij * stderr_j`` (standard errors to two digits).
+
+        Raises
+        ------
+        ModelError
+            The fit has no usable covariance (e.g. its standard errors are missing).
+        """
+        self.function(rock_type, family)            # the rock type and family exist
+        fam = family or self.rock_types[rock_type].get("selected")
+        rec = self.rock_types[rock_type]["fits"][fam]
+        where = f"{self.path}, rock_types[{rock_type}].fits[{fam}]"
+        names = tuple(rec["params"])
+        if "covariance" in rec:
+            rows = rec["covariance"]
+        else:
+            se, corr = rec.get("stderr") or {}, rec.get("correlation")
+            try:
+                rows = [[se[a] * corr[i][j] * se[b] for j, b in enumerate(names)]
+                        for i, a in enumerate(names)]
+            except (KeyError, IndexError, TypeError):
+                raise ModelError("the fit records no usable standard errors and correlation "
+                                 "(an estimate could not be made)", where=where + ".stderr",
+                                 hint="refit with 'satheight fit', or give the covariance "
+                                      "in the project file") from None
+        if not isinstance(rows, list) or not all(isinstance(r, list) and
+                                                 all(isinstance(x, (int, float)) and
+                                                     not isinstance(x, bool) for x in r)
+                                                 for r in rows):
+            raise ModelError(f"the covariance is not a table of numbers: {str(rows)[:80]}",
+                             where=where + ".covariance",
+                             hint="refit with 'satheight fit' (a missing value means the fit "
+                                  "could not estimate it)")
+        return names, rows, where
+
 
 def _clean(v):
     if isinstance(v, float):
@@ -126,6 +168,11 @@ def _fit_record(report) -> dict:
                      for p, v in report.params.items()}
     rec["stderr"] = {p: (float(f"{s:.2g}") if s is not None and math.isfinite(s) else None)
                      for p, s in se.items()}
+    if rec.get("covariance"):
+        rec["covariance"] = [[float(f"{x:.6g}") if x is not None else None for x in row]
+                             for row in rec["covariance"]]
+    else:
+        rec.pop("covariance", None)
     return rec
 
 

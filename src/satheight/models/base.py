@@ -247,7 +247,7 @@ class JSwFunction:
             r2=float(1.0 - rss / tss) if tss > 0 else float("nan"),
             aic=float(n * np.log(max(rss, 1e-300) / n) + 2 * p),
             j_range=tuple(self.j_range_), residuals_by_group=per_group,
-            variable=self.variable)
+            variable=self.variable, covariance=[[float(x) for x in row] for row in pcov])
 
     def __repr__(self) -> str:
         if not self.is_fitted():
@@ -266,6 +266,10 @@ class FitReport:
         Fitted parameters and their standard errors (same units as the parameters).
     correlation : list[list[float]]
         Parameter correlation matrix in the order of ``params``.
+    covariance : list[list[float]]
+        Parameter covariance matrix in the order of ``params`` (units of the
+        parameters squared), as :func:`scipy.optimize.curve_fit` estimates it; the
+        Monte Carlo can draw the parameters jointly from it.
     n_points : int
     rmse : float
         Root-mean-square saturation residual [fraction].
@@ -293,6 +297,7 @@ class FitReport:
     j_range: tuple[float, float]
     residuals_by_group: dict[str, dict] = field(default_factory=dict)
     variable: str = "j"
+    covariance: list[list[float]] = field(default_factory=list)
 
     def to_dict(self) -> dict:
         """JSON-ready dict (NaN turned into None)."""
@@ -306,6 +311,6 @@ class FitReport:
             return v
         return clean({"family": self.family, "variable": self.variable, "params": self.params,
                       "stderr": self.stderr, "correlation": self.correlation,
-                      "n_points": self.n_points, "rmse": self.rmse, "r2": self.r2,
+                      "covariance": self.covariance, "n_points": self.n_points, "rmse": self.rmse, "r2": self.r2,
                       "aic": self.aic, "j_range": list(self.j_range),
                       "residuals_by_plug": self.residuals_by_group})

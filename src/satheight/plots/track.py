@@ -32,7 +32,8 @@ from .depths import level_crossings, mapping, monotone_pairs
 from .style import DPI, GREEN, GREY, PAGES, YELLOW
 from .text import safe_text
 from .track_curves import (J_RANGE, draw_flags, draw_gr, draw_height, draw_phik, draw_points,
-                           draw_pressure_header, draw_rt, draw_sw, hydrocarbon_kind)
+                           draw_pressure_header, draw_rt, draw_sw, draw_sw_band,
+                           hydrocarbon_kind)
 from .track_frame import GRID_COLOUR, Frame, finite_range, number
 from .track_levels import draw_free_oil_levels, draw_fwls, draw_zones, zone_depths
 
@@ -123,6 +124,21 @@ def _checked_depths(result: WellResult, depth_axis: str, units: str, interval: s
         raise DepthError("TVDSS is missing at every sample, cannot plot against TVDSS",
                          where=where, hint="give a deviation survey or plot with depth_axis='md'")
     return md, tvdss
+
+
+def _checked_band(sw_band, result: WellResult) -> dict | None:
+    """The SW_P10 / SW_P90 curves of a Monte Carlo as float arrays of the well's length."""
+    if sw_band is None:
+        return None
+    n = np.asarray(result.well.md).size
+    out = {}
+    for name in ("SW_P10", "SW_P90"):
+        if name not in sw_band or np.shape(sw_band[name]) != (n,):
+            raise SatHeightError(f"sw_band needs {name} with one value per sample ({n})",
+                                 where=f"well {result.well.name!r}",
+                                 hint="pass the Monte Carlo's sw_percentiles")
+        out[name] = np.asarray(sw_band[name], dtype=float)
+    return out
 
 
 def _gr_curve(result: WellResult):
@@ -330,12 +346,15 @@ def _draw_measured(f: Frame, core_sw, pressures, units: str) -> None:
         draw_points(f, "p", y, p, safe_text(pressures.label) or "Formation pressure", GREEN, "o")
 
 
-def _draw_results(f: Frame, result: WellResult, units: str, notes, j_range) -> None:
-    """Saturation track (with flags) and the height / J track."""
+def _draw_results(f: Frame, result: WellResult, units: str, notes, j_range,
+                  sw_band=None) -> None:
+    """Saturation track (with flags and the Monte Carlo band) and the height / J track."""
     zones = list(result.zones or [])
     sw_log = None if result.sw_log is None else f.take(result.sw_log)
     draw_sw(f, f.take(result.shm.sw), sw_log, result.sw_log_source,
             hydrocarbon_kind(zones, np.asarray(result.shm.zone)[f.sel]))
+    if sw_band is not None:
+        draw_sw_band(f, f.take(sw_band["SW_P10"]), f.take(sw_band["SW_P90"]))
     draw_flags(f, np.asarray(result.shm.flag)[f.sel])
     draw_height(f, f.take(result.shm.hafwl) / f.scale, f.take(result.shm.j), units, notes,
                 j_range)
@@ -362,7 +381,7 @@ def _title_and_legend(f: Frame, result: WellResult, title: str | None) -> None:
 def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metric",
                title: str | None = None, *, interval: str = "zones", page: str = "screen",
                j_range: tuple[float, float] = J_RANGE, core_sw: DepthPoints | None = None,
-               pressures: DepthPoints | None = None) -> Figure:
+               pressures: DepthPoints | None = None, sw_band: dict | None = None) -> Figure:
     """One well's track plot as a figure (the caller writes it).
 
     Tracks, left to right: gamma ray (only if the well has a curve named ``GR``, any
@@ -403,6 +422,9 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
         Limits of the J scale [-].
     core_sw, pressures : DepthPoints, optional
         Core plug Sw [fraction] and formation pressures [Pa] to draw as points.
+    sw_band : dict, optional
+        Monte Carlo ``"SW_P10"``, ``"SW_P90"`` [fraction] per sample: a grey band on the Sw
+        track (SW_P90 the high-Sw edge: the P90 volume is exceeded with 90 % probability).
 
     Returns
     -------
@@ -432,7 +454,7 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     draw_phik(f, result.phi, result.k)
     if result.rt is not None:
         draw_rt(f, result.rt, (result.roles or {}).get("resistivity") or "RT")
-    _draw_results(f, result, units, notes, j_range)
+    _draw_results(f, result, units, notes, j_range, _checked_band(sw_band, result))
     _draw_measured(f, core_sw, pressures, units)
     _title_and_legend(f, result, title)
     return f.fig

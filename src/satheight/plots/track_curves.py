@@ -25,6 +25,13 @@ _HC_ALPHA = 0.35
 _WETTER = SKY          # log Sw above SHM Sw
 _DRIER = VERMILLION    # log Sw below SHM Sw
 _FLAG = "#333333"
+#: The Monte Carlo band of SHM Sw: a grey (no hue, so it reads the same to every eye) fill
+#: with thin grey edges, under the SHM Sw line and over the hydrocarbon shading.
+_BAND = "#555555"
+_BAND_ALPHA = 0.35
+#: Legend text of the band: the percentile convention as the run's files state it.
+BAND_LABEL = ("SHM Sw P10–P90 band (Monte Carlo; P90 = high Sw:\n"
+              "volume exceeded with 90 % probability)")
 
 
 def draw_gr(f: Frame, gr) -> None:
@@ -116,6 +123,23 @@ def draw_sw(f: Frame, sw, sw_log, source: str, kind) -> None:
     if sw_log is not None:
         f.line(ax, sw_log, color=BLUE, lw=0.9, zorder=3.3, label="Log Sw")
         f.handles.append(Line2D([], [], color=BLUE, lw=0.9, label=log_sw_label(source)))
+
+
+def draw_sw_band(f: Frame, p10, p90) -> None:
+    """The P10-P90 band of SHM Sw on the Sw track: a grey fill between the two drawn
+    percentile curves [fraction] with thin edges, thinned like every fill; nothing
+    where either curve is missing."""
+    from matplotlib.patches import Patch
+
+    ax = f.axes["sw"]
+    ok = np.isfinite(p10) & np.isfinite(p90) & np.isfinite(f.y)
+    if not ok.any():
+        return
+    f.fill(ax, p10, p90, ok, color=_BAND, alpha=_BAND_ALPHA, lw=0, zorder=2.5)
+    for curve, name in ((p10, "SW_P10"), (p90, "SW_P90")):
+        f.line(ax, np.where(ok, curve, np.nan), color=_BAND, lw=0.5, zorder=2.6, label=name)
+    f.handles.append(Patch(facecolor=(0x55 / 255,) * 3 + (_BAND_ALPHA,), edgecolor=_BAND,
+                           lw=0.5, label=BAND_LABEL))
 
 
 def draw_flags(f: Frame, flag) -> None:

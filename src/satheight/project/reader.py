@@ -299,7 +299,8 @@ class _Reader(ValueReader):
         return Project(path=self.path.resolve(), name=name, unit_system=self.unit_system,
                        wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
                        tops_file=tops_file, tops_pending=pending,
-                       uncertainty=read_uncertainty(data, self.path, self.unit_system))
+                       uncertainty=read_uncertainty(data, self.path, self.unit_system,
+                                                    {z.name: z.function for z in zones}))
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):

@@ -26,12 +26,22 @@ or text with a unit, as everywhere in the project file.
     [zones.uncertainty.function]    # J-Sw parameters by the family's names (plain numbers)
     swirr = { distribution = "uniform", low = 0.05, high = 0.15 }
 
+    # or all J-Sw parameters drawn together around their fitted values:
+    [zones.uncertainty.function]
+    distribution = "joint_normal"
+    covariance = "model file"       # the covariance the fit recorded (function from a model file)
+    # covariance = [[1e-6, 0.0], [0.0, 4e-4]]   # or the matrix itself, parameter units squared,
+    # parameters = ["swirr", "b"]               # rows in this order (default: all, the family's order)
+
 Each distribution is a table with ``distribution`` (``normal``, ``truncated_normal``,
 ``triangular`` or ``uniform``) and its values: normal ``mean``, ``sd``; truncated
 normal ``mean``, ``sd``, ``low``, ``high``; triangular ``low``, ``mode``, ``high``;
 uniform ``low``, ``high``. A missing ``mean`` (``mode``) is the zone's own value (0
 for the log errors). ``correlation_length`` (default 0: independent samples) is the
-length along TVDSS over which a log error's correlation falls to 1/e.
+length along TVDSS over which a log error's correlation falls to 1/e. ``joint_normal``
+draws the J-Sw parameters together from a multivariate normal centred on the zone's
+parameters, with the covariance the model file's fit recorded or one given as rows;
+a covariance of the wrong size, not symmetric or not positive semi-definite is refused.
 """
 
 from __future__ import annotations
@@ -41,8 +51,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from ..distributions import KINDS, Distribution
-from ..errors import ProjectFileError, UnitError
+from ..distributions import KINDS, Distribution, JointNormal
+from ..errors import ModelError, ProjectFileError, SatHeightError, UnitError
+from ..io.model_file import load_models
+from ..models import get_family
 from ..uncertainty import LOG_ERRORS, LogError, MonteCarloSettings, ZoneUncertainty
 from ..units import UNIT_SYSTEMS, from_si, parse_quantity
 
@@ -55,6 +67,11 @@ _SETTINGS_KEYS = ("realisations", "seed", "memory_mb", "tornado", "accept_implau
 _ZONE_KEYS = ("fwl", "water_density", "hydrocarbon_density", "sigma_cos_theta", "function",
               "porosity_error", "permeability_error")
 _DIST_KEYS = ("distribution", "mean", "sd", "low", "mode", "high")
+#: The distribution of the J-Sw parameters drawn together, and its keys.
+JOINT = "joint_normal"
+_JOINT_KEYS = ("distribution", "covariance", "parameters")
+#: ``covariance = MODEL_FILE``: the covariance the zone's model file records for its fit.
+MODEL_FILE = "model file"
 _KIND_OF = {"fwl": "length", "water_density": "density", "hydrocarbon_density": "density",
             "sigma_cos_theta": "tension", "porosity_error": "fraction"}
 #: Plausible largest spread (sd, or high - low) of each input, in SI; wider needs
@@ -172,21 +189,79 @@ def _settings(keys: _Keys, raw: Any) -> tuple[MonteCarloSettings, bool]:
     return MonteCarloSettings(**out), bool(t.get("tornado", True))
 
 
-def _zone(keys: _Keys, raw: Any, key: str) -> ZoneUncertainty:
+def _joint(keys: _Keys, t: dict, key: str, function) -> JointNormal:
+    """``[zones.uncertainty.function] distribution = "joint_normal"``: the J-Sw parameters
+    together, with the model file's covariance or the rows given."""
+    keys.table(t, key, _JOINT_KEYS)
+    if str(t["distribution"]).strip().lower() != JOINT:
+        raise keys.error(f"{key}.distribution", f"unknown distribution {t['distribution']!r} "
+                         "for the parameters together", hint=f"use {JOINT!r}, or give each "
+                         "parameter its own table")
+    if "covariance" not in t:
+        raise keys.error(f"{key}.covariance", "required key 'covariance' is missing",
+                         hint=f"covariance = {MODEL_FILE!r} or rows of numbers")
+    cov = t["covariance"]
+    if isinstance(cov, str) and cov.strip().lower() == MODEL_FILE:
+        if "parameters" in t:
+            raise keys.error(f"{key}.parameters", "the model file's covariance covers all the "
+                             "fitted parameters", hint="remove parameters")
+        if function is None or function.file is None or function.rock_type is None:
+            raise keys.error(f"{key}.covariance", f"covariance = {MODEL_FILE!r} needs the zone's "
+                             "function from a model file with one rock type",
+                             hint="use [zones.function] file = ..., rock_type = ..., or give "
+                                  "the covariance as rows of numbers")
+        try:
+            names, rows, where = load_models(function.file).covariance(function.rock_type,
+                                                                       function.family)
+        except (ModelError, SatHeightError) as exc:
+            raise keys.error(f"{key}.covariance", f"model file {function.file}: {exc}",
+                             hint=exc.hint) from None
+        return JointNormal(names=names, covariance=tuple(tuple(r) for r in rows), source=where)
+    if not isinstance(cov, list) or not all(isinstance(r, list) for r in cov):
+        raise keys.error(f"{key}.covariance", f"expected {MODEL_FILE!r} or rows of numbers, "
+                         f"found {str(cov)[:80]!r}", hint="e.g. [[1e-6, 0.0], [0.0, 4e-4]]")
+    rows = tuple(tuple(keys.value(x, f"{key}.covariance[{i + 1}][{j + 1}]", None)
+                       for j, x in enumerate(r)) for i, r in enumerate(cov))
+    if "parameters" in t:
+        ps = t["parameters"]
+        if not isinstance(ps, list) or not ps or not all(isinstance(p, str) for p in ps) \
+                or len(set(ps)) != len(ps):
+            raise keys.error(f"{key}.parameters", f"expected a list of different parameter "
+                             f"names, found {ps!r}", hint='e.g. ["swirr", "b"]')
+        names = tuple(ps)
+    elif function is not None:
+        names = tuple(get_family(function.family).param_names)
+    else:
+        raise keys.error(f"{key}.parameters", "required key 'parameters' is missing")
+    return JointNormal(names=names, covariance=rows, source=f"{keys.path}, key {key}.covariance")
+
+
+def _function(keys: _Keys, f: Any, key: str, function) -> tuple[dict, JointNormal | None]:
+    if not isinstance(f, dict):
+        raise keys.error(key, f"expected a table of parameters, found {f!r}",
+                         hint="write it as [zones.uncertainty.function] with parameter = { distribution = ... }")
+    if "distribution" in f:
+        joint = _joint(keys, f, key, function)
+        try:
+            joint.check(f"{keys.path}, key {key}.covariance")
+        except SatHeightError as exc:
+            raise ProjectFileError(exc.what, where=exc.where, hint=exc.hint) from None
+        return {}, joint
+    return {str(p): keys.distribution(d, f"{key}.{p}", None, PLAUSIBLE_SPREAD["function"])
+            for p, d in f.items()}, None
+
+
+def _zone(keys: _Keys, raw: Any, key: str, function=None) -> ZoneUncertainty:
     t = keys.table(raw, key, _ZONE_KEYS)
     inputs = {}
     for name in ("fwl", "water_density", "hydrocarbon_density", "sigma_cos_theta"):
         if name in t:
             inputs[name] = keys.distribution(t[name], f"{key}.{name}", _KIND_OF[name],
                                              PLAUSIBLE_SPREAD[name])
+    joint = None
     if "function" in t:
-        f = t["function"]
-        if not isinstance(f, dict):
-            raise keys.error(f"{key}.function", f"expected a table of parameters, found {f!r}",
-                             hint="write it as [zones.uncertainty.function] with parameter = { distribution = ... }")
-        for p, d in f.items():
-            inputs[str(p)] = keys.distribution(d, f"{key}.function.{p}", None,
-                                               PLAUSIBLE_SPREAD["function"])
+        params, joint = _function(keys, t["function"], f"{key}.function", function)
+        inputs.update(params)
     errors = {}
     for name in LOG_ERRORS:
         if name in t:
@@ -201,10 +276,11 @@ def _zone(keys: _Keys, raw: Any, key: str) -> ZoneUncertainty:
                                      f"{keys.shown(PLAUSIBLE_CORRELATION_LENGTH, 'length')}, "
                                      f"found {t[name]['correlation_length']!r}")
             errors[name] = LogError(distribution=d, correlation_length=length)
-    return ZoneUncertainty(inputs=inputs, **errors)
+    return ZoneUncertainty(inputs=inputs, joint=joint, **errors)
 
 
-def read_uncertainty(data: dict, path: Path, unit_system: str) -> UncertaintySpec | None:
+def read_uncertainty(data: dict, path: Path, unit_system: str,
+                     functions: dict | None = None) -> UncertaintySpec | None:
     """The Monte Carlo keys of a project document, or None when it has none.
 
     Parameters
@@ -215,6 +291,9 @@ def read_uncertainty(data: dict, path: Path, unit_system: str) -> UncertaintySpe
         The project file (named in errors).
     unit_system : str
         ``"metric"`` or ``"field"``: unit of bare numbers.
+    functions : dict, optional
+        Zone name -> its :class:`satheight.project.types.FunctionSpec` (the model file
+        of ``covariance = "model file"``, the parameter order of a joint normal).
 
     Raises
     ------
@@ -233,5 +312,6 @@ def read_uncertainty(data: dict, path: Path, unit_system: str) -> UncertaintySpe
     for z in zones_raw:
         if UNCERTAINTY_ZONE_KEY in z:
             name = str(z.get("name"))
-            zones[name] = _zone(keys, z[UNCERTAINTY_ZONE_KEY], f"zones[{name}].uncertainty")
+            zones[name] = _zone(keys, z[UNCERTAINTY_ZONE_KEY], f"zones[{name}].uncertainty",
+                                (functions or {}).get(name))
     return UncertaintySpec(settings=settings, zones=zones, tornado=tornado)

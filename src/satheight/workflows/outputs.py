@@ -101,7 +101,8 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     files.append(json_path)
     if opts.draw:
         fig = plots.track_plot(result, units=project.unit_system, depth_axis=opts.depth_axis,
-                               interval=opts.interval)
+                               interval=opts.interval,
+                               sw_band=None if mc is None else mc.result.sw_percentiles)
         files += save_figure(fig, out_dir / f"{stem}_tracks.png",
                              (out_dir / f"{stem}_tracks.pdf") if opts.pdf else None)
         if mc is not None:

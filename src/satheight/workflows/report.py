@@ -259,11 +259,14 @@ def _png_data_uri(path: Path) -> str | None:
     return "data:image/png;base64," + base64.b64encode(data).decode("ascii")
 
 
-def _caption(well: str, name: str) -> str:
-    """Caption of a well's figure from its file name ("W_tracks.png" -> "Track plot of W")."""
+def _caption(well: str, name: str, band: bool = False) -> str:
+    """Caption of a well's figure from its file name ("W_tracks.png" -> "Track plot of W");
+    ``band``: the well has a Monte Carlo, whose SW_P10-SW_P90 band the track plot shows."""
     stem = Path(name).stem
     if stem.endswith("_tracks"):
-        return f"Track plot of {well}"
+        return f"Track plot of {well}" + (
+            "; grey band on the Sw track: SHM Sw from SW_P10 (low Sw) to SW_P90 (high Sw), "
+            "P90 being the volume exceeded with 90 % probability" if band else "")
     if stem.endswith("_tornado"):
         return f"Tornado chart of {well}: HCPT swing per uncertain input"
     return f"{well}: {stem.replace('_', ' ')}"
@@ -281,7 +284,8 @@ def _figures(summary: dict, out_dir: Path | None) -> tuple[list[dict], dict[str,
                   + Path(n).stem[len("crossplot_"):]) for n in summary.get("crossplots", [])]
     per_well = {}
     for w in summary.get("wells", []):
-        per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n))
+        band = bool((w.get("summary") or {}).get("uncertainty"))
+        per_well[w.get("name")] = [f for f in (fig(n, _caption(w.get("name"), n, band))
                                                for n in w.get("files", [])
                                                if str(n).lower().endswith(".png")) if f]
     return [f for f in field if f], per_well
