@@ -11,13 +11,14 @@ checksum in the manifest.
 
 from __future__ import annotations
 
-import re
 from pathlib import Path
 
 import pytest
 
 from satheight.errors import SatHeightError
 from satheight.workflows.run import run_project
+
+from run_outputs import run_files
 
 SKIP = "Dask is not installed (optional extra: pip install satheight[dask])"
 dask = pytest.importorskip("dask", reason=SKIP)
@@ -28,16 +29,6 @@ ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "demo_wells" / "demo_project.toml"
 
 
-RUN_TIME = re.compile(rb"\d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC")
-
-
-def _files(folder: Path) -> dict[str, bytes]:
-    out = {p.name: p.read_bytes() for p in sorted(folder.iterdir()) if p.is_file()}
-    out["report.html"] = RUN_TIME.sub(b"<run time>", out["report.html"])
-    manifest = "satheight-manifest-run.sha256"
-    out[manifest] = b"".join(line for line in out[manifest].splitlines(keepends=True)
-                             if not line.rstrip().endswith(b"report.html"))
-    return out
 
 
 def test_dask_cluster_run_writes_the_files_of_a_local_run(tmp_path):
@@ -47,7 +38,7 @@ def test_dask_cluster_run_writes_the_files_of_a_local_run(tmp_path):
                                   dashboard_address=None) as cluster:
         report = run_project(DEMO, on_dask, plot=False, scheduler=cluster.scheduler_address)
     assert not report.failed, [w.error for w in report.failed]
-    a, b = _files(local), _files(on_dask)
+    a, b = run_files(local), run_files(on_dask)
     # the same file names (outputs partitioned by well, the summary and tables merged at the end)
     assert sorted(a) == sorted(b)
     assert any(n.endswith(".las") for n in a) and "run_summary.json" in a
