@@ -352,15 +352,13 @@ def _level_marks(f: Frame, levels) -> list:
 def _draw_measured(f: Frame, core, pressures, units: str, levels=()) -> None:
     """Core plugs (Sw, porosity, permeability) on their tracks and formation pressures
     (with the FWL they imply) on their own track."""
-    first = next((c for c in core if c is not None), None)
-    if first is not None:
-        sw, phi, k = (None if c is None else np.asarray(c.value, float) for c in core)
-        draw_core(f, _points_depth(f, first), sw, phi, k, safe_text(first.label) or "Core plug")
+    draw_core(f, *(None if c is None else (_points_depth(f, c), np.asarray(c.value, float),
+                                            safe_text(c.label)) for c in core))
     if pressures is not None:
         unit = UNIT_SYSTEMS[units]["pressure"]
         p = np.asarray(pressures.value, float) / factor(unit, "pressure")
         draw_pressures(f, _points_depth(f, pressures), p, unit, pressures.kind, pressures.unused,
-                       _level_marks(f, levels), safe_text(pressures.label) or "Pressure")
+                       _level_marks(f, levels), safe_text(pressures.label))
 
 
 def _draw_results(f: Frame, result: WellResult, units: str, notes, j_range) -> None:
@@ -435,8 +433,8 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
         10 to 30 inch); ``"a4"``: an A4 portrait page (210 x 297 mm).
     j_range : (float, float): limits of the J scale [-].
     core_sw, pressures, core_porosity, core_permeability : DepthPoints, optional
-        Plug Sw, porosity [fraction], permeability [m^2] (the plug depths of the first
-        given), formation pressures [Pa] (colour by ``kind``, hollow if ``unused``).
+        Plug Sw, porosity [fraction], permeability [m^2] (the plugs outside the plot
+        are counted on the first given), pressures [Pa] (colour by ``kind``, hollow if ``unused``).
     pressure_levels : sequence of (label, TVDSS [m], interval top, base [m] or None)
 
     Returns

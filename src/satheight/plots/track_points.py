@@ -6,7 +6,8 @@ circles) and permeability (vermilion squares) on the porosity-permeability track
 plug Sw (yellow diamonds) on the saturation track. Formation pressures sit on their
 own narrow track, coloured by the fluid the file names (water blue, oil orange, gas
 purple as the hydrocarbon fills, unknown grey); points the pressure fit leaves out
-(quality poor or bad) are hollow. The free-water level the pressures imply is a
+(quality poor or bad, or rejected as outliers) are hollow; points without a fluid
+are green. The free-water level the pressures imply is a
 dash-dot sky-blue line across the pressure track with its interval shaded. Points
 outside the plotted depths are counted in a note on the figure, never dropped
 silently. Colours are those of :mod:`satheight.plots.style`.
@@ -17,7 +18,8 @@ from __future__ import annotations
 import numpy as np
 
 from .. import constants as C
-from .style import BLACK, BLUE, GREY, ORANGE, PURPLE, VERMILLION, YELLOW
+from .style import BLACK, BLUE, GREEN, GREY, ORANGE, PURPLE, VERMILLION, YELLOW
+from .text import safe_text
 from .track_curves import K_RANGE_MD, draw_pressure_header
 from .track_frame import FWL_COLOUR, Frame
 
@@ -51,33 +53,37 @@ def _marks(f: Frame, ax, x, y, colour: str, marker: str, label: str, *, transfor
     f.handles.append(Line2D([], [], label=label, **kw))
 
 
-def draw_core(f: Frame, y, sw=None, porosity=None, permeability=None, label: str = "Core plug"
-              ) -> None:
-    """Plug Sw [fraction], porosity [fraction] and permeability [m^2] at plot depths ``y``.
+def draw_core(f: Frame, sw=None, porosity=None, permeability=None) -> None:
+    """Plug Sw [fraction], porosity [fraction] and permeability [m^2]: each ``None`` or
+    (plot depths, values, legend text).
 
     Permeability is placed on the log scale of the permeability curve
     (:data:`satheight.plots.track_curves.K_RANGE_MD`) in the track's axes fraction,
     so it needs no handle on the curve's twin scale.
     """
     if sw is not None:
-        _marks(f, f.axes["sw"], sw, y, YELLOW, "D", f"{label} Sw")
+        y, v, label = sw
+        _marks(f, f.axes["sw"], v, y, YELLOW, "D", label or "Core plug Sw")
     ax = f.axes["phik"]
     if porosity is not None:
-        _marks(f, ax, porosity, y, BLUE, "o", f"{label} porosity")
+        y, v, label = porosity
+        _marks(f, ax, v, y, BLUE, "o", label or "Core plug porosity")
     if permeability is not None:
-        k_md = np.asarray(permeability, dtype=float) / C.MILLIDARCY
+        y, v, label = permeability
+        k_md = np.asarray(v, dtype=float) / C.MILLIDARCY
         with np.errstate(divide="ignore", invalid="ignore"):
             frac = (np.log10(k_md) - np.log10(K_RANGE_MD[0])) / np.log10(K_RANGE_MD[1] / K_RANGE_MD[0])
         frac = np.where(np.isfinite(frac), frac, np.nan)
-        _marks(f, ax, frac, y, VERMILLION, "s", f"{label} permeability",
+        _marks(f, ax, frac, y, VERMILLION, "s", label or "Core plug permeability",
                transform=ax.get_yaxis_transform())
 
 
 def draw_pressures(f: Frame, y, p, unit: str, fluid=None, unused=None, levels=(),
-                   label: str = "Pressure") -> None:
+                   label: str = "") -> None:
     """Pressure points [display unit] at plot depths ``y`` on the pressure track.
 
-    ``fluid``: the fluid word of each point (colour); ``unused``: True where the fit
+    ``fluid``: the fluid word of each point (colour; without it all points are green,
+    in the legend as ``label`` or "Formation pressure"); ``unused``: True where the fit
     leaves the point out (hollow). ``levels``: (label, plot depths, band top, band
     base) of each free-water level the pressures imply, drawn across the track.
     """
@@ -88,15 +94,20 @@ def draw_pressures(f: Frame, y, p, unit: str, fluid=None, unused=None, levels=()
     shown = np.isfinite(y) & (y >= f.y_top) & (y <= f.y_base)
     draw_pressure_header(f, p[shown], unit)
     ax = f.axes["p"]
-    fluid = np.full(y.shape, "unknown", dtype=object) if fluid is None else np.asarray(fluid, object)
     unused = np.zeros(y.shape, bool) if unused is None else np.asarray(unused, bool)
+    if fluid is None:
+        _marks(f, ax, p[~unused], y[~unused], GREEN, "o", label or "Formation pressure")
+        _marks(f, ax, p[unused], y[unused], GREEN, "o", "Not fitted", hollow=True)
+        fluid = np.empty(0, dtype=object)
+    fluid = np.asarray(fluid, dtype=object)
     for name in sorted(set(fluid.tolist()), key=lambda n: list(FLUID_COLOURS).index(n)
                        if n in FLUID_COLOURS else 9):
         m = fluid == name
         colour = FLUID_COLOURS.get(name, GREY)
-        _marks(f, ax, p[m & ~unused], y[m & ~unused], colour, "o", f"{label}, {name}")
-        _marks(f, ax, p[m & unused], y[m & unused], colour, "o",
-               f"{label}, {name}, not fitted (quality)", hollow=True)
+        text = f"{label or 'Pressure'}, {safe_text(name, 12)}"
+        _marks(f, ax, p[m & ~unused], y[m & ~unused], colour, "o", text)
+        _marks(f, ax, p[m & unused], y[m & unused], colour, "o", text + ", not fitted",
+               hollow=True)
     drawn = False
     for text, ys, top, base in levels:
         for yy in ys:

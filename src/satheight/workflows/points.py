@@ -74,10 +74,11 @@ def track_points(result: WellResult, depth_axis: str = "tvdss", levels=(),
     plugs = result.plugs
     if plugs is not None:
         depth, ref = (plugs.md, "md") if depth_axis == "md" else (plugs.tvdss, "tvdss")
-        out["core_porosity"] = DepthPoints(depth, plugs.porosity, ref, "Core plug")
-        out["core_permeability"] = DepthPoints(depth, plugs.permeability, ref, "Core plug")
+        out["core_porosity"] = DepthPoints(depth, plugs.porosity, ref, "Core plug porosity")
+        out["core_permeability"] = DepthPoints(depth, plugs.permeability, ref,
+                                               "Core plug permeability")
         if np.isfinite(plugs.sw).any():
-            out["core_sw"] = DepthPoints(depth, plugs.sw, ref, "Core plug")
+            out["core_sw"] = DepthPoints(depth, plugs.sw, ref, "Core plug Sw")
     pts = result.pressures
     if pts is not None:
         unused = ~np.isin(pts.quality.astype(str), DEFAULT_QUALITIES) | \

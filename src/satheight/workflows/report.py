@@ -152,6 +152,7 @@ def input_files(project: Project) -> list[dict]:
     measured = project.measured
     for path in () if measured is None else measured.core_files:
         add("core data", path)
+        seen.add(("core", str(Path(path).resolve())))     # listed once, with today's checksum
     if measured is not None and measured.pressure_file is not None:
         add("pressures", measured.pressure_file)
     models = []
