@@ -138,8 +138,8 @@ def test_points_drawn_at_their_depths_and_counted(demo, results):
     y_sw = _marker_y(_axes(fig, "Water saturation"), "D")
     np.testing.assert_allclose(y_sw, np.sort([float(r["depth [m]"]) - 28.5 for r in sw_rows]),
                                atol=1e-9)
-    # plug porosity circles on the porosity track: every plug row
-    np.testing.assert_allclose(_marker_y(_axes(fig, "Porosity"), "o"), hand, atol=1e-9)
+    # plug porosity triangles on the porosity track: every plug row
+    np.testing.assert_allclose(_marker_y(_axes(fig, "Porosity"), "^"), hand, atol=1e-9)
     # pressure points: every row of the file for the well, at its TVDSS (MD - 28.5 m for
     # the row that gives only MD)
     prow = [r for r in _rows("demo_pressures.csv") if r["well"] == "VANTREL-1"]
@@ -151,7 +151,7 @@ def test_points_drawn_at_their_depths_and_counted(demo, results):
     outside = int(np.count_nonzero((hand < 2010.0) | (hand > 2330.0)))
     assert outside == 3
     texts = [t.get_text() for ax in fig.axes for t in ax.texts]
-    assert any(f"{outside} core plugs outside the plotted depths" in t for t in texts)
+    assert any(f"{outside} core plugs\noutside the plotted depths" in t for t in texts)
 
 
 def test_fwl_from_pressures_is_drawn_near_the_invented_truth(demo, results):
@@ -264,8 +264,8 @@ def test_labels_from_input_text_are_escaped(results):
     result = results["VANTREL-2"]
     kw = track_points(result, "tvdss", (("FWL $x$ (pressures)", 2105.0, 2103.0, 2107.0),))
     fig = track_plot(result, **kw)
-    texts = [t.get_text() for t in _axes(fig, "Pressure").texts]
-    assert r"FWL \$x\$ (pressures)" in texts
+    labels = [ln.get_label() for ln in _axes(fig, "Pressure").get_lines()]
+    assert r"FWL \$x\$ (pressures)" in labels
     fig.canvas.draw()                         # mathtext would fail or eat the dollars
 
 

@@ -332,7 +332,7 @@ def _points_note(f: Frame, core, pressures) -> list[str]:
                       (pressures, "pressure point")):
         n = 0 if pts is None else count_outside(f, _points_depth(f, pts))
         if n:
-            notes.append(f"{n} {what}{'s' if n > 1 else ''} outside the plotted depths")
+            notes.append(f"{n} {what}{'s' if n > 1 else ''}\noutside the plotted depths")
     return notes
 
 

@@ -2,7 +2,7 @@
 
 Core plugs sit on the tracks of the quantity they measure, as filled markers with a
 black edge so they stand out from the curve of the same colour: plug porosity (blue
-circles) and permeability (vermilion squares) on the porosity-permeability track,
+triangles) and permeability (vermilion squares) on the porosity-permeability track,
 plug Sw (yellow diamonds) on the saturation track. Formation pressures sit on their
 own narrow track, coloured by the fluid the file names (water blue, oil orange, gas
 purple as the hydrocarbon fills, unknown grey); points the pressure fit leaves out
@@ -67,7 +67,7 @@ def draw_core(f: Frame, sw=None, porosity=None, permeability=None) -> None:
     ax = f.axes["phik"]
     if porosity is not None:
         y, v, label = porosity
-        _marks(f, ax, v, y, BLUE, "o", label or "Core plug porosity")
+        _marks(f, ax, v, y, BLUE, "^", label or "Core plug porosity")
     if permeability is not None:
         y, v, label = permeability
         k_md = np.asarray(v, dtype=float) / C.MILLIDARCY
@@ -81,6 +81,9 @@ def draw_core(f: Frame, sw=None, porosity=None, permeability=None) -> None:
 def draw_pressures(f: Frame, y, p, unit: str, fluid=None, unused=None, levels=(),
                    label: str = "") -> None:
     """Pressure points [display unit] at plot depths ``y`` on the pressure track.
+
+    Each level's line carries its label as the artist's label (not drawn: the legend
+    entry "FWL from pressures" names the lines).
 
     ``fluid``: the fluid word of each point (colour; without it all points are green,
     in the legend as ``label`` or "Formation pressure"); ``unused``: True where the fit
@@ -109,12 +112,9 @@ def draw_pressures(f: Frame, y, p, unit: str, fluid=None, unused=None, levels=()
         _marks(f, ax, p[m & unused], y[m & unused], colour, "o", text + ", not fitted",
                hollow=True)
     drawn = False
-    for text, ys, top, base in levels:
+    for text, ys, top, base in levels:   # unlabelled on the narrow track: the legend names it
         for yy in ys:
-            ax.axhline(yy, color=FWL_COLOUR, lw=1.4, ls="-.", zorder=4)
-            ax.text(0.03, yy, text, transform=ax.get_yaxis_transform(), ha="left", va="bottom",
-                    fontsize=6.5, color=BLUE, zorder=6,
-                    bbox=dict(facecolor="white", edgecolor="none", alpha=0.7, pad=0.4))
+            ax.axhline(yy, color=FWL_COLOUR, lw=1.4, ls="-.", zorder=4, label=text)
             drawn = True
         if np.isfinite(top) and np.isfinite(base) and base > top:
             ax.axhspan(top, base, color=FWL_COLOUR, alpha=0.25, lw=0, zorder=0.8)
