@@ -273,3 +273,15 @@ def test_depth_points_default_fields_keep_the_old_call():
     # the two new fields are optional: the earlier positional form still builds
     p = DepthPoints(np.array([2000.0]), np.array([0.3]), "tvdss", "Core plug")
     assert p.kind is None and p.unused is None
+
+
+def test_python_surface_draws_the_points_too():
+    # README (Python use): a well's track_plot() shows its plugs as a run does
+    import satheight
+
+    well = satheight.run_well(satheight.open_project(DEMO / "demo_project.toml"), "VANTREL-1")
+    fig = well.track_plot()
+    with_sw = [r for r in _plug_rows("VANTREL-1") if r.get("sw [frac]")]
+    assert _marker_y(_axes(fig, "Water saturation"), "D").size == len(with_sw)
+    prow = [r for r in _rows("demo_pressures.csv") if r["well"] == "VANTREL-1"]
+    assert _marker_y(_axes(fig, "Pressure"), "o").size == len(prow)
