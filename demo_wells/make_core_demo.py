@@ -13,6 +13,8 @@ Files written next to this script::
                          mercury saturation in %)
     core_plate_steps.csv pressure steps of the porous-plate curves (air_brine, Sw fraction)
     core_plug_V12.csv    a twelfth plug as a single two-column table (porous plate)
+    core_dean_stark.csv  routine core analysis of two cored intervals: porosity,
+                         permeability and Dean-Stark water saturation every 3 m of MD
     core_models.json     the J-Sw functions fitted to these files by ``satheight fit``
                          (the demo project file refers to it)
 
@@ -32,6 +34,16 @@ How the data are made (one numpy seed):
    (2-4 %, filling by 60 % of the entry pressure) + (1 - conformance) x true
    non-wetting saturation, plus noise (sd 0.5 %), kept non-decreasing.
 5. Porous plate: 9 steps 1-200 psi; Sw with noise (sd 0.01), kept non-increasing.
+6. Routine core analysis (``core_dean_stark.csv``, its own seed stream so the files
+   above do not change): plugs every 3 m of MD over two cored intervals, VANTREL-1
+   MD 2031-2139 m (TVDSS 2002.5-2110.5: cap shale into the Upper Sand, across its
+   FWL) and VANTREL-5 MD 2455-2545 m (deviated: TVDSS about 2228-2299, the Lower
+   Sand across its FWL). Each plug takes the log sample nearest its MD: porosity =
+   log porosity + noise (sd 0.005), permeability = log permeability times a lognormal
+   factor (sd of ln 0.15), Sw = the true Sw of the demo logs + noise (sd 0.02),
+   clipped to [0, 1] (a Dean-Stark Sw on oil-based-mud core is taken as the in-situ
+   Sw, common practice). The three plugs above TVDSS 2010 m lie outside the zones'
+   plotted window, on purpose.
 
 Run::
 
@@ -131,6 +143,30 @@ HEAD = ("# INVENTED DEMO DATA (Vantrel demo field): every plug and number is mad
         "# demo_wells/make_core_demo.py and describes no real rock.\n")
 
 
+#: Cored intervals of the routine core analysis: (well index, first MD, last MD) [m].
+CORED = ((0, 2031.0, 2139.0), (4, 2455.0, 2545.0))
+
+
+def dean_stark_text() -> str:
+    """The routine-core-analysis table: porosity, permeability and Dean-Stark Sw."""
+    rng = np.random.default_rng([SEED, 6])      # its own stream: the other files stay
+    field = field_demo.build_field()
+    rows = [HEAD + "plug,well,depth [m],porosity [frac],permeability [mD],sw [frac]"]
+    for iw, first, last in CORED:
+        spec = field_demo.WELLS[iw]
+        w = field[spec["name"]]
+        _, md_log, _, _ = field_demo.depth_axis(spec)
+        md = np.arange(first, last + 1e-9, 3.0)
+        i = np.abs(md_log[None, :] - md[:, None]).argmin(axis=1)   # nearest log sample
+        phi = np.clip(w["PHIE"][i] + rng.normal(0, 0.005, md.size), 0.01, 0.35)
+        k = np.clip(w["PERM"][i] * np.exp(rng.normal(0, 0.15, md.size)), 0.01, None)
+        sw = np.clip(w["sw_true"][i] + rng.normal(0, 0.02, md.size), 0.0, 1.0)
+        tag = spec["name"].rsplit("-", 1)[-1]
+        rows += [f"D{tag}-{n + 1:02d},{spec['name']},{md[n]:.2f},{phi[n]:.4f},"
+                 f"{k[n]:.3f},{sw[n]:.3f}" for n in range(md.size)]
+    return "\n".join(rows) + "\n"
+
+
 def files() -> dict[str, str]:
     rng = np.random.default_rng(SEED)
     plugs = make_plugs(rng)
@@ -162,7 +198,8 @@ def files() -> dict[str, str]:
     return {"core_plugs.csv": "\n".join(table) + "\n",
             "core_pc_steps.csv": "\n".join(step_rows) + "\n",
             "core_plate_steps.csv": "\n".join(plate) + "\n",
-            "core_plug_V12.csv": single}
+            "core_plug_V12.csv": single,
+            "core_dean_stark.csv": dean_stark_text()}
 
 
 def fitted_model_text(folder: Path) -> str:

@@ -92,7 +92,8 @@ def test_dlis_well_runs_like_its_las_file(tmp_path):
     chans = [(c.mnemonic, c.data, c.unit) for c in las.curves.values()]
     _write(tmp_path / "VANTREL-4.dlis", [("MAIN", "BOREHOLE-DEPTH", chans)],
            well_name="VANTREL-4")
-    for name in ("core_models.json", "demo_tops.csv"):
+    for name in ("core_models.json", "demo_tops.csv", "demo_pressures.csv", "core_plugs.csv",
+                 "core_plug_V12.csv", "core_dean_stark.csv"):
         shutil.copy(DEMO / name, tmp_path / name)
     text = (DEMO / "demo_project.toml").read_text(encoding="utf-8")
     text = text.replace('las = "VANTREL-4.las"', 'las = "VANTREL-4.dlis"')

@@ -254,14 +254,14 @@ def test_md_points_of_a_deviated_well_follow_its_survey(tmp_path):
     # survey (minimum curvature), the same TVDSS the log samples of that MD get.
     import lasio
 
-    from satheight.workflows.contacts import _datums
+    from satheight.workflows.well import depth_maps
 
     demo = Path(__file__).resolve().parents[1] / "demo_wells"
     from satheight.project.reader import load_project
     from satheight.workflows.run import run_project
 
     project = load_project(demo / "demo_project.toml")
-    conv = _datums(project, {"VANTREL-5"})["VANTREL-5"]
+    conv = depth_maps(project, {"VANTREL-5"})["VANTREL-5"]
     # README (Contacts): MD-only points need the well's survey and datum
     assert callable(conv)
     report = run_project(project, tmp_path / "o", plot=False)

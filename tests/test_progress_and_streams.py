@@ -76,8 +76,10 @@ def test_failed_well_goes_to_stderr_and_results_to_stdout(tmp_path):
     bad = tmp_path / "BROKEN-1.las"
     bad.write_text("this is not a LAS file\n", encoding="utf-8")
     text = (DEMO / "demo_project.toml").read_text(encoding="utf-8")
-    for key in ("las", "survey", "file", "tops_file"):
+    for key in ("las", "survey", "file", "tops_file", "pressure_file"):
         text = text.replace(f'\n{key} = "', f'\n{key} = "{DEMO.as_posix()}/')
+    text = text.replace('core_files = ["', f'core_files = ["{DEMO.as_posix()}/')
+    text = text.replace('", "', f'", "{DEMO.as_posix()}/')    # the other core files
     text += f'\n[[wells]]\nlas = "{bad.as_posix()}"\n'
     (tmp_path / "p.toml").write_text(text, encoding="utf-8")
     code, out, err = _run(["run", tmp_path / "p.toml", "--no-plots", "--out", tmp_path / "o"])

@@ -129,7 +129,10 @@ def test_input_files_lists_every_input_with_its_checksum():
         by_kind.setdefault(r["kind"], []).append(r)
     assert len(by_kind["LAS"]) == 5 and len(by_kind["survey"]) == 1
     assert len(by_kind["tops"]) == 1 and len(by_kind["model file"]) == 1
-    assert len(by_kind["core data (recorded in the model file)"]) == 4
+    # the demo's four fitted core files: two named by core_files too (listed once, as core
+    # data, with the Dean-Stark table), two only through the model file
+    assert len(by_kind["core data"]) == 3 and len(by_kind["pressures"]) == 1
+    assert len(by_kind["core data (recorded in the model file)"]) == 2
     for r in rows:
         if r["kind"].startswith("core"):
             continue
@@ -149,8 +152,9 @@ def test_project_parameters_are_shown_in_the_project_units(tmp_path):
     assert "Water density1079 kg/m3" in text or "Water density1080 kg/m3" in text
     src = (DEMO / "demo_project.toml").read_text(encoding="utf-8")
     src = src.replace('units = "metric"', 'units = "field"')
-    for key in ("las", "survey", "file", "tops_file"):
+    for key in ("las", "survey", "file", "tops_file", "pressure_file"):
         src = re.sub(rf'^{key} = "', f'{key} = "{DEMO.as_posix()}/', src, flags=re.M)
+    src = re.sub(r'^core_files = .*$', "", src, flags=re.M)      # not shown among the parameters
     (tmp_path / "field.toml").write_text(src, encoding="utf-8")
     field = load_project(tmp_path / "field.toml")
     text = _visible_text(render(_summary("W-1"), "Demo", project=field))

@@ -78,7 +78,7 @@ def test_start_finds_wells_roles_depth_units_datum_and_files(folder, capsys):
     assert Path(wells["VANTREL-5"]["survey"]).name == "VANTREL-5_survey.csv"
     assert {Path(p).name for p in rec["files"]["tops"]} == {"demo_tops.csv"}
     assert {Path(p).name for p in rec["files"]["pressures"]} == {"demo_pressures.csv"}
-    assert len(rec["files"]["core"]) == 4
+    assert len(rec["files"]["core"]) == 5      # four fitted core files and the Dean-Stark table
     assert rec["zones"] == ["Upper Sand", "Lower Sand"]     # from the tops file
 
 

@@ -38,6 +38,7 @@ from .project.types import Project
 from .results import WellResult
 from .workflows.fit import run_fit, settings_from_options
 from .workflows.outputs import open_project as _open_project
+from .workflows.points import pressure_levels, track_points
 from .workflows.run import RunReport, find_demo_project, run_project
 from .workflows.well import compute_well, output_curves
 
@@ -203,8 +204,12 @@ def result_frame(well: WellRun) -> "pd.DataFrame":
 
 def track_plot(well: WellRun, **options):
     """The well's track plot (options: ``depth_axis="tvdss"|"md"``, ``interval="zones"|"all"``,
-    ``title``, ``page="screen"|"a4"``)."""
-    return plots.track_plot(well.result, units=well.project.unit_system, **options)
+    ``title``, ``page="screen"|"a4"``), with its core plugs and pressure points (the project's
+    ``core_files`` and ``pressure_file``) as in a run."""
+    levels, rejected = ((), frozenset()) if well.result.pressures is None else \
+        pressure_levels(well.project, [])
+    points = track_points(well.result, options.get("depth_axis", "tvdss"), levels, rejected)
+    return plots.track_plot(well.result, units=well.project.unit_system, **{**points, **options})
 
 
 def crossplots(wells) -> dict:

@@ -40,7 +40,6 @@ from .plausible import require_plausible
 # ----------------------------------------------------------------------------------
 # fluid systems
 
-
 @dataclass(frozen=True)
 class FluidSystem:
     """A pair of fluids with their interfacial tension and contact angle.
@@ -171,7 +170,6 @@ def conversion_ratio(lab: FluidSystem, reservoir: FluidSystem) -> float:
 # ----------------------------------------------------------------------------------
 # mercury injection
 
-
 def wetting_saturation_from_mercury(s_hg):
     """Wetting-phase saturation [fraction] from mercury (non-wetting) saturation.
 
@@ -276,7 +274,6 @@ def stress_correct(phi, k, phi_factor: float = 1.0, k_factor: float = 1.0):
 # ----------------------------------------------------------------------------------
 # data model
 
-
 @dataclass(frozen=True)
 class Plug:
     """One core plug.
@@ -298,6 +295,8 @@ class Plug:
         Other plug-table columns (available for grouping).
     source : str
         File and row the plug was read from.
+    sw : float or None
+        Water saturation measured on the plug (e.g. Dean-Stark) [fraction], if given.
     """
 
     plug_id: str
@@ -309,6 +308,7 @@ class Plug:
     rock_type: str | None = None
     extra: dict = field(default_factory=dict)
     source: str = ""
+    sw: float | None = None
 
 
 @dataclass(frozen=True)

@@ -55,6 +55,34 @@ class ShmResult:
     flag: np.ndarray
 
 
+@dataclass(frozen=True)
+class WellPlugs:
+    """The core plugs of one well placed in depth (SI): what its track plot draws.
+
+    Attributes
+    ----------
+    plug : numpy.ndarray of str
+        Plug ids, in the order of the files.
+    md : numpy.ndarray
+        Measured depth of each plug [m], as the core file gives it.
+    tvdss : numpy.ndarray
+        TVDSS [m], positive down: the MD turned into TVDSS through the well's
+        trajectory and datum exactly as the log samples are.
+    sw : numpy.ndarray
+        Water saturation measured on the plug (e.g. Dean-Stark) [fraction], NaN
+        where the file gives none.
+    porosity, permeability : numpy.ndarray
+        [fraction], [m^2].
+    """
+
+    plug: np.ndarray
+    md: np.ndarray
+    tvdss: np.ndarray
+    sw: np.ndarray
+    porosity: np.ndarray
+    permeability: np.ndarray
+
+
 @dataclass
 class WellResult:
     """Everything computed for one well: what writers, summaries and plots read.
@@ -101,6 +129,11 @@ class WellResult:
         is what is exported.
     vsh : numpy.ndarray or None
         Shale volume [fraction] from the well's ``shale`` curve, if it has one.
+    plugs : WellPlugs or None
+        The well's core plugs from the project's ``core_files`` (None: none).
+    pressures : satheight.pressures.PressurePoints or None
+        The well's formation-pressure points from the project's ``pressure_file``,
+        every TVDSS filled (None: none).
     """
 
     well: Well
@@ -122,3 +155,5 @@ class WellResult:
     survey: Any = None
     sw_log_unclipped: np.ndarray | None = None
     vsh: np.ndarray | None = None
+    plugs: WellPlugs | None = None
+    pressures: Any = None

@@ -26,8 +26,11 @@ Rows of one plug and system form one curve, in increasing pressure.
     P01,VANTREL-1,2051.3,0.231,87.5,2.65,Upper Sand
 
 ``plug``, ``well``, ``depth [unit]`` (unit required), ``porosity`` (frac or %),
-``permeability`` (mD default, or D, m2) are required; ``grain_density`` and
-``rock_type`` are optional; any other column is kept as text for grouping.
+``permeability`` (mD default, or D, m2) are required; ``grain_density``,
+``rock_type`` and ``sw`` (water saturation measured on the plug, e.g. by
+Dean-Stark extraction; frac or %, a blank cell for none) are optional; any other
+column is kept as text for grouping. ``depth`` is the plug's measured depth (MD)
+in the well, below the log depth reference.
 
 **Single plug** (two columns, plug properties in ``# key = value`` lines)::
 
@@ -304,7 +307,11 @@ def _plug_from(values: dict, where: str, units: dict, extra: dict) -> Plug:
                                  where=where, hint="give the grain density, e.g. 2.65 g/cm3, "
                                                    "or leave the cell blank")
     rt = values.get("rock_type") or None
-    return Plug(values["plug"], values.get("well", ""), depth, phi, k, rho, rt, extra, where)
+    sw = None
+    if values.get("sw"):    # measured on the plug (Dean-Stark...), not a Pc step
+        sw = _saturation(num("sw", _factor(units.get("sw", ""), "fraction", where, "sw",
+                                           default="frac")), where, "sw")
+    return Plug(values["plug"], values.get("well", ""), depth, phi, k, rho, rt, extra, where, sw)
 
 
 def read_plug_table(path) -> dict:

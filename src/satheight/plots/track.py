@@ -1,10 +1,12 @@
 """Track plot of one well: logs, saturation-height results and zones against depth.
 
 :func:`track_plot` draws, left to right, gamma ray (when the well has a ``GR``
-curve), porosity with permeability, deep resistivity (when present), pressure
-points (when given), water saturation (log Sw over the saturation-height Sw, their
+curve), porosity with permeability (and core plug porosity and permeability when
+given), deep resistivity (when present), formation pressures (when given, with the
+FWL they imply), water saturation (log Sw over the saturation-height Sw, their
 difference and the hydrocarbon shaded, core plug Sw when given) and height above
-the free-water level with the Leverett J on a fixed scale. Zone windows are shaded
+the free-water level with the Leverett J on a fixed scale (:mod:`satheight.plots.track_points`
+draws the measured points). Zone windows are shaded
 across every track, each zone's FWL is drawn as a line, and flagged samples are
 marked in the saturation track. By default only the zones with a margin are shown.
 
@@ -29,13 +31,13 @@ from ..errors import DepthError, SatHeightError, UnitError
 from ..results import WellResult
 from ..units import SHOWN_DECIMALS, UNIT_SYSTEMS, factor
 from .depths import level_crossings, mapping, monotone_pairs
-from .style import DPI, GREEN, GREY, PAGES, YELLOW
+from .style import DPI, GREY, PAGES
 from .text import safe_text
-from .track_curves import (J_RANGE, draw_flags, draw_gr, draw_height, draw_phik, draw_points,
-                           draw_pressure_header, draw_rt, draw_sw, draw_sw_band,
-                           hydrocarbon_kind)
+from .track_curves import (J_RANGE, draw_flags, draw_gr, draw_height, draw_phik, draw_rt,
+                           draw_sw, draw_sw_band, hydrocarbon_kind)
 from .track_frame import GRID_COLOUR, Frame, finite_range, number
 from .track_levels import draw_free_oil_levels, draw_fwls, draw_zones, zone_depths
+from .track_points import count_outside, draw_core, draw_pressures
 
 __all__ = ["track_plot", "DepthPoints", "DPI", "depth_ticks"]
 
@@ -70,12 +72,18 @@ class DepthPoints:
         Which depth ``depth`` is: measured depth or TVDSS.
     label : str
         Legend text (escaped when drawn).
+    kind : numpy.ndarray of str, optional
+        Fluid of each pressure point (``water``, ``oil``, ``gas``, ``unknown``): its colour.
+    unused : numpy.ndarray of bool, optional
+        True where a pressure point is left out of the gradient fit (drawn hollow).
     """
 
     depth: np.ndarray
     value: np.ndarray
     reference: str = "md"
     label: str = ""
+    kind: np.ndarray | None = None
+    unused: np.ndarray | None = None
 
 
 def depth_ticks(units: str, span: float, height: float) -> tuple[float, float]:
@@ -332,18 +340,40 @@ def _points_depth(f: Frame, pts: DepthPoints) -> np.ndarray:
     return np.where(inside, to(d), np.nan) / f.scale
 
 
-def _draw_measured(f: Frame, core_sw, pressures, units: str) -> None:
-    """Core plug Sw on the Sw track and formation pressures on their own track."""
-    if core_sw is not None:
-        draw_points(f, "sw", _points_depth(f, core_sw), np.asarray(core_sw.value, float),
-                    safe_text(core_sw.label) or "Core plug Sw", YELLOW, "D")
+def _points_note(f: Frame, core, pressures) -> list[str]:
+    """Notes counting the plugs and pressure points outside the plotted depths."""
+    notes = []
+    for pts, what in ((next((c for c in core if c is not None), None), "core plug"),
+                      (pressures, "pressure point")):
+        n = 0 if pts is None else count_outside(f, _points_depth(f, pts))
+        if n:
+            notes.append(f"{n} {what}{'s' if n > 1 else ''}\noutside the plotted depths")
+    return notes
+
+
+def _level_marks(f: Frame, levels) -> list:
+    """(label, plot depths, band top, band base) of each FWL the pressures imply."""
+    out = []
+    for label, depth, low, high in levels:
+        ys = f.level_depths(float(depth))
+        band = [np.nan, np.nan]
+        if f.depth_axis == "tvdss" and low is not None and high is not None:
+            band = [float(low) / f.scale, float(high) / f.scale]
+        if ys.size:
+            out.append((safe_text(label), ys, *band))
+    return out
+
+
+def _draw_measured(f: Frame, core, pressures, units: str, levels=()) -> None:
+    """Core plugs (Sw, porosity, permeability) on their tracks and formation pressures
+    (with the FWL they imply) on their own track."""
+    draw_core(f, *(None if c is None else (_points_depth(f, c), np.asarray(c.value, float),
+                                            safe_text(c.label)) for c in core))
     if pressures is not None:
         unit = UNIT_SYSTEMS[units]["pressure"]
         p = np.asarray(pressures.value, float) / factor(unit, "pressure")
-        y = _points_depth(f, pressures)
-        shown = np.isfinite(y) & (y >= f.y_top) & (y <= f.y_base)
-        draw_pressure_header(f, p[shown], unit)
-        draw_points(f, "p", y, p, safe_text(pressures.label) or "Formation pressure", GREEN, "o")
+        draw_pressures(f, _points_depth(f, pressures), p, unit, pressures.kind, pressures.unused,
+                       _level_marks(f, levels), safe_text(pressures.label))
 
 
 def _draw_results(f: Frame, result: WellResult, units: str, notes, j_range,
@@ -381,7 +411,9 @@ def _title_and_legend(f: Frame, result: WellResult, title: str | None) -> None:
 def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metric",
                title: str | None = None, *, interval: str = "zones", page: str = "screen",
                j_range: tuple[float, float] = J_RANGE, core_sw: DepthPoints | None = None,
-               pressures: DepthPoints | None = None, sw_band: dict | None = None) -> Figure:
+               pressures: DepthPoints | None = None, core_porosity: DepthPoints | None = None,
+               core_permeability: DepthPoints | None = None, pressure_levels=(),
+               sw_band: dict | None = None) -> Figure:
     """One well's track plot as a figure (the caller writes it).
 
     Tracks, left to right: gamma ray (only if the well has a curve named ``GR``, any
@@ -392,11 +424,11 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     (thin blue), the gap shaded sky blue where the log is wetter and vermilion where
     it is drier, the hydrocarbon between SHM Sw and 1 shaded pale by fluid, core plug
     Sw as diamonds, flagged samples marked at the left edge; height above FWL [m or
-    ft] with J [-] on the log scale ``j_range`` (the same in every well). Zone
-    windows are shaded across all tracks with their names at the right, and each
-    zone's FWL is a dashed line labelled ``FWL <zone>`` (or a note when it lies
-    outside the log). Depth increases downwards; ticks every 10 m with labels every
-    50 m (50 ft / 100 ft in field units).
+    ft] with J [-] on the log scale ``j_range`` (the same in every well); measured
+    points as in :mod:`satheight.plots.track_points`. Zone windows are shaded across
+    all tracks with their names at the right, and each zone's FWL is a dashed line
+    labelled ``FWL <zone>`` (or a note when it lies outside the log). Depth increases
+    downwards; ticks every 10 m with labels every 50 m (50 ft / 100 ft in field units).
 
     Parameters
     ----------
@@ -418,10 +450,11 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     page : {"screen", "a4"}
         ``"screen"``: width from the tracks, height from the interval (25 m per inch,
         10 to 30 inch); ``"a4"``: an A4 portrait page (210 x 297 mm).
-    j_range : (float, float)
-        Limits of the J scale [-].
-    core_sw, pressures : DepthPoints, optional
-        Core plug Sw [fraction] and formation pressures [Pa] to draw as points.
+    j_range : (float, float): limits of the J scale [-].
+    core_sw, pressures, core_porosity, core_permeability : DepthPoints, optional
+        Plug Sw, porosity [fraction], permeability [m^2] (the plugs outside the plot
+        are counted on the first given), pressures [Pa] (colour by ``kind``, hollow if ``unused``).
+    pressure_levels : sequence of (label, TVDSS [m], interval top, base [m] or None)
     sw_band : dict, optional
         Monte Carlo ``"SW_P10"``, ``"SW_P90"`` [fraction] per sample: a grey band on the Sw
         track (SW_P90 the high-Sw edge: the P90 volume is exceeded with 90 % probability).
@@ -448,6 +481,7 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     _depth_scales(f, units)
     zones = list(result.zones or [])
     notes = draw_fwls(f, draw_zones(f, zones))
+    notes += _points_note(f, core := (core_sw, core_porosity, core_permeability), pressures)
     draw_free_oil_levels(f, zones)
     if gr is not None:
         draw_gr(f, gr)
@@ -455,6 +489,6 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
     if result.rt is not None:
         draw_rt(f, result.rt, (result.roles or {}).get("resistivity") or "RT")
     _draw_results(f, result, units, notes, j_range, _checked_band(sw_band, result))
-    _draw_measured(f, core_sw, pressures, units)
+    _draw_measured(f, core, pressures, units, pressure_levels)
     _title_and_legend(f, result, title)
     return f.fig

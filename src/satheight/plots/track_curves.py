@@ -159,17 +159,6 @@ def draw_flags(f: Frame, flag) -> None:
         f.handles.append(Patch(color=_FLAG, label="Flagged (bad input or J outside range)"))
 
 
-def draw_points(f: Frame, key: str, y, values, label: str, colour: str, marker: str) -> None:
-    """Measured points (core plug Sw, formation pressures) as markers on a track."""
-    from matplotlib.lines import Line2D
-
-    ax = f.axes[key]
-    ax.plot(values, y, ls="none", marker=marker, ms=5, mfc=colour, mec=BLACK, mew=0.6,
-            zorder=5, clip_on=True)
-    f.handles.append(Line2D([], [], ls="none", marker=marker, ms=5, mfc=colour, mec=BLACK,
-                            mew=0.6, label=label))
-
-
 def draw_pressure_header(f: Frame, values, unit: str) -> None:
     """Scale of the pressure track from the points shown [display unit]."""
     from matplotlib.ticker import MaxNLocator

@@ -15,6 +15,8 @@ File format
     name = "Example field"          # optional, default file stem
     units = "metric"                # "metric" or "field": unit system of bare numbers (units.UNIT_SYSTEMS)
     tops_file = "tops.csv"          # optional: formation tops per well (io/tops.py layout), relative to this file; merged into the wells' tops
+    core_files = ["plugs.csv"]      # optional: core plug tables (io/core_data.py layouts); plugs drawn on their wells' track plots
+    pressure_file = "pressures.csv" # optional: formation-pressure points (io/pressures.py layout), drawn on their wells' track plots
 
     [log_sw]                        # optional table; defaults method="auto", a=1, m=2, n=2
     method = "auto"                 # "curve" (use the well's Sw curve), "archie" (from Rt and porosity), "auto" (curve if present else archie),
@@ -137,6 +139,7 @@ from ..units import UNIT_SYSTEMS
 from ..plausible import PHASE_DENSITY, RANGES
 from .fluid_keys import CONDITION_ALLOW, FLUID_ZONE_KEYS, read_zone_fluids
 from .functions import read_function
+from .measured import MEASURED_KEYS, read_measured
 from .types import ComparisonSpec, LogSwSpec, Project, WellSpec
 from .uncertainty_keys import UNCERTAINTY_TOP_KEY, UNCERTAINTY_ZONE_KEY, read_uncertainty
 from .values import ALLOW_KEY, ValueReader, _label, _show
@@ -145,7 +148,7 @@ from .wells import merge_tops_file, read_well
 __all__ = ["load_project", "parse_project"]
 
 _TOP_KEYS = ("project", "log_sw", "comparison", "wells", "zones", UNCERTAINTY_TOP_KEY)
-_PROJECT_KEYS = ("name", "units", "tops_file")
+_PROJECT_KEYS = ("name", "units", "tops_file") + MEASURED_KEYS
 _LOG_SW_KEYS = ("method", "a", "m", "n", "rw", "rsh", ALLOW_KEY)
 _COMPARISON_KEYS = ("min_porosity", "min_permeability", "max_shale", ALLOW_KEY)
 _LOG_SW_METHODS = ("curve", "archie", "auto", "simandoux", "indonesia")
@@ -300,7 +303,8 @@ class _Reader(ValueReader):
                        wells=wells, zones=zones, log_sw=log_sw, comparison=comparison,
                        tops_file=tops_file, tops_pending=pending,
                        uncertainty=read_uncertainty(data, self.path, self.unit_system,
-                                                    {z.name: z.function for z in zones}))
+                                                    {z.name: z.function for z in zones}),
+                       measured=read_measured(self, data["project"]))
 
     def array_of_tables(self, value: Any, key: str) -> list:
         if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):

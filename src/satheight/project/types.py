@@ -175,3 +175,6 @@ class Project:
     #: Monte Carlo settings and per-zone uncertain inputs
     #: (:class:`satheight.project.uncertainty_keys.UncertaintySpec`), or None.
     uncertainty: object | None = None
+    #: Core plugs and formation-pressure points named by ``[project] core_files`` and
+    #: ``pressure_file`` (:class:`satheight.project.measured.Measured`), or None.
+    measured: object | None = None

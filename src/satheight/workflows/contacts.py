@@ -22,7 +22,6 @@ from ..fwlmisfit import zone_samples
 from ..fwlsearch import FwlSearch, search_fwl
 from ..errors import SatHeightError
 from ..io.atomic import atomic_write_text
-from ..io.las import read_las
 from ..io.pressures import read_pressure_points, resolve_tvdss
 from ..plots.contacts import misfit_plot, pressure_plot
 from .figures import save_figure
@@ -34,7 +33,7 @@ from .output_folder import InputFiles, OutputSession
 from .console import SCHEMA_VERSION, Progress
 from .outputs import check_wells, open_project, project_inputs, safe_name
 from .handover import fwl_search_rows, pressure_rows, write_contacts
-from .well import compute_well, datum_elevation, well_path
+from .well import compute_well, depth_maps
 
 __all__ = ["run_fwl", "run_pressures", "fwl_from_project", "parse_exclude", "parse_fit_bounds"]
 
@@ -237,7 +236,7 @@ def _run_pressures(pressure_file, out_dir, project_path, zone, units, qualities,
     notes: list[str] = []
     _fill_zone(zone, points, project, notes)
     if project is not None and (points.tvdss != points.tvdss).any():
-        points = resolve_tvdss(points, _datums(project, set(points.well), notes))
+        points = resolve_tvdss(points, depth_maps(project, set(points.well), notes))
     elif (points.tvdss != points.tvdss).any():
         points = resolve_tvdss(points, {})
     notes += points.notes
@@ -337,27 +336,6 @@ def _check_zone_option(zone: str, points, project: Project | None) -> None:
     if not (points.zone == "").any():
         raise SatHeightError(f"--zone {zone!r} matches no point: every point of the file names "
                              "its zone", hint="leave --zone out")
-
-
-def _datums(project, wells: set, notes: list[str] | None = None) -> dict:
-    """Per well of the points: its datum elevation [m], or MD -> TVDSS [m] for a surveyed well.
-
-    The elevation is the run's (:func:`satheight.workflows.well.datum_elevation`); its
-    notes go to ``notes``.
-    """
-    out = {}
-    for spec in project.wells:
-        if spec.name is not None and spec.name not in wells:
-            continue
-        well = read_las(spec.las)
-        name = spec.name or well.name
-        if name in wells:
-            elev, _, more = datum_elevation(well, spec, project.unit_system)
-            if notes is not None:
-                notes += more
-            md_to_tvdss = well_path(spec, well, elev, project.unit_system)[3]
-            out[name] = elev if md_to_tvdss is None else md_to_tvdss
-    return out
 
 
 def _line(lf_, lf, pf, lu, pu) -> dict:

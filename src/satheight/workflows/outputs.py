@@ -29,6 +29,7 @@ from .figures import save_figure
 from .report import REPORT_NAME
 from .console import SCHEMA_VERSION
 from .handover import HANDOVER_FILES
+from .points import track_points
 from ..handover import md_at_tvdss
 from .uncertainty import (UNCERTAINTY_DECIMALS, uncertainty_curves, uncertainty_section,
                           well_uncertainty, write_tornado)
@@ -53,13 +54,18 @@ class PlotOptions:
     ``depth_axis``: main depth scale of the track plots (``"tvdss"`` or ``"md"``);
     ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``);
     ``existing``: input curves named like a computed one are replaced (``"replace"``) or
-    the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`."""
+    the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`;
+    ``pressure_levels`` and ``rejected_lines``: the FWLs the project's pressure file
+    implies and the lines of its points the fit rejected
+    (:func:`satheight.workflows.points.pressure_levels`), drawn on the track plots."""
 
     draw: bool = True
     pdf: bool = False
     depth_axis: str = "tvdss"
     interval: str = "zones"
     existing: str = "replace"
+    pressure_levels: tuple = ()
+    rejected_lines: frozenset = frozenset()
 
 
 NO_PLOTS = PlotOptions(draw=False)
@@ -102,7 +108,9 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     if opts.draw:
         fig = plots.track_plot(result, units=project.unit_system, depth_axis=opts.depth_axis,
                                interval=opts.interval,
-                               sw_band=None if mc is None else mc.result.sw_percentiles)
+                               sw_band=None if mc is None else mc.result.sw_percentiles,
+                               **track_points(result, opts.depth_axis, opts.pressure_levels,
+                                              opts.rejected_lines))
         files += save_figure(fig, out_dir / f"{stem}_tracks.png",
                              (out_dir / f"{stem}_tracks.pdf") if opts.pdf else None)
         if mc is not None:
@@ -210,12 +218,17 @@ def open_project(path) -> Project:
 
 
 def project_inputs(project: Project, inputs: InputFiles | None = None) -> InputFiles:
-    """Every file a project reads (project file, tops, model files, LAS, surveys), checked
-    and checksummed into ``inputs`` (a new :class:`InputFiles` if None)."""
+    """Every file a project reads (project file, tops, core and pressure files, model files,
+    LAS, surveys), checked and checksummed into ``inputs`` (a new :class:`InputFiles` if None)."""
     inputs = inputs if inputs is not None else InputFiles()
     inputs.add(project.path, "project file")
     if project.tops_file is not None:
         inputs.add(project.tops_file, "tops file")
+    measured = project.measured
+    for path in () if measured is None else measured.core_files:
+        inputs.add(path, "core file")
+    if measured is not None and measured.pressure_file is not None:
+        inputs.add(measured.pressure_file, "pressure file")
     for zs in project.zones:
         if zs.function.file is not None:
             inputs.add(zs.function.file, f"model file of zone {zs.name!r}")

@@ -129,8 +129,9 @@ def _model_core_files(model_file: Path) -> list[dict]:
 def input_files(project: Project) -> list[dict]:
     """Every file a run of ``project`` reads, once each, with its SHA-256 checksum.
 
-    Kinds: project file, LAS, survey, tops, model file, and the core-data files a
-    model file was fitted to (their checksums as the model file recorded them).
+    Kinds: project file, LAS, survey, tops, core data and pressures (``[project]
+    core_files``, ``pressure_file``), model file, and the core-data files a model file
+    was fitted to (their checksums as the model file recorded them).
     """
     rows: list[dict] = []
     seen: set[tuple[str, str]] = set()
@@ -148,6 +149,12 @@ def input_files(project: Project) -> list[dict]:
             add("survey", spec.survey)
     if project.tops_file is not None:
         add("tops", project.tops_file)
+    measured = project.measured
+    for path in () if measured is None else measured.core_files:
+        add("core data", path)
+        seen.add(("core", str(Path(path).resolve())))     # listed once, with today's checksum
+    if measured is not None and measured.pressure_file is not None:
+        add("pressures", measured.pressure_file)
     models = []
     for z in project.zones:
         if z.function.file is not None and Path(z.function.file).resolve() not in models:

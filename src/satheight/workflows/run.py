@@ -35,7 +35,8 @@ from .figures import save_crossplots, save_figure
 from .console import SCHEMA_VERSION, Progress
 from .report import input_files, write_report
 from .handover import write_handover
-from .well import compute_well, require_fwls
+from .points import pressure_levels, unmatched_notes
+from .well import compute_well, require_fwls, well_labels
 
 
 @dataclass
@@ -141,13 +142,14 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
         work = session.work
         bar = Progress(len(project.wells), enabled=progress)  # progress on stderr
         try:
+            notes: list[str] = []
+            levels, rejected = pressure_levels(project, notes) if plot else ((), frozenset())
             opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval,
-                               existing=existing)
+                               existing=existing, pressure_levels=levels, rejected_lines=rejected)
             outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar,
                                              scheduler)
         finally:
             bar.close()
-        notes: list[str] = []
         files, summary, section_file = _run_files(project, outcomes, locations, work, inputs,
                                                   plot, notes)
         session.commit([f for o in outcomes for f in o.files] + files)
@@ -165,6 +167,9 @@ def _run_files(project: Project, outcomes: list[WellOutcome], locations: dict, w
     section file or None)``; what could not be drawn is a note in ``notes``."""
     section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
     cross_files = _crossplots(project, outcomes, work, notes) if plot else []
+    notes += unmatched_notes(project, well_labels([o.name for o in outcomes]
+                                                  + [s.name for s in project.wells]
+                                                  + [s.las.stem for s in project.wells]))
     unused = sorted(set(project.tops_pending) - {o.name for o in outcomes})
     if unused:
         notes.append(f"tops file {project.tops_file}: rows of well(s) "

@@ -289,6 +289,13 @@ def project_text(scan: FolderScan, target: Path) -> str:
              f'units = "{system}"   # {"most wells are logged in feet" if system == "field" else "most wells are logged in metres"}: bare numbers below are {unit}']
     if tops:
         lines.append(f"tops_file = {toml_string(_rel(tops[0], base))}   # found by its name")
+    core, press = scan.files.get("core", []), scan.files.get("pressures", [])
+    if core:    # plug tables carry well and depth: keep those to draw plugs on the track plots
+        lines.append("# core_files = [" + ", ".join(toml_string(_rel(p, base)) for p in core)
+                     + "]   # found by their names: keep the plug tables to draw their plugs")
+    if press:
+        lines.append(f"# pressure_file = {toml_string(_rel(press[0], base))}   # found by its "
+                     "name: uncomment to draw its points on the track plots")
     lines += ["", "[log_sw]", 'method = "auto"   # a well\'s Sw curve if it has one, else Archie '
               "from resistivity (needs rw)",
               '# rw = "0.05 ohm.m"   # formation-water resistivity at formation temperature', ""]

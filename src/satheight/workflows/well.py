@@ -20,11 +20,12 @@ from ..datum import AGREE_TOLERANCE as DATUM_AGREE_TOLERANCE, datum_from_header
 from ..engine import ZoneModel, compute_shm, zone_for_well
 from ..errors import DepthError, ProjectFileError, SatHeightError
 from ..io.dlis import read_log_file
+from ..io.pressures import resolve_tvdss
 from ..io.survey import read_survey, survey_trajectory
 from ..logsw import SHALY_SAND, archie_sw
 from ..project import check_fwl_near_wells
 from ..project.types import Project, WellSpec, ZoneSpec
-from ..results import FLAG_MEANINGS, WellResult
+from ..results import FLAG_MEANINGS, WellPlugs, WellResult
 from ..roles import ROLE_ALIASES, detect_roles, require_role, role_values
 from ..trajectory import vertical
 from ..well import Curve, HeaderItem, Well
@@ -191,6 +192,7 @@ def compute_well(project: Project, spec: WellSpec,
     results (see :func:`zones_for_well`).
     """
     well = read_log_file(spec.las)     # LAS, or DLIS by its ending
+    labels = well_labels((spec.name, spec.las.stem, well.name))   # for core and pressure rows
     if spec.name:
         well.name = spec.name
     else:
@@ -240,10 +242,15 @@ def compute_well(project: Project, spec: WellSpec,
     sw_raw = sw_log if source in COMPUTED_SW else None
     if sw_raw is not None:
         sw_log = np.clip(sw_raw, 0.0, 1.0)
+    if md_to_tvdss is None:         # a vertical well: TVD = MD
+        def md_to_tvdss(md):
+            return np.asarray(md, dtype=float) - elev
     result = WellResult(well=well, tvdss=tvdss, zones=zones, shm=shm, phi=phi, k=k, rt=rt,
                         sw_log=sw_log, sw_log_source=source, roles=roles, datum_elevation=elev,
                         datum_source=datum_source, tvd=tvd, north=north, east=east,
-                        survey=spec.survey, sw_log_unclipped=sw_raw, vsh=vsh)
+                        survey=spec.survey, sw_log_unclipped=sw_raw, vsh=vsh,
+                        plugs=place_plugs(project, labels, md_to_tvdss),
+                        pressures=place_pressures(project, labels, md_to_tvdss))
     msgs += value_warnings(result, project.unit_system)
     return result, msgs
 
@@ -315,6 +322,65 @@ def well_path(spec: WellSpec, well: Well, elev: float, system: str = "metric"):
             return traj.at(md)[0] - elev
 
     return tvd, north, east, md_to_tvdss, msgs
+
+
+def depth_maps(project: Project, wells: set, notes: list[str] | None = None) -> dict:
+    """Per well named in ``wells``: its datum elevation [m], or MD -> TVDSS [m] for a
+    surveyed well (for points a file gives only in MD).
+
+    The elevation is the run's (:func:`datum_elevation`); its notes go to ``notes``.
+    """
+    out = {}
+    for spec in project.wells:
+        if spec.name is not None and spec.name not in wells:
+            continue
+        well = read_log_file(spec.las)
+        name = spec.name or well.name
+        if name in wells:
+            elev, _, more = datum_elevation(well, spec, project.unit_system)
+            if notes is not None:
+                notes += more
+            md_to_tvdss = well_path(spec, well, elev, project.unit_system)[3]
+            out[name] = elev if md_to_tvdss is None else md_to_tvdss
+    return out
+
+
+def well_labels(names) -> frozenset:
+    """The names a core or pressure file row may give a well by (blanks dropped, outer
+    spaces stripped): its project name, LAS file name without ending, LAS WELL item."""
+    return frozenset(str(n).strip() for n in names if n is not None and str(n).strip())
+
+
+def place_plugs(project: Project, labels: frozenset, md_to_tvdss) -> WellPlugs | None:
+    """The project's plugs of the well called by ``labels``, with TVDSS from
+    ``md_to_tvdss`` (MD [m] -> TVDSS [m], the function the log samples went through);
+    None when the well has none."""
+    measured = project.measured
+    if measured is None:
+        return None
+    plugs = [p for p in measured.plugs.values() if str(p.well).strip() in labels]
+    if not plugs:
+        return None
+    md = np.array([p.depth for p in plugs], dtype=float)
+    return WellPlugs(plug=np.array([p.plug_id for p in plugs], dtype=object), md=md,
+                     tvdss=np.asarray(md_to_tvdss(md), dtype=float),
+                     sw=np.array([np.nan if p.sw is None else p.sw for p in plugs], dtype=float),
+                     porosity=np.array([p.porosity for p in plugs], dtype=float),
+                     permeability=np.array([p.permeability for p in plugs], dtype=float))
+
+
+def place_pressures(project: Project, labels: frozenset, md_to_tvdss):
+    """The project's pressure points of the well called by ``labels``, every TVDSS filled
+    (MD-only points through ``md_to_tvdss``); None when the well has none."""
+    measured = project.measured
+    if measured is None or measured.pressures is None:
+        return None
+    pts = measured.pressures
+    mine = np.isin(pts.well.astype(str), sorted(labels))
+    if not mine.any():
+        return None
+    sub = pts.subset(mine)
+    return resolve_tvdss(sub, {w: md_to_tvdss for w in set(sub.well)})
 
 
 # --------------------------------------------------------------------------------------
