@@ -189,7 +189,11 @@ def _functions(zs) -> dict:
 
 
 def _fit_record(spec, rock: str, files: dict) -> dict:
-    """Standard errors and covariance of a function from its model file (None if given)."""
+    """Standard errors and covariance of a function from its model file (None if given).
+
+    The covariance is the one the fit stored; a file written before it was stored gives
+    it back from the standard errors (two digits) and the correlation.
+    """
     if spec.file is None:
         return {"stderr": None, "covariance": None,
                 "note": "parameters given in the project file: no standard errors"}
@@ -204,7 +208,15 @@ def _fit_record(spec, rock: str, files: dict) -> dict:
            "source": f"{path.name}, rock type {spec.rock_type or rock!r}, {spec.family}"}
     corr = rec.get("correlation")
     s = [se.get(n) for n in names]
-    if corr is not None and None not in s and np.shape(corr) == (len(names), len(names)):
+    stored, fitted = rec.get("covariance"), list(rec.get("params") or [])
+    if stored is not None and sorted(fitted) == sorted(names) and \
+            np.shape(stored) == (len(names), len(names)):
+        # the fit's own covariance (six digits), rows put in this function's parameter order
+        at = [fitted.index(n) for n in names]
+        cov = np.where(np.equal(stored, None), np.nan, stored).astype(float)[np.ix_(at, at)]
+        out["covariance"] = [[None if not np.isfinite(x) else float(x) for x in row]
+                             for row in cov]
+    elif corr is not None and None not in s and np.shape(corr) == (len(names), len(names)):
         cov = covariance(s, np.where(np.equal(corr, None), np.nan, corr).astype(float))
         out["covariance"] = [[None if not np.isfinite(x) else float(x) for x in row]
                              for row in cov]
