@@ -376,3 +376,9 @@ def test_joint_draws_give_the_same_files_with_one_or_two_workers(tmp_path):
             assert a == b, name + suffix
     summary = json.loads((tmp_path / "one" / "VANTREL-1_summary.json").read_text())
     assert {"swirr", "a", "b"} <= {b["input"] for b in summary["uncertainty"]["tornado"]["bars"]}
+    # the summary says what was drawn together and from where (README: Uncertainty); the
+    # parameter names are the demo model file's own for its power-law fit
+    drawn = summary["uncertainty"]["inputs"]["Upper Sand"]
+    assert drawn["joint"]["parameters"] == ["swirr", "a", "b"]
+    assert "core_models.json" in drawn["joint"]["covariance_from"]
+    assert not set(drawn["inputs"]) & {"swirr", "a", "b"}

@@ -47,6 +47,7 @@ class WellUncertainty:
     result: MonteCarloResult
     base_hcpt: float | None = None
     bars: list[TornadoBar] = field(default_factory=list)
+    inputs: dict = field(default_factory=dict)      # zone name -> ZoneUncertainty drawn
 
 
 def well_uncertainty(project, result: WellResult) -> WellUncertainty | None:
@@ -73,7 +74,7 @@ def well_uncertainty(project, result: WellResult) -> WellUncertainty | None:
     cut = project.comparison
     mc = monte_carlo(result.tvdss, result.phi, result.k, result.zones, result.shm, unc,
                      spec.settings, cut.min_porosity, cut.min_permeability, well=result.well.name)
-    out = WellUncertainty(result=mc)
+    out = WellUncertainty(result=mc, inputs=unc)
     if spec.tornado:
         out.base_hcpt, out.bars = tornado(result.tvdss, result.phi, result.k, result.zones,
                                           result.shm, unc, cut.min_porosity, cut.min_permeability,
@@ -108,6 +109,7 @@ def uncertainty_section(wu: WellUncertainty, length_unit: str = "m") -> dict:
                               for z, b in dist["zones"].items()},
                     "phases": {p: scale(b) for p, b in dist["phases"].items()},
                     "well": scale(dist["well"]) if "well" in dist else None}}
+    out["inputs"] = {zone: _drawn(z) for zone, z in wu.inputs.items()}
     if wu.bars:
         out["tornado"] = {
             "hcpt_all_medians": wu.base_hcpt / f,
@@ -117,6 +119,19 @@ def uncertainty_section(wu: WellUncertainty, length_unit: str = "m") -> dict:
                      for b in wu.bars],
             "note": "input values in SI (m, kg/m3, N/m; log errors: porosity fraction, "
                     "permeability decades)"}
+    return out
+
+
+def _drawn(z) -> dict:
+    """What a zone's Monte Carlo draws: each input's distribution, the log errors, and the
+    J-Sw parameters drawn together with where their covariance came from."""
+    out = {"inputs": {name: d.kind for name, d in sorted(z.inputs.items())},
+           "porosity_error": None if z.porosity_error is None else z.porosity_error.distribution.kind,
+           "permeability_error": (None if z.permeability_error is None
+                                  else z.permeability_error.distribution.kind),
+           "joint": None}
+    if z.joint is not None:
+        out["joint"] = {"parameters": list(z.joint.names), "covariance_from": z.joint.source}
     return out
 
 
