@@ -198,6 +198,10 @@ def _draw_models(ax_h, ax_j, zone, wells, masks, scale: float, h_top: float, roo
     return handles
 
 
+#: gid of the minor ticks drawn as one line collection.
+MINOR_TICKS_GID = "minor ticks"
+
+
 def _minor_ticks_as_lines(ax) -> None:
     """The y scale's minor ticks as one line collection instead of one tick object each.
 
@@ -226,7 +230,7 @@ def _minor_ticks_as_lines(ax) -> None:
     segs = np.stack([np.column_stack([np.full_like(ys, -length), ys]),
                      np.column_stack([np.zeros_like(ys), ys])], axis=1)
     ax.add_collection(LineCollection(segs, colors=rcParams["ytick.color"], clip_on=False,
-                                     linewidths=rcParams["ytick.minor.width"],
+                                     linewidths=rcParams["ytick.minor.width"], gid=MINOR_TICKS_GID,
                                      transform=ax.get_yaxis_transform()), autolim=False)
 
 
