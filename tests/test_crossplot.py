@@ -15,8 +15,8 @@ from matplotlib.figure import Figure
 
 from satheight.engine import ZoneModel
 from satheight.models.power_law import PowerLaw
-from satheight.plots.crossplot import (CLASS_PERCENTILES, CrossplotWell, class_roots,
-                                       crossplot_data, model_curves, zone_crossplot)
+from satheight.plots.crossplot import (CLASS_PERCENTILES, MINOR_TICKS_GID, CrossplotWell,
+                                       class_roots, crossplot_data, model_curves, zone_crossplot)
 from satheight.workflows.figures import save_figure
 
 # standard gravity [m/s^2]: CGPM 1901 (3rd CGPM), exact.
@@ -96,7 +96,9 @@ def test_crossplot_draws_every_well_and_the_model_classes():
     assert isinstance(fig, Figure)
     ax_h, ax_j = fig.axes[:2]
     # one scatter per well in each panel, with the well's samples
-    assert len(ax_h.collections) == 3 and len(ax_j.collections) == 3
+    def scatters(ax):
+        return [c for c in ax.collections if c.get_gid() != MINOR_TICKS_GID]
+    assert len(scatters(ax_h)) == 3 and len(scatters(ax_j)) == 3
     offs = ax_h.collections[0].get_offsets()
     np.testing.assert_allclose(offs[:, 0], wells[0].sw_log)
     np.testing.assert_allclose(offs[:, 1], wells[0].hafwl)
@@ -167,3 +169,26 @@ def test_run_writes_one_png_per_zone_with_safe_distinct_names(tmp_path):
     for p in files:
         assert p.read_bytes()[:8] == PNG_SIGNATURE
     assert sorted(x.name for x in tmp_path.iterdir()) == [p.name for p in files]
+
+
+def test_minor_ticks_of_the_j_scale_where_matplotlib_puts_them():
+    """The J scale's minor ticks, drawn as one line collection, sit where matplotlib's own
+    log-scale minor ticks of the same limits are (library: matplotlib, a fresh axes)."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure as Fig
+
+    zone = power_zone()
+    fig = zone_crossplot(zone, [crossplot_data(make_well("A", np.sqrt(1e-13 / 0.25)))])
+    ax_j = fig.axes[1]
+    (coll,) = [c for c in ax_j.collections if c.get_gid() == MINOR_TICKS_GID]
+    got = np.sort([seg[0, 1] for seg in coll.get_segments()])
+    ref_fig = Fig()
+    FigureCanvasAgg(ref_fig)
+    ref = ref_fig.add_axes(ax_j.get_position().bounds)
+    ref.set_yscale("log")
+    ref.set_ylim(ax_j.get_ylim())
+    lo, hi = sorted(ax_j.get_ylim())
+    want = np.asarray(ref.yaxis.get_minorticklocs())
+    want = np.sort(want[(want >= lo) & (want <= hi)])
+    assert got.size > 10
+    np.testing.assert_allclose(got, want, rtol=1e-12)

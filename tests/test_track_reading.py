@@ -101,7 +101,8 @@ def test_log_sw_is_drawn_over_the_thicker_shm_sw_and_the_gap_is_shaded():
     labels = legend_labels(fig)
     assert "Log Sw above SHM Sw" in labels and "Log Sw below SHM Sw" in labels
     sw_ax = shm.axes
-    fills = [c for c in sw_ax.collections if c.get_alpha() is not None and c.get_alpha() >= 0.6]
+    fills = [c for c in [*sw_ax.collections, *sw_ax.patches]
+             if c.get_alpha() is not None and c.get_alpha() >= 0.6]
     assert len(fills) >= 2              # both gap fills, clearly opaque
 
 

@@ -304,18 +304,19 @@ def _zone_segment(zn: Zone, z, phi, k, h, pc, j, sw, flag) -> None:
         usable = ok_phi & ok_k
         below = h <= 0
         leverett_j(pc, k, phi, zn.sigma_cos_theta, out=j)
-    j[~usable] = np.nan
-    j[below] = 0.0
+    unusable = np.logical_not(usable, out=usable)     # the same buffer, inverted
+    np.copyto(j, np.nan, where=unusable)
+    np.copyto(j, 0.0, where=below)
     fn = zn.function
     if type(fn).predict is JSwFunction.predict and fn.params_ is not None:
         # JSwFunction.predict written out on this slice, without its copies: the
         # equation where J > 0, Sw = 1 where J <= 0 (at and below the FWL), clipped
         # to [0, 1], NaN where J is NaN (porosity or permeability unusable)
         with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            sw[...] = fn.equation(j, **fn.params_)
-        np.clip(sw, 0.0, 1.0, out=sw)
-        sw[j <= 0] = 1.0
-        sw[np.isnan(j)] = np.nan
+            np.clip(fn.equation(j, **fn.params_), 0.0, 1.0, out=sw)
+        with np.errstate(invalid="ignore"):
+            np.copyto(sw, 1.0, where=j <= 0)
+        np.copyto(sw, np.nan, where=np.isnan(j))
     else:
         sw[...] = fn.predict(j)       # elementwise: J = 0 gives Sw = 1, NaN gives NaN
     # flag bits in one byte per sample, widened once at the end
@@ -323,10 +324,18 @@ def _zone_segment(zn: Zone, z, phi, k, h, pc, j, sw, flag) -> None:
     bits |= np.where(ok_k, np.uint8(0), np.uint8(FLAG_BAD_PERMEABILITY))
     rng = zn.function.j_range_
     if rng is not None:
-        above_fwl = usable & ~below
+        # J is NaN where porosity or permeability is unusable (every comparison false)
+        # and 0 at and below the FWL: there "above the range" cannot hold (j_max > 0),
+        # "below the range" is masked out
         with np.errstate(invalid="ignore"):
-            bits |= (above_fwl & (j < rng[0])).view(np.uint8) * np.uint8(FLAG_J_BELOW_RANGE)
-            bits |= (above_fwl & (j > rng[1])).view(np.uint8) * np.uint8(FLAG_J_ABOVE_RANGE)
+            low = j < rng[0]
+            low &= ~below
+            bits |= low.view(np.uint8) * np.uint8(FLAG_J_BELOW_RANGE)
+            if rng[1] >= 0:
+                high = np.greater(j, rng[1], out=low)
+            else:
+                high = (j > rng[1]) & ~below & ~unusable
+            bits |= high.view(np.uint8) * np.uint8(FLAG_J_ABOVE_RANGE)
     flag[...] = bits
 
 

@@ -198,6 +198,42 @@ def _draw_models(ax_h, ax_j, zone, wells, masks, scale: float, h_top: float, roo
     return handles
 
 
+#: gid of the minor ticks drawn as one line collection.
+MINOR_TICKS_GID = "minor ticks"
+
+
+def _minor_ticks_as_lines(ax) -> None:
+    """The y scale's minor ticks as one line collection instead of one tick object each.
+
+    The same marks (the minor locator's values in view, less those on a major tick;
+    rcParams length, width and colour, outside the left edge), drawn in one call: on
+    the log J scale the tick objects were a large part of the figure's drawing time.
+    Call it once the y limits are final.
+    """
+    from matplotlib import rcParams
+    from matplotlib.collections import LineCollection
+    from matplotlib.ticker import NullLocator
+
+    axis = ax.yaxis
+    lo, hi = sorted(ax.get_ylim())
+    minor = np.asarray(axis.get_minor_locator()(), dtype=float)
+    major = np.asarray(axis.get_major_locator()(), dtype=float)
+    tr = axis.get_transform()
+    t_lo, t_hi = sorted(tr.transform(np.array([lo, hi])))
+    t_min, t_maj = tr.transform(minor), tr.transform(major)
+    on_major = np.isclose(t_min[:, None], t_maj[None, :], atol=(t_hi - t_lo) * 1e-5,
+                          rtol=0).any(axis=1) if major.size else np.zeros(minor.size, bool)
+    ys = minor[~on_major & (minor >= lo) & (minor <= hi)]
+    axis.set_minor_locator(NullLocator())
+    width_in = ax.get_position().width * ax.figure.get_size_inches()[0]
+    length = rcParams["ytick.minor.size"] / 72.0 / width_in          # [axes fraction]
+    segs = np.stack([np.column_stack([np.full_like(ys, -length), ys]),
+                     np.column_stack([np.zeros_like(ys), ys])], axis=1)
+    ax.add_collection(LineCollection(segs, colors=rcParams["ytick.color"], clip_on=False,
+                                     linewidths=rcParams["ytick.minor.width"], gid=MINOR_TICKS_GID,
+                                     transform=ax.get_yaxis_transform()), autolim=False)
+
+
 def zone_crossplot(zone, wells, units: str = "metric", roots=None, page: str = "screen",
                    title: str | None = None) -> Figure:
     """Log Sw against height above the FWL and against J for one zone, every well.
@@ -253,13 +289,16 @@ def zone_crossplot(zone, wells, units: str = "metric", roots=None, page: str = "
     ax_h.axhline(0.0, color=GREY, lw=0.8)
     ax_h.set_ylabel(f"Height above FWL [{unit}]", fontsize=9)
     ax_j.set_ylabel("Leverett J [-]", fontsize=9)
-    ax_h.set_title("Log Sw against height above the FWL", fontsize=10)
-    ax_j.set_title("Log Sw against J", fontsize=10)
+    # y given: no tick labels at the top, so the title sits on the top edge; matplotlib
+    # would otherwise measure every tick label at each draw to find that out
+    ax_h.set_title("Log Sw against height above the FWL", fontsize=10, y=1.0)
+    ax_j.set_title("Log Sw against J", fontsize=10, y=1.0)
     name = safe_text(zone.name)
     fig.suptitle(safe_text(title, 100) if title is not None else
                  f"{name}: log Sw against height above the FWL and J", fontsize=12)
     fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.01), ncol=4,
                fontsize=7, frameon=False)
+    _minor_ticks_as_lines(ax_j)
     return fig
 
 

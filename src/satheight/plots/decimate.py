@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["envelope_indices", "BINS_PER_INCH"]
+__all__ = ["envelope_indices", "depth_bins", "BINS_PER_INCH"]
 
 #: Depth bins per inch of track: two per pixel row at 110 dots per inch (each bin keeps
 #: up to four samples per curve: first, last, smallest, largest). One bin per row
@@ -21,14 +21,26 @@ __all__ = ["envelope_indices", "BINS_PER_INCH"]
 BINS_PER_INCH = 220
 
 
-def _extreme_index(values, starts, run_of, idx, n, pick) -> np.ndarray:
-    """Index of the first sample holding the run's extreme (``pick``: min or max ufunc)."""
-    ext = pick.reduceat(values, starts)
-    hit = values == ext[run_of]
-    return np.minimum.reduceat(np.where(hit, idx, n), starts)
+def depth_bins(y, lo: float, hi: float, bins: int) -> np.ndarray:
+    """Depth bin of each sample over ``[lo, hi]``: 0 .. bins - 1 inside, -1 above, ``bins``
+    below, -2 where ``y`` is not finite (int64). Compute it once for curves drawn
+    against the same depths and give it to :func:`envelope_indices` as ``ybins``."""
+    y = np.asarray(y, dtype=float)
+    with np.errstate(invalid="ignore"):
+        b = np.floor((y - lo) / (hi - lo) * bins)
+    np.clip(b, -1, bins, out=b)
+    b[~np.isfinite(y)] = -2
+    return b.astype(np.int64)
 
 
-def envelope_indices(y, curves, lo: float, hi: float, bins: int, categories=None) -> np.ndarray:
+def _first_extremes(v, starts, lens, pick) -> np.ndarray:
+    """Index of the first sample holding each run's extreme (``pick``: min or max ufunc)."""
+    hits = np.flatnonzero(v == np.repeat(pick.reduceat(v, starts), lens))
+    return hits[np.searchsorted(hits, starts)]   # every run holds its own extreme
+
+
+def envelope_indices(y, curves, lo: float, hi: float, bins: int, categories=None,
+                     ybins=None) -> np.ndarray:
     """Sorted sample indices that draw the same picture as all samples at ``bins`` rows.
 
     Parameters
@@ -43,6 +55,8 @@ def envelope_indices(y, curves, lo: float, hi: float, bins: int, categories=None
         Number of depth bins over ``[lo, hi]`` (e.g. two per pixel row).
     categories : array_like of int or bool, optional
         A per-sample category (e.g. a fill mask): a change of category ends a run.
+    ybins : numpy.ndarray, optional
+        ``depth_bins(y, lo, hi, bins)``, when already computed.
 
     Returns
     -------
@@ -54,25 +68,26 @@ def envelope_indices(y, curves, lo: float, hi: float, bins: int, categories=None
     vals = [np.asarray(c, dtype=float) for c in curves]
     if n == 0 or bins < 1 or not (np.isfinite(lo) and np.isfinite(hi)) or hi <= lo:
         return np.arange(n)
-    finite = np.isfinite(y)
+    key = depth_bins(y, lo, hi, bins) if ybins is None else ybins
+    finite = key != -2
     for v in vals:
         finite &= np.isfinite(v)
-    with np.errstate(invalid="ignore"):
-        b = np.floor((y - lo) / (hi - lo) * bins)
-    key = np.where(finite, np.clip(np.nan_to_num(b, nan=-1.0), -1, bins), -2).astype(np.int64)
+    every = bool(finite.all())
+    if not every:
+        key = np.where(finite, key, -2)
     if categories is not None:
-        key = key * 4 + np.asarray(categories).astype(np.int64) % 4
-    starts = np.flatnonzero(np.concatenate(([True], key[1:] != key[:-1])))
+        cat = np.asarray(categories)
+        key = key * 4 + (cat.view(np.int8) if cat.dtype == bool else cat.astype(np.int64) % 4)
+    starts = np.flatnonzero(key[1:] != key[:-1]) + 1
+    starts = np.concatenate(([0], starts))
     if 4 * (1 + len(vals)) * starts.size >= n:
         return np.arange(n)
-    idx = np.arange(n)
-    run_of = np.repeat(np.arange(starts.size), np.diff(np.append(starts, n)))
-    keep = [starts, np.append(starts[1:], n) - 1]
-    for v in vals:
-        v0 = np.where(finite, v, 0.0)  # non-finite runs: their first sample stands for them
-        keep.append(_extreme_index(v0, starts, run_of, idx, n, np.minimum))
-        keep.append(_extreme_index(v0, starts, run_of, idx, n, np.maximum))
+    lens = np.diff(np.append(starts, n))
     chosen = np.zeros(n, dtype=bool)
-    for k in keep:
-        chosen[k] = True
+    chosen[starts] = True
+    chosen[starts + lens - 1] = True
+    for v in vals:
+        v0 = v if every else np.where(finite, v, 0.0)  # a non-finite run: its first sample
+        chosen[_first_extremes(v0, starts, lens, np.minimum)] = True
+        chosen[_first_extremes(v0, starts, lens, np.maximum)] = True
     return np.flatnonzero(chosen)

@@ -219,5 +219,6 @@ def section_plot(results, units: str = "metric", locations=None,
     ax.grid(True, color=GRID, lw=0.5)
     fig.colorbar(ScalarMappable(norm=norm, cmap=cmap), cax=cax).set_label(
         "Sw from the saturation-height model [fraction]", fontsize=8)
-    ax.set_title(safe_text(title if title is not None else "Field section, TVDSS", 80), fontsize=12)
+    ax.set_title(safe_text(title if title is not None else "Field section, TVDSS", 80), fontsize=12,
+                 y=1.0)                         # on the top edge: no tick labels there
     return fig

@@ -64,6 +64,6 @@ def tornado_figure(base: float, bars: Sequence[TornadoBar], title: str = "",
     else:
         ax.text(0.5, 0.5, "no uncertain input", transform=ax.transAxes, ha="center")
     ax.set_title(safe_text(title or "Tornado: one input at a time, others at their medians"),
-                 fontsize="medium")
+                 fontsize="medium", y=1.0)     # on the top edge: no tick labels there
     fig.tight_layout()
     return fig

@@ -128,7 +128,7 @@ def _checked_depths(result: WellResult, depth_axis: str, units: str, interval: s
     if n == 0 or not np.isfinite(md).any():
         raise DepthError("the well has no depth samples to plot", where=where,
                          hint="check the depth index of the LAS file")
-    if depth_axis == "tvdss" and monotone_pairs(md, tvdss)[0].size == 0:
+    if depth_axis == "tvdss" and not _any_pair(md, tvdss):
         raise DepthError("TVDSS is missing at every sample, cannot plot against TVDSS",
                          where=where, hint="give a deviation survey or plot with depth_axis='md'")
     return md, tvdss
@@ -147,6 +147,11 @@ def _checked_band(sw_band, result: WellResult) -> dict | None:
                                  hint="pass the Monte Carlo's sw_percentiles")
         out[name] = np.asarray(sw_band[name], dtype=float)
     return out
+
+
+def _any_pair(md, tvdss) -> bool:
+    """True when some sample has both MD and TVDSS (``monotone_pairs`` then keeps one)."""
+    return bool(np.any(np.isfinite(md) & np.isfinite(tvdss)))
 
 
 def _gr_curve(result: WellResult):
@@ -255,8 +260,7 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
     length_unit = UNIT_SYSTEMS[units]["length"]
     scale = factor(length_unit, "length")  # display unit -> m
     y_si = md if depth_axis == "md" else tvdss
-    md_fin, _ = monotone_pairs(md, tvdss)
-    have_tvdss = md_fin.size >= 1
+    have_tvdss = _any_pair(md, tvdss)
     top, base = _window(y_si, md, tvdss, have_tvdss, list(result.zones or []), depth_axis,
                         interval, MARGIN_M)
     y_top, y_base = top / scale, base / scale

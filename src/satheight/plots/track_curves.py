@@ -85,7 +85,7 @@ def draw_rt(f: Frame, rt, name: str) -> None:
 
 def hydrocarbon_kind(zones, zone) -> np.ndarray:
     """Hydrocarbon name of each sample's zone (``""`` outside zones)."""
-    kinds = np.array([str(z.hydrocarbon).lower() for z in zones] + [""], dtype=object)
+    kinds = np.array([str(z.hydrocarbon).lower() for z in zones] + [""], dtype=str)
     zone_idx = int_array(zone, -1)
     valid = (zone_idx >= 0) & (zone_idx < len(zones))
     return kinds[np.where(valid, zone_idx, len(zones))]

@@ -3,12 +3,14 @@
 :class:`Frame` holds the figure, one axes per track and the samples inside the
 plotted depth window; its :meth:`Frame.line` and :meth:`Frame.fill` draw a curve
 or a filled area thinned to the figure's resolution with a min/max envelope
-(:func:`satheight.plots.decimate.envelope_indices`).
+(:func:`satheight.plots.decimate.envelope_indices`); filled areas are drawn as one
+compound path each (:func:`satheight.plots.fills.fill_depth`).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -16,8 +18,9 @@ import numpy as np
 if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at start)
     from matplotlib.figure import Figure
 
-from .decimate import BINS_PER_INCH, envelope_indices
+from .decimate import BINS_PER_INCH, depth_bins, envelope_indices
 from .depths import level_crossings
+from .fills import fill_depth
 from .style import BLUE, GRID, LIGHT_GREY, SKY
 
 #: Colour of each curve or mark of the track plot (our own choice within the palette).
@@ -61,18 +64,29 @@ class Frame:
     def _bins(self) -> int:
         return max(1, int(self.plot_height * BINS_PER_INCH))
 
+    @cached_property
+    def ybins(self) -> np.ndarray:
+        """Depth bin of every drawn sample (computed once for all curves)."""
+        return depth_bins(self.y, self.y_top, self.y_base, self._bins())
+
+    def _thin(self, curves, categories=None) -> np.ndarray:
+        return envelope_indices(self.y, curves, self.y_top, self.y_base, self._bins(),
+                                categories=categories, ybins=self.ybins)
+
     def line(self, ax, x, **kw) -> None:
         """Draw curve ``x`` (drawn samples) against depth, thinned to the resolution."""
-        i = envelope_indices(self.y, [x], self.y_top, self.y_base, self._bins())
+        i = self._thin([x])
         ax.plot(np.asarray(x)[i], self.y[i], **kw)
 
     def fill(self, ax, x1, x2, where, **kw) -> None:
-        """Fill between ``x1`` and ``x2`` where ``where`` holds, thinned to the resolution."""
-        x1 = np.broadcast_to(np.asarray(x1, dtype=float), self.y.shape)
-        x2 = np.broadcast_to(np.asarray(x2, dtype=float), self.y.shape)
-        i = envelope_indices(self.y, [x1, x2], self.y_top, self.y_base, self._bins(),
-                             categories=where)
-        ax.fill_betweenx(self.y[i], x1[i], x2[i], where=np.asarray(where)[i], **kw)
+        """Fill between ``x1`` and ``x2`` where ``where`` holds, thinned to the resolution.
+
+        ``x1`` and ``x2`` are drawn samples or single numbers (a constant edge).
+        """
+        x1, x2 = np.asarray(x1, dtype=float), np.asarray(x2, dtype=float)
+        i = self._thin([x for x in (x1, x2) if x.ndim], categories=where)
+        x1, x2 = (x[i] if x.ndim else x for x in (x1, x2))
+        fill_depth(ax, self.y[i], x1, x2, where=np.asarray(where)[i], **kw)
 
     def level_depths(self, level: float) -> np.ndarray:
         """Plot depths [display unit] where the well passes TVDSS ``level`` [m], in view."""

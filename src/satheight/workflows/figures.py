@@ -12,6 +12,9 @@ from ..plots.crossplot import zone_crossplots
 
 __all__ = ["save_figure", "save_crossplots", "file_stem"]
 
+#: zlib compression level of the PNG files (0-9).
+PNG_COMPRESS_LEVEL = 3
+
 
 def save_figure(fig, png_path, pdf_path=None) -> list[Path]:
     """Write ``fig`` as PNG (and PDF if asked) atomically; return the files written.
@@ -33,7 +36,10 @@ def save_figure(fig, png_path, pdf_path=None) -> list[Path]:
             raise InputFileError(f"folder {str(path.parent)!r} for the {fmt.upper()} plot does "
                                  "not exist", where=str(path),
                                  hint="create the folder or choose another output path")
-    return atomic_save_figure(fig, targets, dpi=DPI)
+    # zlib level 3 instead of the default 6: the same pixels, about 10 % larger files,
+    # about a quarter less time spent compressing; print_pdf takes no pil_kwargs
+    png = {"pil_kwargs": {"compress_level": PNG_COMPRESS_LEVEL}} if pdf_path is None else {}
+    return atomic_save_figure(fig, targets, dpi=DPI, **png)
 
 
 def file_stem(name: str) -> str:
