@@ -43,56 +43,26 @@ give that percentile of the volume, which comes from the realisations' own sums.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
 
 from .compare import net_mask, sample_thickness
 from .constants import STANDARD_GRAVITY
-from .distributions import Distribution, JointNormal
 from .engine import ZoneModel
 from .errors import SatHeightError
-from .units import from_si
 from .random_fields import BLOCK, FieldStream, ar1_coefficients, generator, open_uniforms, text_key
 from .results import ShmResult
+from .uncertainty_inputs import (LOG_ERRORS, ZONE_INPUTS, LogError, ZoneUncertainty,
+                                 check_zone_uncertainty, deterministic_value)
 
-#: The scalar inputs of a zone that may carry a distribution (plus the J-Sw parameters).
-ZONE_INPUTS = ("fwl", "water_density", "hydrocarbon_density", "sigma_cos_theta")
-#: The two log errors.
-LOG_ERRORS = ("porosity_error", "permeability_error")
+__all__ = ["ZONE_INPUTS", "LOG_ERRORS", "LogError", "ZoneUncertainty", "check_zone_uncertainty",
+           "MonteCarloSettings", "MonteCarloResult", "monte_carlo", "TornadoBar", "tornado"]
+
 #: Arrays of realisations x chunk samples alive at once in the Monte Carlo (memory sizing).
 _ARRAYS_PER_CHUNK = 18
 _STREAM_SCALARS, _STREAM_POROSITY, _STREAM_PERMEABILITY = 0, 1, 2
-
-
-@dataclass(frozen=True)
-class LogError:
-    """A log error along depth: its marginal distribution and correlation length.
-
-    ``distribution`` is of the error itself: additive porosity error [fraction], or
-    permeability error in decades (``k * 10**e``); a missing mean / mode means 0.
-    ``correlation_length`` [m] along TVDSS, 0 for errors independent between samples.
-    """
-
-    distribution: Distribution
-    correlation_length: float = 0.0
-
-
-@dataclass(frozen=True)
-class ZoneUncertainty:
-    """The uncertain inputs of one zone.
-
-    ``inputs`` maps a name of :data:`ZONE_INPUTS` or a J-Sw parameter name to its
-    :class:`Distribution` (SI); ``joint`` draws the J-Sw parameters it names together
-    (none of them may also be in ``inputs``); inputs not named keep their deterministic
-    value.
-    """
-
-    inputs: dict = field(default_factory=dict)
-    porosity_error: LogError | None = None
-    permeability_error: LogError | None = None
-    joint: JointNormal | None = None
 
 
 @dataclass(frozen=True)
@@ -155,109 +125,6 @@ class MonteCarloResult:
 
 
 # --------------------------------------------------------------------------------------
-# checks
-
-#: Unit kind of each zone input, for messages in the user's units.
-_INPUT_KIND = {"fwl": "length", "water_density": "density", "hydrocarbon_density": "density",
-               "sigma_cos_theta": "tension"}
-
-
-def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = "",
-                           units: dict | None = None) -> None:
-    """Refuse what the Monte Carlo cannot do with this zone, naming ``where`` and the input.
-
-    The zone must be two-phase with one J-Sw function (no gas cap, no per-depth rock
-    types); every named input must exist; each distribution's support must stay where
-    the input is physical: densities > 0 with water denser than the hydrocarbon,
-    sigma*cos(theta) > 0, J-Sw parameters inside the family's bounds. ``units`` (unit
-    kind -> unit, e.g. :data:`satheight.units.UNIT_SYSTEMS` ``["field"]``) are the units
-    the messages show values in (default SI).
-    """
-    si = {"length": "m", "density": "kg/m3", "tension": "N/m"}
-
-    def shown(v, name):
-        kind = _INPUT_KIND.get(name)
-        if kind is None:
-            return f"{v:.6g}"
-        unit = (units or si)[kind]
-        return f"{float(from_si(v, unit, kind)):.6g} {unit}"
-
-    where = where or f"zone {zone.name!r}"
-    if zone.three_phase or zone.rock_functions:
-        raise SatHeightError("Monte Carlo handles two-phase zones with one J-Sw function; this "
-                             "zone has a gas cap or per-depth rock types", where=where,
-                             hint="remove this zone's uncertainty table")
-    fn = zone.function
-    for name, dist in spec.inputs.items():
-        if name not in ZONE_INPUTS and name not in fn.param_names:
-            raise SatHeightError(f"unknown uncertain input {name!r}", where=where,
-                                 hint="use " + ", ".join(ZONE_INPUTS + tuple(fn.param_names)))
-        d = dist.centred(_deterministic(zone, name))
-        d.check(f"{where}.{name}")
-        lo, hi = d.support()
-        if name in fn.param_names:
-            _check_bounds(fn, name, lo, hi, f"{where}.{name}")
-        elif name != "fwl" and lo <= 0:
-            raise SatHeightError(f"draws of {name} may reach {shown(lo, name)}, not > 0",
-                                 where=f"{where}.{name}", hint="narrow the distribution")
-    if spec.joint is not None:
-        _check_joint(zone, spec, f"{where}.function")
-    w = _support(zone, spec, "water_density")
-    h = _support(zone, spec, "hydrocarbon_density")
-    if not w[0] > h[1]:
-        raise SatHeightError(f"water density draws (down to {shown(w[0], 'water_density')}) may "
-                             "fall to the hydrocarbon density draws (up to "
-                             f"{shown(h[1], 'hydrocarbon_density')})", where=where,
-                             hint="narrow the density distributions")
-    for name in LOG_ERRORS:
-        err = getattr(spec, name)
-        if err is not None:
-            err.distribution.centred(0.0).check(f"{where}.{name}")
-            if not (np.isfinite(err.correlation_length) and err.correlation_length >= 0):
-                raise SatHeightError(f"correlation_length must be >= 0 m, got "
-                                     f"{err.correlation_length!r}", where=f"{where}.{name}")
-
-
-def _check_bounds(fn, name: str, lo: float, hi: float, where: str) -> None:
-    blo, bhi = fn.bounds[name]
-    if lo < blo or hi > bhi:
-        raise SatHeightError(f"draws of {name} may reach [{lo:.6g}, {hi:.6g}], outside the "
-                             f"{fn.name} bounds [{blo}, {bhi}]", where=where,
-                             hint="use a truncated_normal, triangular or uniform "
-                                  "distribution inside the bounds")
-
-
-def _check_joint(zone: ZoneModel, spec: ZoneUncertainty, where: str) -> None:
-    """The jointly drawn parameters: the function's, not drawn twice, a usable covariance,
-    and each one's normal (mean +- NORMAL_SUPPORT_SD sd) inside the family's bounds."""
-    fn = zone.function
-    joint = spec.joint
-    for name in joint.names:
-        if name not in fn.param_names:
-            raise SatHeightError(f"{fn.name} has no parameter {name!r} to draw", where=where,
-                                 hint="use " + ", ".join(fn.param_names))
-        if name in spec.inputs:
-            raise SatHeightError(f"{name} has its own distribution and is also drawn with the "
-                                 "others", where=where, hint="give it one way only")
-    joint.check(where)
-    for i, name in enumerate(joint.names):
-        lo, hi = joint.marginal(i, _deterministic(zone, name)).support()
-        _check_bounds(fn, name, lo, hi, f"{where}.{name}")
-
-
-def _deterministic(zone: ZoneModel, name: str) -> float:
-    if name in ZONE_INPUTS:
-        return float(getattr(zone, name))
-    return float(zone.function.params_[name])
-
-
-def _support(zone: ZoneModel, spec: ZoneUncertainty, name: str) -> tuple[float, float]:
-    if name in spec.inputs:
-        return spec.inputs[name].centred(_deterministic(zone, name)).support()
-    v = _deterministic(zone, name)
-    return (v, v)
-
-
 # --------------------------------------------------------------------------------------
 # the well, prepared once in TVDSS order
 
@@ -313,13 +180,13 @@ def _joint_names(spec: ZoneUncertainty) -> list[str]:
 
 
 def _joint_means(zone: ZoneModel, spec: ZoneUncertainty) -> np.ndarray:
-    return np.array([_deterministic(zone, n) for n in spec.joint.names])
+    return np.array([deterministic_value(zone, n) for n in spec.joint.names])
 
 
 def _all_values(zone: ZoneModel, given: dict, n: int) -> dict:
     """Every scalar input of a zone as an ``(n,)`` array: the given ones, else deterministic."""
     names = ZONE_INPUTS + tuple(zone.function.param_names)
-    return {nm: given[nm] if nm in given else np.full(n, _deterministic(zone, nm)) for nm in names}
+    return {nm: given[nm] if nm in given else np.full(n, deterministic_value(zone, nm)) for nm in names}
 
 
 def _draw_values(well: _Well, settings: MonteCarloSettings) -> list[dict]:
@@ -339,7 +206,7 @@ def _draw_values(well: _Well, settings: MonteCarloSettings) -> list[dict]:
             u = np.stack([open_uniforms(generator(settings.seed, r, _STREAM_SCALARS, key), n)
                           for r in range(R)])        # one small draw per realisation, not per sample
             for col, nm in enumerate(names):
-                given[nm] = spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(u[:, col])
+                given[nm] = spec.inputs[nm].centred(deterministic_value(zn, nm)).ppf(u[:, col])
             if joint:
                 x = spec.joint.draw(_joint_means(zn, spec), u[:, len(names):])
                 given.update({nm: x[:, col] for col, nm in enumerate(joint)})
@@ -550,9 +417,9 @@ def _tornado_medians(well: _Well, R: int) -> tuple[list[dict], dict]:
     """Every input of every Monte Carlo zone at its median, ``R`` copies (the tornado's cases)."""
     values, shifts = [], {}
     for _, zn, spec in well.zones:
-        given = {nm: np.full(R, float(spec.inputs[nm].centred(_deterministic(zn, nm)).ppf(0.5)))
+        given = {nm: np.full(R, float(spec.inputs[nm].centred(deterministic_value(zn, nm)).ppf(0.5)))
                  for nm in _input_names(zn, spec)}
-        given.update({nm: np.full(R, _deterministic(zn, nm)) for nm in _joint_names(spec)})
+        given.update({nm: np.full(R, deterministic_value(zn, nm)) for nm in _joint_names(spec)})
         values.append(_all_values(zn, given, R))
         for kind in LOG_ERRORS:
             if getattr(spec, kind) is not None:
@@ -598,7 +465,7 @@ def tornado(tvdss, phi, k, zones: Sequence[ZoneModel], shm: ShmResult, uncertain
             lows_highs.append((lo, hi))
             continue
         d = (getattr(spec, nm).distribution.centred(0.0) if nm in LOG_ERRORS
-             else spec.inputs[nm].centred(_deterministic(zn, nm)))
+             else spec.inputs[nm].centred(deterministic_value(zn, nm)))
         lo, hi = (float(v) for v in d.ppf(np.array([0.1, 0.9])))
         target = shifts[(zn.name, nm)] if nm in LOG_ERRORS else values[pos][nm]
         target[rows[0]], target[rows[1]] = lo, hi

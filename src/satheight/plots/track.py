@@ -456,8 +456,8 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
         10 to 30 inch); ``"a4"``: an A4 portrait page (210 x 297 mm).
     j_range : (float, float): limits of the J scale [-].
     core_sw, pressures, core_porosity, core_permeability : DepthPoints, optional
-        Plug Sw, porosity [fraction], permeability [m^2] (the plugs outside the plot
-        are counted on the first given), pressures [Pa] (colour by ``kind``, hollow if ``unused``).
+        Plug Sw, porosity [fraction], permeability [m^2]; pressures [Pa] (colour by
+        ``kind``, hollow if ``unused``). Points outside the plot are counted in a note.
     pressure_levels : sequence of (label, TVDSS [m], interval top, base [m] or None)
     sw_band : dict, optional
         Monte Carlo ``"SW_P10"``, ``"SW_P90"`` [fraction] per sample: a grey band on the Sw
@@ -470,21 +470,17 @@ def track_plot(result: WellResult, depth_axis: str = "tvdss", units: str = "metr
 
     Raises
     ------
-    DepthError
-        Unknown ``depth_axis``; no depth samples; TVDSS asked but all missing.
-    UnitError
-        Unknown ``units``.
-    SatHeightError
-        Unknown ``interval`` or ``page``; a result array does not match the well's
-        number of samples.
+    DepthError, UnitError, SatHeightError
+        Unknown ``depth_axis`` (DepthError), ``units`` (UnitError), ``interval`` or ``page``;
+        no depth samples, or TVDSS asked but all missing (DepthError); a result array or
+        ``sw_band`` curve not of the well's number of samples.
     """
     md, tvdss = _checked_depths(result, depth_axis, units, interval, page)
     gr = _gr_curve(result)
     tracks = _track_list(result, gr, pressures)
     f = _frame(result, md, tvdss, depth_axis, units, tracks, interval, page)
     _depth_scales(f, units)
-    zones = list(result.zones or [])
-    notes = draw_fwls(f, draw_zones(f, zones))
+    notes = draw_fwls(f, draw_zones(f, zones := list(result.zones or [])))
     notes += _points_note(f, core := (core_sw, core_porosity, core_permeability), pressures)
     draw_free_oil_levels(f, zones)
     if gr is not None:
