@@ -317,6 +317,8 @@ def test_track_plot_band_edges_are_the_percentile_curves_written_to_the_las(tmp_
     file's values, read back with lasio), at the samples kept by the thinning."""
     import lasio
     from matplotlib.collections import PolyCollection
+    from matplotlib.patches import PathPatch
+    from matplotlib.path import Path as MplPath
 
     from satheight.plots import track_plot
     from satheight.plots.track_curves import BAND_LABEL
@@ -344,10 +346,16 @@ def test_track_plot_band_edges_are_the_percentile_curves_written_to_the_las(tmp_
         np.testing.assert_array_equal(tvdss[idx], y[ok])
         np.testing.assert_allclose(x[ok], las[name][idx], atol=5e-6, err_msg=name)
     # the fill: every outline vertex lies on one of the two curves at its depth
+    # (one compound patch, or matplotlib's own PolyCollection where depths turn back)
+    grey = [0x55 / 255] * 3
     band = [c for c in ax[0].collections if isinstance(c, PolyCollection)
-            and np.allclose(c.get_facecolor()[0][:3], [0x55 / 255] * 3)]
+            and np.allclose(c.get_facecolor()[0][:3], grey)]
+    band += [p for p in ax[0].patches if isinstance(p, PathPatch)
+             and np.allclose(p.get_facecolor()[:3], grey)]
     assert len(band) == 1
-    verts = np.concatenate([p.vertices for p in band[0].get_paths()])
+    paths = band[0].get_paths() if isinstance(band[0], PolyCollection) else [band[0].get_path()]
+    verts = np.concatenate([p.vertices[p.codes != MplPath.CLOSEPOLY] if p.codes is not None
+                            else p.vertices for p in paths])
     idx = np.searchsorted(tvdss, verts[:, 1])
     on_edge = (np.abs(verts[:, 0] - las["SW_P10"][idx]) < 5e-6) | \
               (np.abs(verts[:, 0] - las["SW_P90"][idx]) < 5e-6)
