@@ -25,14 +25,21 @@ _SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
 _PAIRS = np.array([[ord(str(i // 10)), ord(str(i % 10))] for i in range(100)], dtype=np.uint8)
 
 
+#: The same, one array per digit (a gather from a contiguous table is the fastest).
+_TENS, _UNITS = np.ascontiguousarray(_PAIRS[:, 0]), np.ascontiguousarray(_PAIRS[:, 1])
+
+
 def _digits(mag: np.ndarray, count: int):
     """The ``count`` lowest decimal digits of each non-negative integer, as ASCII, last digit
-    first; two at a time (one integer division per pair)."""
-    m = mag.copy()
+    first; two at a time (one integer division per pair: ``m // 100`` and ``m - 100 q``,
+    several times faster in numpy than ``np.divmod``)."""
+    m = mag
     for _ in range(count // 2):
-        m, r = np.divmod(m, 100)
-        yield _PAIRS[r, 1]
-        yield _PAIRS[r, 0]
+        q = m // 100
+        r = m - q * 100
+        m = q
+        yield _UNITS[r]
+        yield _TENS[r]
     if count % 2:
         yield _DIGITS[m % 10]
 

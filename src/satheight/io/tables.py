@@ -56,12 +56,17 @@ def _column(pa, values):
     """A pyarrow array: float64 with NaN as null for numbers, safe strings for text.
 
     Text is made safe once per distinct value and expanded by index (vectorised), so a
-    column of one well or zone name per sample costs no Python call per sample.
+    column of one well or zone name per sample costs no Python call per sample; the
+    distinct values of a numpy text column are found by pyarrow's hashing (no sort).
     """
     arr = np.asarray(values)
     if arr.dtype.kind in "fiub":
         a = arr.astype(float)
         return pa.array(a, type=pa.float64(), mask=~np.isfinite(a))
+    if arr.dtype.kind == "U":
+        coded = pa.array(arr.ravel(), type=pa.string()).dictionary_encode()
+        return pa.array([safe_cell(u) for u in coded.dictionary.to_pylist()],
+                        type=pa.string()).take(coded.indices)
     none = np.equal(arr, None) if arr.dtype == object else None
     text = np.where(none, "", arr.astype(str)) if none is not None else arr.astype(str)
     uniq, inv = np.unique(text, return_inverse=True)
@@ -86,9 +91,10 @@ def to_arrow(columns: dict, metadata: dict | None = None):
 
 def _parquet_options(pa, schema) -> dict:
     """Dictionary encoding for text columns only (float columns gain nothing from it and
-    cost time), zstd compression."""
+    cost time), snappy compression (pyarrow's default: on the benchmark well it wrote in
+    about half the time of zstd, for a file about 1.45 times larger)."""
     text = [f.name for f in schema if pa.types.is_string(f.type)]
-    return {"use_dictionary": text, "compression": "zstd"}
+    return {"use_dictionary": text, "compression": "snappy"}
 
 
 def _write_csv(pacsv, table, f) -> None:

@@ -7,7 +7,8 @@
   ``field_summary.parquet`` (one row per well and zone: FWL used and its source, pore
   thickness per phase from the SHM and from the logs, with the Monte Carlo P90 / P50 /
   P10 where the project has uncertainty keys, and the SHM-minus-log Sw statistics) and
-  ``all_wells.csv`` / ``all_wells.parquet`` (every well's table, in project order).
+  ``all_wells.parquet`` (every well's table, in project order; ``all_wells.csv`` too when
+  asked for).
 
 Lengths are in the project's length unit (``m`` or ``ft``), named in each column.
 """
@@ -86,8 +87,9 @@ def field_summary_columns(summaries: list[dict], length_unit: str) -> dict:
 
 
 def write_field_tables(summaries: list[dict], well_tables: list[Path], out_dir: Path,
-                       project) -> list[Path]:
-    """Write the field summary and the all-wells table (CSV and Parquet); return the files.
+                       project, csv: bool = False) -> list[Path]:
+    """Write the field summary (CSV and Parquet) and the all-wells table (Parquet, and CSV
+    when ``csv``); return the files.
 
     Parameters
     ----------
@@ -104,6 +106,6 @@ def write_field_tables(summaries: list[dict], well_tables: list[Path], out_dir: 
     if cols:
         files += write_table(cols, out_dir / "field_summary.parquet", out_dir / "field_summary.csv",
                              metadata=meta)
-    files += merge_tables(well_tables, out_dir / "all_wells.parquet", out_dir / "all_wells.csv",
-                          metadata=meta)
+    files += merge_tables(well_tables, out_dir / "all_wells.parquet",
+                          out_dir / "all_wells.csv" if csv else None, metadata=meta)
     return files

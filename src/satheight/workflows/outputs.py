@@ -49,17 +49,20 @@ def safe_name(name: str, empty: str = "well") -> str:
 
 @dataclass(frozen=True)
 class PlotOptions:
-    """What a run draws. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
+    """What a run draws and writes. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
     ``depth_axis``: main depth scale of the track plots (``"tvdss"`` or ``"md"``);
     ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``);
     ``existing``: input curves named like a computed one are replaced (``"replace"``) or
-    the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`."""
+    the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`;
+    ``csv``: each well's samples also as ``<well>.csv`` (and the run's ``all_wells.csv``)
+    beside the Parquet tables, which are always written."""
 
     draw: bool = True
     pdf: bool = False
     depth_axis: str = "tvdss"
     interval: str = "zones"
     existing: str = "replace"
+    csv: bool = False
 
 
 NO_PLOTS = PlotOptions(draw=False)
@@ -67,7 +70,8 @@ NO_PLOTS = PlotOptions(draw=False)
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path,
                   opts: PlotOptions = PlotOptions()) -> list[Path]:
-    """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
+    """Write LAS, Parquet, JSON summary, track plot(s) and, with ``opts.csv``, CSV of one
+    well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = safe_name(result.well.name)
     new = output_curves(result, project)
@@ -83,9 +87,10 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     well, params = new_parameters(result.well, run_parameters(result, project), opts.existing)
     write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
     files.append(las_path)
-    csv_path = out_dir / f"{stem}.csv"
-    write_csv(csv_path, result.well, new)
-    files.append(csv_path)
+    if opts.csv:
+        csv_path = out_dir / f"{stem}.csv"
+        write_csv(csv_path, result.well, new)
+        files.append(csv_path)
     files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
