@@ -61,7 +61,7 @@ def _column(pa, values):
     """
     arr = np.asarray(values)
     if arr.dtype.kind in "fiub":
-        a = arr.astype(float)
+        a = np.asarray(arr, dtype=np.float64)     # float64 as it is: no copy of the samples
         return pa.array(a, type=pa.float64(), mask=~np.isfinite(a))
     if arr.dtype.kind == "U":
         coded = pa.array(arr.ravel(), type=pa.string()).dictionary_encode()
