@@ -59,16 +59,30 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
     n = x.size
     finite = np.isfinite(x)
     scale = 10.0 ** decimals
+    all_finite = bool(finite.all())
+    # (in place where it can: every temporary of a long column costs a pass over fresh memory)
     with np.errstate(invalid="ignore", over="ignore"):
-        p = np.abs(x) * scale
-        p[~finite] = 0.0
+        p = np.abs(x)
+        p *= scale
+        if not all_finite:
+            p[~finite] = 0.0
         fast = p < FIXED_MAX
-        frac = p - np.floor(p)
+        frac = np.floor(p)
+        np.subtract(p, frac, out=frac)
+        frac -= 0.5
+        np.abs(frac, out=frac)
         # exact product and rounded product differ by at most half an ulp of p
-        tie = np.abs(frac - 0.5) <= np.abs(p) * 2.3e-16
+        tie = frac <= p * 2.3e-16
+    del frac
     slow = finite & (~fast | tie)
-    mag = np.rint(np.where(slow, 0.0, p)).astype(np.int64)
-    neg = np.signbit(x) & finite
+    any_slow = bool(slow.any())
+    if any_slow:
+        p[slow] = 0.0
+    mag = np.rint(p, out=p).astype(np.int64)
+    del p
+    neg = np.signbit(x)
+    if not all_finite:
+        neg &= finite
 
     # number of digits of the magnitude, at least decimals + 1 (a leading zero)
     n_digits = np.full(n, decimals + 1, dtype=np.int64)
@@ -80,12 +94,14 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
             break
         n_digits += more
         power *= 10
-    text_len = n_digits + (1 if decimals else 0) + neg
-    slow_text = [("%.*f" % (decimals, v)).encode("ascii") for v in x[slow].tolist()]
+    text_len = n_digits + (1 if decimals else 0)
+    text_len += neg
+    slow_text = [("%.*f" % (decimals, v)).encode("ascii") for v in x[slow].tolist()] if any_slow else []
     null_b = null_text.encode("ascii")
     width = 0
     if n:
-        width = int(text_len[finite & ~slow].max(initial=0))
+        width = int(text_len.max() if all_finite and not any_slow
+                    else text_len[finite & ~slow].max(initial=0))
         if slow_text:
             width = max(width, max(len(t) for t in slow_text))
         if not finite.all():
@@ -109,8 +125,9 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         if decimals and d == decimals - 1 and col >= 0:
             out_t[col] = _DOT
             col -= 1
-    sel = np.flatnonzero(neg & ~slow)
-    out[sel, first[sel]] = _MINUS
+    sel = np.flatnonzero(neg & ~slow if any_slow else neg)
+    if sel.size:
+        out[sel, first[sel]] = _MINUS
     # clear whatever the digit loop wrote into rows formatted otherwise
     other = ~finite | slow
     if other.any():
