@@ -62,7 +62,10 @@ def _column(pa, values):
     arr = np.asarray(values)
     if arr.dtype.kind in "fiub":
         a = np.asarray(arr, dtype=np.float64)     # float64 as it is: no copy of the samples
-        return pa.array(a, type=pa.float64(), mask=~np.isfinite(a))
+        finite = np.isfinite(a)
+        if finite.all():
+            return pa.array(a, type=pa.float64())
+        return pa.array(a, type=pa.float64(), mask=~finite)
     if arr.dtype.kind == "U":
         coded = pa.array(arr.ravel(), type=pa.string()).dictionary_encode()
         return pa.array([safe_cell(u) for u in coded.dictionary.to_pylist()],
