@@ -44,23 +44,17 @@ def _digits(mag: np.ndarray, count: int):
         yield _DIGITS[m % 10]
 
 
-def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
-    """Fixed-point text of each value, right-aligned, as a ``(n, width)`` uint8 array.
+def _magnitudes(x: np.ndarray, decimals: int):
+    """``(finite, slow, mag, neg)`` of :func:`format_fixed`: the rows formatted by Python's
+    ``%`` (too large, or a rounding tie), the rounded ``|x| * 10**decimals`` of the others
+    (0 for the rest) and the rows written with a minus sign.
 
-    Each row holds the ASCII text of ``"%.{decimals}f" % x`` (``null_text`` where
-    ``x`` is not finite), padded on the left with blanks to the longest text of
-    the column. ``width`` is that longest length.
-
-    Values with ``|x| * 10**decimals < 2**40`` are formatted with integer
-    arithmetic; ties and larger values go through Python's ``%`` operator, so the
-    text equals ``"%.{decimals}f" % x`` for every value.
+    Computed in place where it can: every temporary of a long column is a pass over
+    fresh memory.
     """
-    x = np.asarray(values, dtype=np.float64)
-    n = x.size
     finite = np.isfinite(x)
     scale = 10.0 ** decimals
     all_finite = bool(finite.all())
-    # (in place where it can: every temporary of a long column costs a pass over fresh memory)
     with np.errstate(invalid="ignore", over="ignore"):
         p = np.abs(x)
         p *= scale
@@ -75,14 +69,31 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         tie = frac <= p * 2.3e-16
     del frac
     slow = finite & (~fast | tie)
-    any_slow = bool(slow.any())
-    if any_slow:
+    if slow.any():
         p[slow] = 0.0
     mag = np.rint(p, out=p).astype(np.int64)
     del p
     neg = np.signbit(x)
     if not all_finite:
         neg &= finite
+    return finite, slow, mag, neg
+
+
+def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
+    """Fixed-point text of each value, right-aligned, as a ``(n, width)`` uint8 array.
+
+    Each row holds the ASCII text of ``"%.{decimals}f" % x`` (``null_text`` where
+    ``x`` is not finite), padded on the left with blanks to the longest text of
+    the column. ``width`` is that longest length.
+
+    Values with ``|x| * 10**decimals < 2**40`` are formatted with integer
+    arithmetic; ties and larger values go through Python's ``%`` operator, so the
+    text equals ``"%.{decimals}f" % x`` for every value.
+    """
+    x = np.asarray(values, dtype=np.float64)
+    n = x.size
+    finite, slow, mag, neg = _magnitudes(x, decimals)
+    all_finite, any_slow = bool(finite.all()), bool(slow.any())
 
     # number of digits of the magnitude, at least decimals + 1 (a leading zero)
     n_digits = np.full(n, decimals + 1, dtype=np.int64)

@@ -14,6 +14,7 @@ through :mod:`satheight.io.atomic` (temporary file, then rename).
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Sequence
 
@@ -25,6 +26,18 @@ from .atomic import atomic_open
 #: Characters that make a spreadsheet read a cell as a formula (common practice: such
 #: cells are prefixed with an apostrophe so they stay text).
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+@dataclass(frozen=True)
+class CodedText:
+    """A text column given as its distinct values (``labels``) and, per row, the index of its
+    value (``codes``): a well or zone name per sample without a string per sample."""
+
+    labels: Sequence[str]
+    codes: np.ndarray
+
+    def __len__(self) -> int:
+        return len(self.codes)
 
 
 def _pyarrow():
@@ -59,6 +72,9 @@ def _column(pa, values):
     column of one well or zone name per sample costs no Python call per sample; the
     distinct values of a numpy text column are found by pyarrow's hashing (no sort).
     """
+    if isinstance(values, CodedText):
+        return pa.array([safe_cell(u) for u in values.labels],
+                        type=pa.string()).take(pa.array(np.asarray(values.codes)))
     arr = np.asarray(values)
     if arr.dtype.kind in "fiub":
         a = np.asarray(arr, dtype=np.float64)     # float64 as it is: no copy of the samples
@@ -110,7 +126,7 @@ def write_table(columns: dict, parquet_path: Path | None = None, csv_path: Path 
 
     Parameters
     ----------
-    columns : dict[str, array_like]
+    columns : dict[str, array_like or CodedText]
         Column name (with its unit, e.g. ``"HCPT_SHM [m]"``) -> values of one length.
     parquet_path, csv_path : pathlib.Path or None
     metadata : dict[str, str], optional

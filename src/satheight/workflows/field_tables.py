@@ -20,7 +20,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import units as U
-from ..io.tables import merge_tables, write_table
+from ..io.tables import CodedText, merge_tables, write_table
 from ..results import WellResult
 
 #: Columns of the field summary taken from each zone block of a well summary:
@@ -43,11 +43,12 @@ def well_table_columns(result: WellResult, project, new_curves) -> dict:
     """
     unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     n = result.well.md.size
-    names = np.array([zn.name for zn in result.zones] + [""], dtype=str)
-    cols = {"WELL": np.full(n, result.well.name),
+    zone = np.asarray(result.shm.zone)
+    cols = {"WELL": CodedText([result.well.name], np.zeros(n, dtype=np.int64)),
             f"MD [{unit}]": U.from_si(result.well.md, unit, "length"),
             f"TVDSS [{unit}]": U.from_si(result.tvdss, unit, "length"),
-            "ZONE": names[result.shm.zone]}                  # -1 picks the trailing ""
+            "ZONE": CodedText([zn.name for zn in result.zones] + [""],     # -1: outside, ""
+                              np.where(zone < 0, len(result.zones), zone))}
     for c in list(result.well.curves.values()) + list(new_curves):
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         if label in cols or c.mnemonic == "TVDSS":        # TVDSS is above, in the project unit
