@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import json
 import os
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -85,13 +86,17 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     files = []
     las_path = out_dir / f"{stem}.las"
     well, params = new_parameters(result.well, run_parameters(result, project), opts.existing)
-    write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
-    files.append(las_path)
-    if opts.csv:
-        csv_path = out_dir / f"{stem}.csv"
-        write_csv(csv_path, result.well, new)
-        files.append(csv_path)
-    files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
+    # the Parquet table (the well's part of all_wells) is written in a second thread while this
+    # one makes the LAS text: pyarrow and numpy's array loops run without Python's lock
+    with ThreadPoolExecutor(1) as pool:
+        table = pool.submit(write_well_table, result, project, new, out_dir / f"{stem}.parquet")
+        write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
+        files.append(las_path)
+        if opts.csv:
+            csv_path = out_dir / f"{stem}.csv"
+            write_csv(csv_path, result.well, new)
+            files.append(csv_path)
+        files += table.result()
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability,
