@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Benchmarks of satheight on logs of real size, each figure a ratio measured in this run.
 
-    python bench/run.py [--quick] [--json FILE] [--keep DIR]
+    python bench/run.py [--quick] [--only read,well,...] [--json FILE] [--keep DIR]
 
 Builds its own invented inputs in a temporary folder (a synthetic LAS 2.0 well of
 500,000 rows x 13 curves, a project of 200 wells), then measures, every case in a
@@ -11,7 +11,7 @@ fresh Python process so that peak memories do not mix:
 * LAS write of the same well with 5 added curves: ``write_las`` vs ``LASFile.write``;
 * engine on 10 million samples: ``compute_shm`` vs a bare numpy evaluation of the
   same closed-form expressions (no zones, no flags): the practical floor;
-* one well end to end (load, compute, write LAS/CSV/JSON; no plots) vs load
+* one well end to end (load, compute, write LAS/Parquet/JSON; no plots) vs load
   alone and vs load + write;
 * a 200-well project end to end with 2 worker processes vs 1 (wall time, peak memory).
 * the demo run with plots vs without, and the bench well's track plot vs lasio's read;
@@ -24,7 +24,9 @@ minute). Peak memory is the growth of the process's peak resident set during the
 measured call over its resident set just before (Linux ``/proc/self/status``
 ``VmHWM``, reset through ``/proc/self/clear_refs``; elsewhere ``ru_maxrss``).
 Absolute seconds are printed beside each ratio; only the ratios are meant to be
-compared between machines. Nothing here is part of the test suite.
+compared between machines. ``--only`` measures some groups of figures (see :data:`GROUPS`;
+``well`` and ``plots`` also measure ``read``, whose lasio time they are divided by).
+Nothing here is part of the test suite.
 """
 
 from __future__ import annotations
@@ -39,6 +41,7 @@ import sys
 import tempfile
 import time
 from pathlib import Path
+from types import SimpleNamespace
 
 ROOT = Path(__file__).resolve().parents[1]
 if (ROOT / "src" / "satheight").is_dir():
@@ -213,7 +216,7 @@ def build_mc_inputs(folder: Path, sizes: dict) -> dict:
     return {"mc_project": det, "mc_unc_project": unc}
 
 
-def build_inputs(folder: Path, sizes: dict) -> dict:
+def build_inputs(folder: Path, sizes: dict, field: bool = True) -> dict:
     folder.mkdir(parents=True, exist_ok=True)
     big = folder / "big.las"
     write_well(big, sizes["rows"], 1, "BENCH-1")
@@ -226,6 +229,9 @@ def build_inputs(folder: Path, sizes: dict) -> dict:
     warm.mkdir(exist_ok=True)
     os.link(folder / "small.las", warm / "small.las")
     warm_project = write_project(warm, ["small.las"], 200)
+    if not field:                                          # no project figures asked for
+        return {"big": big, "small": folder / "small.las", "one_project": one_project,
+                "warm_project": warm_project, "field_project": None}
     field = folder / "field"
     field.mkdir(exist_ok=True)
     names = []
@@ -383,7 +389,7 @@ def case_cores(args) -> dict:
 
 def case_montecarlo(args) -> dict:
     """Monte Carlo of one well (``well_uncertainty``: realisations and tornado) against one
-    deterministic no-plot run of the same well (compute, write LAS, CSV, JSON)."""
+    deterministic no-plot run of the same well (compute, write LAS, Parquet, JSON)."""
     from satheight.project.reader import load_project
     from satheight.workflows import outputs as O
     from satheight.workflows import well as W
@@ -442,19 +448,13 @@ def machine() -> str:
     return f"{os.cpu_count()} CPUs, {cpu}, Python {platform.python_version()}, {platform.system()}"
 
 
-def run_all(folder: Path, sizes: dict, say) -> dict:
-    import lasio
-    import pandas
+#: Groups of figures ``--only`` can pick, in the order they are measured.
+GROUPS = ("read", "write", "engine", "well", "plots", "montecarlo", "project")
 
-    rows, ncurves = sizes["rows"], len(CURVES) + 1
-    say(f"machine: {machine()}; numpy {np.__version__}, pandas {pandas.__version__}, "
-        f"lasio {lasio.__version__}")
-    t0 = time.perf_counter()
-    inputs = build_inputs(folder, sizes)
-    say(f"inputs built in {time.perf_counter() - t0:.1f} s in {folder}")
-    rep = sizes["repeat"]
-    fig = {"machine": machine(), "sizes": sizes}
 
+def _group_read(c, fig: dict) -> None:
+    """The read figures into ``fig``."""
+    rows, ncurves, inputs, rep, say = c.rows, c.ncurves, c.inputs, c.rep, c.say
     ours = _run_case("read", which="ours", file=inputs["big"], small=inputs["small"], repeat=rep)
     ref = _run_case("read", which="lasio", file=inputs["big"], small=inputs["small"], repeat=rep)
     fig["read"] = {"ours": ours, "lasio": ref, "speed_ratio": ref["seconds"] / ours["seconds"],
@@ -464,6 +464,10 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
     say(f"LAS read peak memory: read_las +{ours['peak_mb']:.0f} MB, lasio.read "
         f"+{ref['peak_mb']:.0f} MB -> {fig['read']['memory_ratio']:.2f} of lasio's (target <= 0.5)")
 
+
+def _group_write(c, fig: dict) -> None:
+    """The write figures into ``fig``."""
+    rows, ncurves, inputs, rep, folder, say = c.rows, c.ncurves, c.inputs, c.rep, c.folder, c.say
     out = folder / "w_out.las"
     ours = _run_case("write", which="ours", file=inputs["big"], small=inputs["small"], out=out,
                      repeat=rep)
@@ -475,23 +479,36 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
         f"LASFile.write {ref['seconds']:.2f} s -> {fig['write']['speed_ratio']:.1f}x faster "
         f"(target >= 5x); peak memory +{ours['peak_mb']:.0f} MB vs +{ref['peak_mb']:.0f} MB")
 
+
+def _group_engine(c, fig: dict) -> None:
+    """The engine figures into ``fig``."""
+    rep, sizes, say = c.rep, c.sizes, c.say
     eng = _run_case("engine", n=sizes["engine"], repeat=rep)
     fig["engine"] = dict(eng, ratio=eng["ours"]["seconds"] / eng["floor"]["seconds"])
     say(f"engine {sizes['engine']} samples: compute_shm {eng['ours']['seconds']:.2f} s, bare numpy "
         f"{eng['floor']['seconds']:.2f} s -> {fig['engine']['ratio']:.2f}x the floor (target <= 2x)")
 
+
+def _group_well(c, fig: dict) -> None:
+    """The well figures into ``fig``."""
+    rows, inputs, rep, folder, say = c.rows, c.inputs, c.rep, c.folder, c.say
     well = _run_case("well", project=inputs["one_project"], warm_project=inputs["warm_project"],
                      out=folder / "well_out", repeat=rep)
     load, write, e2e = (well[k]["seconds"] for k in ("load", "write", "e2e"))
     lasio_read = fig["read"]["lasio"]["seconds"]
     fig["well"] = dict(well, ratio_load_write=e2e / (load + write), ratio_load=e2e / load,
                        ratio_lasio_read=e2e / lasio_read)
-    say(f"one well end to end ({rows} rows; load, compute, write LAS+CSV+JSON, no plots): "
+    say(f"one well end to end ({rows} rows; load, compute, write LAS+Parquet+JSON, no plots): "
         f"{e2e:.2f} s; load {load:.2f} s, write {write:.2f} s -> "
         f"{fig['well']['ratio_load_write']:.2f}x load+write (target <= 1.5x), "
         f"{fig['well']['ratio_load']:.2f}x load alone, {fig['well']['ratio_lasio_read']:.2f}x "
         f"lasio's read of the file (target <= 0.3x)")
 
+
+def _group_plots(c, fig: dict) -> None:
+    """The plots figures into ``fig``."""
+    rows, inputs, rep, folder, say = c.rows, c.inputs, c.rep, c.folder, c.say
+    lasio_read = fig["read"]["lasio"]["seconds"]
     pl = _run_case("plots", project=inputs["one_project"], out=folder / "plots_out", repeat=rep)
     with_p, without = pl["demo_plots"]["seconds"], pl["demo_no_plots"]["seconds"]
     fig["plots"] = dict(pl, ratio=with_p / without,
@@ -501,6 +518,10 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
         f"{pl['track']['seconds']:.2f} s -> {fig['plots']['track_ratio_lasio_read']:.2f}x "
         f"lasio's read (target <= 0.2x)")
 
+
+def _group_montecarlo(c, fig: dict) -> None:
+    """The montecarlo figures into ``fig``."""
+    rep, folder, sizes, say = c.rep, c.folder, c.sizes, c.say
     mc_in = build_mc_inputs(folder, sizes)
     mc = _run_case("montecarlo", project=mc_in["mc_project"], mc_project=mc_in["mc_unc_project"],
                    out=folder / "mc_out", repeat=rep)
@@ -511,6 +532,10 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
         f"{fig['montecarlo']['ratio']:.1f}x (target <= 50x); peak memory "
         f"+{fig['montecarlo']['peak_mb']:.0f} MB (bound on the working arrays {mc['memory_mb']:g} MB)")
 
+
+def _group_project(c, fig: dict) -> None:
+    """The project figures into ``fig``."""
+    rows, inputs, folder, sizes, say = c.rows, c.inputs, c.folder, c.sizes, c.say
     cores = _run_case("cores", n=3_000_000 if sizes is FULL else 1_000_000)
     one = _run_case("project", project=inputs["field_project"], workers=1, out=folder / "p1")
     two = _run_case("project", project=inputs["field_project"], workers=2, out=folder / "p2")
@@ -537,8 +562,43 @@ def run_all(folder: Path, sizes: dict, say) -> dict:
         fig["dask"] = dict(dk, ratio=dk["seconds"] / two["seconds"])
         say(f"same project on a local Dask cluster (2 worker processes): {dk['seconds']:.1f} s -> "
             f"{fig['dask']['ratio']:.2f}x the 2-process pool; outputs identical: {dk['identical']}")
+
+
+def run_all(folder: Path, sizes: dict, say, only: set | None = None) -> dict:
+    import lasio
+    import pandas
+
+    only = set(only or GROUPS)
+    if only & {"well", "plots"}:
+        only.add("read")                                  # their figures divide by lasio's read
+    rows, ncurves = sizes["rows"], len(CURVES) + 1
+    say(f"machine: {machine()}; numpy {np.__version__}, pandas {pandas.__version__}, "
+        f"lasio {lasio.__version__}")
+    t0 = time.perf_counter()
+    inputs = build_inputs(folder, sizes, field="project" in only)
+    say(f"inputs built in {time.perf_counter() - t0:.1f} s in {folder}")
+    rep = sizes["repeat"]
+    fig = {"machine": machine(), "sizes": sizes}
+    c = SimpleNamespace(rows=rows, ncurves=ncurves, inputs=inputs, rep=rep, folder=folder,
+                        sizes=sizes, say=say)
+    groups = {"read": _group_read, "write": _group_write, "engine": _group_engine,
+              "well": _group_well, "plots": _group_plots, "montecarlo": _group_montecarlo,
+              "project": _group_project}
+    for name in GROUPS:
+        if name in only:
+            groups[name](c, fig)
     say(f"total benchmark time {time.perf_counter() - t0:.0f} s")
     return fig
+
+
+def _groups(text: str) -> set:
+    """``--only`` value: comma-separated names of :data:`GROUPS`."""
+    names = {t.strip() for t in text.split(",") if t.strip()}
+    unknown = names - set(GROUPS)
+    if unknown or not names:
+        raise argparse.ArgumentTypeError(f"unknown group(s) {sorted(unknown)}; choose from "
+                                         + ", ".join(GROUPS))
+    return names
 
 
 def main(argv=None) -> int:
@@ -546,6 +606,9 @@ def main(argv=None) -> int:
     p.add_argument("--quick", action="store_true", help="smaller sizes, one repeat (< 1 minute)")
     p.add_argument("--json", metavar="FILE", help="also write every figure to FILE as JSON")
     p.add_argument("--keep", metavar="DIR", help="build the inputs in DIR and keep them")
+    p.add_argument("--only", metavar="GROUPS", type=_groups, default=None,
+                   help="measure only these groups of figures, comma-separated: "
+                        + ", ".join(GROUPS) + " (well and plots also measure read)")
     p.add_argument("--case", choices=sorted(CASES), help=argparse.SUPPRESS)
     for opt in ("which", "file", "small", "out", "project", "warm-project", "mc-project"):
         p.add_argument(f"--{opt}", help=argparse.SUPPRESS)
@@ -561,10 +624,10 @@ def main(argv=None) -> int:
         print(text, flush=True)
 
     if args.keep:
-        fig = run_all(Path(args.keep), sizes, say)
+        fig = run_all(Path(args.keep), sizes, say, args.only)
     else:
         with tempfile.TemporaryDirectory(prefix="satheight-bench-") as tmp:
-            fig = run_all(Path(tmp), sizes, say)
+            fig = run_all(Path(tmp), sizes, say, args.only)
     if args.json:
         Path(args.json).write_text(json.dumps(fig, indent=2, default=str) + "\n")
     return 0

@@ -169,7 +169,7 @@ def test_without_survey_the_profile_differs(field):
 
 
 def test_outputs_and_vertical_thickness(field, tmp_path):
-    report = run_project(field / "p.toml", tmp_path / "out", plot=False)
+    report = run_project(field / "p.toml", tmp_path / "out", plot=False, csv=True)
     # README (Outputs): every well computed (none failed); its files checked below with lasio
     assert not report.failed
     out = lasio.read(tmp_path / "out" / "DEV-1.las")

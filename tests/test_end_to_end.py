@@ -33,14 +33,14 @@ def _md5(p: Path) -> str:
 def demo_run(tmp_path_factory):
     out = tmp_path_factory.mktemp("demo")
     before = {p.name: _md5(p) for p in DEMO.iterdir() if p.is_file()}
-    code = main(["demo", "--out", str(out), "--pdf"])
+    code = main(["demo", "--out", str(out), "--pdf", "--csv"])
     after = {p.name: _md5(p) for p in DEMO.iterdir() if p.is_file()}
     return code, out, before, after
 
 
 def test_demo_exits_ok_and_writes_every_file(demo_run):
-    # README (Outputs, Demo field): every well ok; LAS, CSV, summary, track PNG and PDF written;
-    # no temporary file left
+    # README (Outputs, Demo field): every well ok; LAS, Parquet, CSV (--csv), summary, track PNG
+    # and PDF (--pdf) written; no temporary file left
     code, out, _, _ = demo_run
     assert code == 0
     project = load_project(DEMO_PROJECT)
@@ -48,7 +48,7 @@ def test_demo_exits_ok_and_writes_every_file(demo_run):
     assert len(summary["wells"]) == len(project.wells) >= 3
     for w in summary["wells"]:
         assert w["ok"], w
-        for suffix in (".las", ".csv", "_summary.json", "_tracks.png", "_tracks.pdf"):
+        for suffix in (".las", ".parquet", ".csv", "_summary.json", "_tracks.png", "_tracks.pdf"):
             assert any(f.endswith(suffix) for f in w["files"]), (w["name"], suffix)
         for f in w["files"]:
             assert (out / f).stat().st_size > 0

@@ -71,12 +71,13 @@ def test_run_writes_field_summary_and_all_wells_tables(tmp_path):
     folder = tmp_path / "demo"
     shutil.copytree(DEMO, folder)
     out = tmp_path / "out"
-    report = run_project(folder / "demo_project.toml", out, plot=False)
+    report = run_project(folder / "demo_project.toml", out, plot=False, csv=True)
     ok = [w for w in report.wells if w.ok]
     assert len(ok) == 5
     run = json.loads((out / "run_summary.json").read_text())
     assert set(run["tables"]) == {"field_summary.parquet", "field_summary.csv",
                                   "all_wells.parquet", "all_wells.csv"}
+    assert all((out / f"{w.name}.csv").is_file() for w in ok)
     summary = pd.read_parquet(out / "field_summary.parquet")
     assert len(summary) == 5 * 2                                  # every well and zone
     pd.testing.assert_frame_equal(pd.read_csv(out / "field_summary.csv"), summary,
@@ -100,3 +101,23 @@ def test_run_writes_field_summary_and_all_wells_tables(tmp_path):
     np.testing.assert_allclose(rows3["SW_SHM [v/v]"], las3["SW_SHM"], atol=1e-5, equal_nan=True)
     assert set(rows3["ZONE"]) <= {"Upper Sand", "Lower Sand", ""}
     assert len(pd.read_csv(out / "all_wells.csv", usecols=["WELL"])) == len(long)
+
+
+def test_samples_are_written_as_csv_only_when_asked(tmp_path):
+    """README "Outputs": each well's samples and all_wells go to Parquet; CSV copies of them
+    only with --csv (csv=True); the small field summary is written in both formats."""
+    from satheight.workflows.run import run_project
+
+    folder = tmp_path / "demo"
+    shutil.copytree(DEMO, folder)
+    out = tmp_path / "out"
+    report = run_project(folder / "demo_project.toml", out, plot=False)
+    names = {p.name for p in out.iterdir()}
+    assert {"field_summary.csv", "field_summary.parquet", "all_wells.parquet"} <= names
+    assert "all_wells.csv" not in names
+    for w in report.wells:
+        assert f"{w.name}.parquet" in names and f"{w.name}.las" in names
+        assert f"{w.name}.csv" not in names
+        assert all(f.suffix != ".csv" for f in w.files)
+    run = json.loads((out / "run_summary.json").read_text())
+    assert set(run["tables"]) == {"field_summary.parquet", "field_summary.csv", "all_wells.parquet"}

@@ -125,8 +125,9 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
     out = tmp_path / "out"
     first = make_project(src, 2000.0)
     t0 = time.monotonic()
-    # README (Outputs): per well LAS, CSV, JSON, plus run_summary.json and report.html
-    assert main(["run", str(first), "--out", str(out), "--no-plots"]) == 0
+    # README (Outputs): per well LAS, Parquet, CSV (--csv), JSON, plus run_summary.json and
+    # report.html
+    assert main(["run", str(first), "--out", str(out), "--no-plots", "--csv"]) == 0
     full = time.monotonic() - t0
     old = {f.name: f.read_bytes() for f in out.iterdir()}
     assert len(old) == 4 * N_WELLS + 10  # per well LAS, CSV, Parquet, JSON; run summary; report; 4 tables; manifest
@@ -140,7 +141,7 @@ def test_killed_run_leaves_old_or_new_files_never_half(tmp_path):
         delay = rnd.uniform(0.2, max(0.5, 1.5 * full))
         delays.append(round(delay, 3))
         proc = subprocess.Popen([sys.executable, str(ROOT / "cli.py"), "run", str(second),
-                                 "--out", str(out), "--no-plots", "--overwrite"],
+                                 "--out", str(out), "--no-plots", "--csv", "--overwrite"],
                                 stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
         time.sleep(delay)
         proc.send_signal(signal.SIGKILL)
@@ -157,7 +158,7 @@ def test_killed_first_run_leaves_only_complete_files(tmp_path):
     p = make_project(src, 1800.0)
     out = tmp_path / "out"
     proc = subprocess.Popen([sys.executable, str(ROOT / "cli.py"), "run", str(p), "--out",
-                             str(out), "--no-plots"],
+                             str(out), "--no-plots", "--csv"],
                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
     time.sleep(random.uniform(1.0, 2.5))
     proc.send_signal(signal.SIGKILL)

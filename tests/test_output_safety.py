@@ -154,10 +154,10 @@ def test_overwrite_never_replaces_an_output_edited_since(tmp_path, capsys):
     p = make_field(tmp_path / "in")
     out = tmp_path / "out"
     assert run(p, out) == EXIT_OK
-    (out / "W0.csv").write_text("edited by hand")
+    (out / "W0.parquet").write_text("edited by hand")
     assert run(p, out, "--overwrite") == EXIT_BAD_INPUT
-    assert "W0.csv" in capsys.readouterr().err
-    assert (out / "W0.csv").read_text() == "edited by hand"
+    assert "W0.parquet" in capsys.readouterr().err
+    assert (out / "W0.parquet").read_text() == "edited by hand"
 
 
 def test_overwrite_removes_files_the_run_no_longer_writes_and_keeps_others(tmp_path):

@@ -58,7 +58,7 @@ def _project(tmp: Path, spread: bool, wells=("VANTREL-1", "VANTREL-2")) -> Path:
 
 def test_zero_spread_run_writes_percentiles_equal_to_the_shm_curve(tmp_path):
     # SW_SHM comes from engine.compute_shm in the run: the independent deterministic path
-    report = run_project(_project(tmp_path, spread=False), tmp_path / "out", plot=False)
+    report = run_project(_project(tmp_path, spread=False), tmp_path / "out", plot=False, csv=True)
     assert not report.failed
     for name in ("VANTREL-1", "VANTREL-2"):
         las = lasio.read(tmp_path / "out" / f"{name}.las")
@@ -103,8 +103,8 @@ def test_spread_run_gives_ordered_curves_distribution_and_tornado(tmp_path):
 
 def test_same_seed_same_files_with_one_or_two_workers(tmp_path):
     project = _project(tmp_path, spread=True)
-    run_project(project, tmp_path / "one", plot=False, workers=1)
-    run_project(project, tmp_path / "two", plot=False, workers=2)
+    run_project(project, tmp_path / "one", plot=False, workers=1, csv=True)
+    run_project(project, tmp_path / "two", plot=False, workers=2, csv=True)
     for name in ("VANTREL-1", "VANTREL-2"):
         for suffix in (".las", ".csv", "_summary.json"):
             a = (tmp_path / "one" / f"{name}{suffix}").read_bytes()

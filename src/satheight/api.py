@@ -86,9 +86,11 @@ def _project(project) -> Project:
 # running
 
 def run(project, out_dir, *, plots: bool = True, pdf: bool = False, depth_axis: str = "tvdss",
-        workers: int = 1, overwrite: bool = False, whole_log: bool = False) -> RunReport:
+        workers: int = 1, overwrite: bool = False, whole_log: bool = False,
+        csv: bool = False) -> RunReport:
     """Run every well of ``project`` (a :class:`Project` or a project-file path) and write
-    every output file into ``out_dir``, as ``satheight run`` does.
+    every output file into ``out_dir``, as ``satheight run`` does (``csv=True``: also the
+    CSV tables of ``--csv``).
 
     Returns the run report: ``report.wells`` (per well: ``name``, ``ok``, ``files``,
     ``error``, ``warnings``, ``summary``), ``report.summary_file``, ``report.notes``.
@@ -102,7 +104,7 @@ def run(project, out_dir, *, plots: bool = True, pdf: bool = False, depth_axis: 
                                     "run_well() for each well")
     return run_project(project, out_dir, pdf=pdf, plot=plots, depth_axis=depth_axis,
                        workers=workers, overwrite=overwrite,
-                       plot_interval="all" if whole_log else "zones")
+                       plot_interval="all" if whole_log else "zones", csv=csv)
 
 
 @dataclass

@@ -344,6 +344,9 @@ def _pressures(args, out) -> int:
 def _common_run_options(sp):
     sp.add_argument("--pdf", action="store_true", help="also write each track plot as PDF")
     sp.add_argument("--no-plots", action="store_true", help="skip the plots (faster)")
+    sp.add_argument("--csv", action="store_true",
+                    help="also write each well's samples as WELL.csv and all wells as "
+                         "all_wells.csv (the Parquet tables are always written)")
     sp.add_argument("--depth-axis", choices=("md", "tvdss"), default="tvdss",
                     help="main depth scale of the track plots: TVDSS (true vertical depth below "
                          "datum, default) or measured depth; the other is the second scale")
@@ -520,7 +523,7 @@ def _dispatch(args) -> int:
                          keep_results=False, overwrite=args.overwrite,
                          progress=progress_wanted(sys.stderr, args.quiet),
                          plot_interval="all" if args.whole_log else "zones",
-                         existing=args.existing, scheduler=args.scheduler)
+                         existing=args.existing, scheduler=args.scheduler, csv=args.csv)
     if args.json:
         print_json(args.command, json.loads(report.summary_file.read_text(encoding="utf-8")))
         return EXIT_WELLS_FAILED if report.failed else EXIT_OK

@@ -159,7 +159,7 @@ def _hcpt(phi, sw_shm, sw_log, dh, usable, phase, length_factor) -> dict:
     ``None`` for the phases of a block without a usable sample (not computed, not 0).
     """
     out = {}
-    for ph in sorted({str(p) for p in phase} - {""}):
+    for ph in sorted(set(phase.tolist()) - {""}):
         m = usable & (phase == ph)
         if not usable.any():
             out[f"hcpt_{ph}_shm"] = out[f"hcpt_{ph}_log"] = None

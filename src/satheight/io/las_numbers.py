@@ -17,24 +17,60 @@ __all__ = ["format_fixed", "format_general", "csv_rows", "FIXED_MAX"]
 #: Largest magnitude of a value times 10**decimals formatted with integers.
 FIXED_MAX = float(2 ** 40)
 
-_DIGITS = np.frombuffer(b"0123456789", dtype=np.uint8)
 _SPACE, _MINUS, _DOT = ord(" "), ord("-"), ord(".")
 
 
-#: ASCII of the two digits of 0..99, tens first.
-_PAIRS = np.array([[ord(str(i // 10)), ord(str(i % 10))] for i in range(100)], dtype=np.uint8)
-
-
 def _digits(mag: np.ndarray, count: int):
-    """The ``count`` lowest decimal digits of each non-negative integer, as ASCII, last digit
-    first; two at a time (one integer division per pair)."""
-    m = mag.copy()
-    for _ in range(count // 2):
-        m, r = np.divmod(m, 100)
-        yield _PAIRS[r, 1]
-        yield _PAIRS[r, 0]
-    if count % 2:
-        yield _DIGITS[m % 10]
+    """The ``count`` lowest decimal digits of each non-negative integer, last digit first, as
+    ASCII codes in an integer array (the caller stores them as bytes).
+
+    One ``m // 10`` and ``m - 10 q`` per digit, in 32-bit integers when every magnitude
+    fits: measured about 2.5 times faster than two digits at a time through a table of
+    digit pairs in 64-bit integers, and several times faster than ``np.divmod``.
+    """
+    m = mag.astype(np.uint32) if mag.size and int(mag.max()) < 2 ** 32 else mag
+    ten, zero = m.dtype.type(10), m.dtype.type(ord("0"))
+    for _ in range(count):
+        q = m // ten
+        d = m - q * ten
+        d += zero
+        m = q
+        yield d
+
+
+def _magnitudes(x: np.ndarray, decimals: int):
+    """``(finite, slow, mag, neg)`` of :func:`format_fixed`: the rows formatted by Python's
+    ``%`` (too large, or a rounding tie), the rounded ``|x| * 10**decimals`` of the others
+    (0 for the rest) and the rows written with a minus sign.
+
+    Computed in place where it can: every temporary of a long column is a pass over
+    fresh memory.
+    """
+    finite = np.isfinite(x)
+    scale = 10.0 ** decimals
+    all_finite = bool(finite.all())
+    with np.errstate(invalid="ignore", over="ignore"):
+        p = np.abs(x)
+        p *= scale
+        if not all_finite:
+            p[~finite] = 0.0
+        fast = p < FIXED_MAX
+        frac = np.floor(p)
+        np.subtract(p, frac, out=frac)
+        frac -= 0.5
+        np.abs(frac, out=frac)
+        # exact product and rounded product differ by at most half an ulp of p
+        tie = frac <= p * 2.3e-16
+    del frac
+    slow = finite & (~fast | tie)
+    if slow.any():
+        p[slow] = 0.0
+    mag = np.rint(p, out=p).astype(np.int64)
+    del p
+    neg = np.signbit(x)
+    if not all_finite:
+        neg &= finite
+    return finite, slow, mag, neg
 
 
 def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarray:
@@ -50,18 +86,8 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
     """
     x = np.asarray(values, dtype=np.float64)
     n = x.size
-    finite = np.isfinite(x)
-    scale = 10.0 ** decimals
-    with np.errstate(invalid="ignore", over="ignore"):
-        p = np.abs(x) * scale
-        p[~finite] = 0.0
-        fast = p < FIXED_MAX
-        frac = p - np.floor(p)
-        # exact product and rounded product differ by at most half an ulp of p
-        tie = np.abs(frac - 0.5) <= np.abs(p) * 2.3e-16
-    slow = finite & (~fast | tie)
-    mag = np.rint(np.where(slow, 0.0, p)).astype(np.int64)
-    neg = np.signbit(x) & finite
+    finite, slow, mag, neg = _magnitudes(x, decimals)
+    all_finite, any_slow = bool(finite.all()), bool(slow.any())
 
     # number of digits of the magnitude, at least decimals + 1 (a leading zero)
     n_digits = np.full(n, decimals + 1, dtype=np.int64)
@@ -73,12 +99,14 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
             break
         n_digits += more
         power *= 10
-    text_len = n_digits + (1 if decimals else 0) + neg
-    slow_text = [("%.*f" % (decimals, v)).encode("ascii") for v in x[slow].tolist()]
+    text_len = n_digits + (1 if decimals else 0)
+    text_len += neg
+    slow_text = [("%.*f" % (decimals, v)).encode("ascii") for v in x[slow].tolist()] if any_slow else []
     null_b = null_text.encode("ascii")
     width = 0
     if n:
-        width = int(text_len[finite & ~slow].max(initial=0))
+        width = int(text_len.max() if all_finite and not any_slow
+                    else text_len[finite & ~slow].max(initial=0))
         if slow_text:
             width = max(width, max(len(t) for t in slow_text))
         if not finite.all():
@@ -102,8 +130,9 @@ def format_fixed(values: np.ndarray, decimals: int, null_text: str) -> np.ndarra
         if decimals and d == decimals - 1 and col >= 0:
             out_t[col] = _DOT
             col -= 1
-    sel = np.flatnonzero(neg & ~slow)
-    out[sel, first[sel]] = _MINUS
+    sel = np.flatnonzero(neg & ~slow if any_slow else neg)
+    if sel.size:
+        out[sel, first[sel]] = _MINUS
     # clear whatever the digit loop wrote into rows formatted otherwise
     other = ~finite | slow
     if other.any():

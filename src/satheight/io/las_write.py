@@ -88,7 +88,7 @@ def _write_rows(f, columns: Sequence[np.ndarray], widths: Sequence[int]) -> None
             end += w if i == 0 else 1 + w
             buf[:, end - col.shape[1]:end] = col[a:b]
         buf[:, -1] = ord("\n")
-        f.write(buf.tobytes())
+        f.write(buf)                    # the array's own bytes (C order), not a copy
 
 
 def _file_mnemonic(key: str, all_keys: Sequence[str]) -> str:

@@ -7,7 +7,8 @@
   ``field_summary.parquet`` (one row per well and zone: FWL used and its source, pore
   thickness per phase from the SHM and from the logs, with the Monte Carlo P90 / P50 /
   P10 where the project has uncertainty keys, and the SHM-minus-log Sw statistics) and
-  ``all_wells.csv`` / ``all_wells.parquet`` (every well's table, in project order).
+  ``all_wells.parquet`` (every well's table, in project order; ``all_wells.csv`` too when
+  asked for).
 
 Lengths are in the project's length unit (``m`` or ``ft``), named in each column.
 """
@@ -19,7 +20,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import units as U
-from ..io.tables import merge_tables, write_table
+from ..io.tables import CodedText, merge_tables, write_table
 from ..results import WellResult
 
 #: Columns of the field summary taken from each zone block of a well summary:
@@ -42,11 +43,12 @@ def well_table_columns(result: WellResult, project, new_curves) -> dict:
     """
     unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     n = result.well.md.size
-    names = np.array([zn.name for zn in result.zones] + [""], dtype=str)
-    cols = {"WELL": np.full(n, result.well.name),
+    zone = np.asarray(result.shm.zone)
+    cols = {"WELL": CodedText([result.well.name], np.zeros(n, dtype=np.int64)),
             f"MD [{unit}]": U.from_si(result.well.md, unit, "length"),
             f"TVDSS [{unit}]": U.from_si(result.tvdss, unit, "length"),
-            "ZONE": names[result.shm.zone]}                  # -1 picks the trailing ""
+            "ZONE": CodedText([zn.name for zn in result.zones] + [""],     # -1: outside, ""
+                              np.where(zone < 0, len(result.zones), zone))}
     for c in list(result.well.curves.values()) + list(new_curves):
         label = f"{c.mnemonic} [{c.unit}]" if c.unit else c.mnemonic
         if label in cols or c.mnemonic == "TVDSS":        # TVDSS is above, in the project unit
@@ -86,8 +88,9 @@ def field_summary_columns(summaries: list[dict], length_unit: str) -> dict:
 
 
 def write_field_tables(summaries: list[dict], well_tables: list[Path], out_dir: Path,
-                       project) -> list[Path]:
-    """Write the field summary and the all-wells table (CSV and Parquet); return the files.
+                       project, csv: bool = False) -> list[Path]:
+    """Write the field summary (CSV and Parquet) and the all-wells table (Parquet, and CSV
+    when ``csv``); return the files.
 
     Parameters
     ----------
@@ -104,6 +107,6 @@ def write_field_tables(summaries: list[dict], well_tables: list[Path], out_dir: 
     if cols:
         files += write_table(cols, out_dir / "field_summary.parquet", out_dir / "field_summary.csv",
                              metadata=meta)
-    files += merge_tables(well_tables, out_dir / "all_wells.parquet", out_dir / "all_wells.csv",
-                          metadata=meta)
+    files += merge_tables(well_tables, out_dir / "all_wells.parquet",
+                          out_dir / "all_wells.csv" if csv else None, metadata=meta)
     return files

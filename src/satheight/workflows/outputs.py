@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import json
 import os
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -50,14 +51,16 @@ def safe_name(name: str, empty: str = "well") -> str:
 
 @dataclass(frozen=True)
 class PlotOptions:
-    """What a run draws. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
+    """What a run draws and writes. ``draw`` False: no figure; ``pdf``: track plots also as PDF;
     ``depth_axis``: main depth scale of the track plots (``"tvdss"`` or ``"md"``);
     ``interval``: the depths they show (``"zones"`` with a margin, or ``"all"``);
     ``existing``: input curves named like a computed one are replaced (``"replace"``) or
     the new ones get a suffix (``"suffix"``), see :mod:`satheight.workflows.existing`;
     ``pressure_levels`` and ``rejected_lines``: the FWLs the project's pressure file
     implies and the lines of its points the fit rejected
-    (:func:`satheight.workflows.points.pressure_levels`), drawn on the track plots."""
+    (:func:`satheight.workflows.points.pressure_levels`), drawn on the track plots;
+    ``csv``: each well's samples also as ``<well>.csv`` (and the run's ``all_wells.csv``)
+    beside the Parquet tables, which are always written."""
 
     draw: bool = True
     pdf: bool = False
@@ -66,6 +69,7 @@ class PlotOptions:
     existing: str = "replace"
     pressure_levels: tuple = ()
     rejected_lines: frozenset = frozenset()
+    csv: bool = False
 
 
 NO_PLOTS = PlotOptions(draw=False)
@@ -73,7 +77,8 @@ NO_PLOTS = PlotOptions(draw=False)
 
 def write_outputs(result: WellResult, project: Project, out_dir: Path,
                   opts: PlotOptions = PlotOptions()) -> list[Path]:
-    """Write LAS, CSV, JSON summary and track plot(s) of one well; return the paths."""
+    """Write LAS, Parquet, JSON summary, track plot(s) and, with ``opts.csv``, CSV of one
+    well; return the paths."""
     out_dir.mkdir(parents=True, exist_ok=True)
     stem = safe_name(result.well.name)
     new = output_curves(result, project)
@@ -87,12 +92,17 @@ def write_outputs(result: WellResult, project: Project, out_dir: Path,
     files = []
     las_path = out_dir / f"{stem}.las"
     well, params = new_parameters(result.well, run_parameters(result, project), opts.existing)
-    write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
-    files.append(las_path)
-    csv_path = out_dir / f"{stem}.csv"
-    write_csv(csv_path, result.well, new)
-    files.append(csv_path)
-    files += write_well_table(result, project, new, out_dir / f"{stem}.parquet")   # all_wells part
+    # the Parquet table (the well's part of all_wells) is written in a second thread while this
+    # one makes the LAS text: pyarrow and numpy's array loops run without Python's lock
+    with ThreadPoolExecutor(1) as pool:
+        table = pool.submit(write_well_table, result, project, new, out_dir / f"{stem}.parquet")
+        write_las(las_path, well, new_curves=new, parameters=params, decimals=decimals)
+        files.append(las_path)
+        if opts.csv:
+            csv_path = out_dir / f"{stem}.csv"
+            write_csv(csv_path, result.well, new)
+            files.append(csv_path)
+        files += table.result()
     length_unit = U.UNIT_SYSTEMS[project.unit_system]["length"]
     result.summary = summarise(result, length_unit, U.factor(length_unit, "length"),
                                project.comparison.min_porosity, project.comparison.min_permeability,

@@ -91,14 +91,17 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
                 plot: bool = True, depth_axis: str = "tvdss", workers: int = 1,
                 keep_results: bool = True, overwrite: bool = False,
                 progress: bool = False, plot_interval: str = "zones",
-                existing: str = "replace", scheduler: str | None = None) -> RunReport:
+                existing: str = "replace", scheduler: str | None = None,
+                csv: bool = False) -> RunReport:
     """Run every well of a project and write its outputs into ``out_dir``.
 
     ``depth_axis`` (``"tvdss"`` or ``"md"``) is the main depth scale of the track
     plots and ``plot_interval`` (``"zones"``: the zones with a margin, or ``"all"``) the
     depths they show. ``existing`` (``"replace"`` or ``"suffix"``) is what happens to input
     curves named like a computed one (:mod:`satheight.workflows.existing`). With plots on, the field cross-section of all computed wells is written
-    as ``field_section.png`` (a failure there is a note, not a failed run).
+    as ``field_section.png`` (a failure there is a note, not a failed run). Each well's
+    samples are written as LAS and Parquet (and ``all_wells.parquet``); ``csv`` True also
+    writes them as CSV (``<well>.csv``, ``all_wells.csv``).
 
     A well that fails (missing curve, bad file) is reported and the others still
     run. With ``keep_results=False`` the per-sample arrays of each well are released
@@ -145,13 +148,14 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
             notes: list[str] = []
             levels, rejected = pressure_levels(project, notes) if plot else ((), frozenset())
             opts = PlotOptions(draw=plot, pdf=pdf, depth_axis=depth_axis, interval=plot_interval,
-                               existing=existing, pressure_levels=levels, rejected_lines=rejected)
+                               existing=existing, pressure_levels=levels, rejected_lines=rejected,
+                               csv=csv)
             outcomes, locations = _run_wells(project, work, opts, workers, keep_results, bar,
                                              scheduler)
         finally:
             bar.close()
         files, summary, section_file = _run_files(project, outcomes, locations, work, inputs,
-                                                  plot, notes)
+                                                  plot, notes, csv)
         session.commit([f for o in outcomes for f in o.files] + files)
     for o in outcomes:
         o.files = [out_dir / f.name for f in o.files]
@@ -161,10 +165,11 @@ def run_project(project: Project | str | Path, out_dir: str | Path, pdf: bool = 
 
 
 def _run_files(project: Project, outcomes: list[WellOutcome], locations: dict, work: Path,
-               inputs: InputFiles, plot: bool, notes: list[str]):
+               inputs: InputFiles, plot: bool, notes: list[str], csv: bool = False):
     """The run's own files (beside the wells'): field section, crossplots, field and
-    hand-over tables, report and ``run_summary.json``. Returns ``(files, summary path,
-    section file or None)``; what could not be drawn is a note in ``notes``."""
+    hand-over tables (``all_wells.csv`` only when ``csv``), report and ``run_summary.json``.
+    Returns ``(files, summary path, section file or None)``; what could not be drawn is a
+    note in ``notes``."""
     section_file = _field_section(project, outcomes, locations, work, notes) if plot else None
     cross_files = _crossplots(project, outcomes, work, notes) if plot else []
     notes += unmatched_notes(project, well_labels([o.name for o in outcomes]
@@ -177,7 +182,8 @@ def _run_files(project: Project, outcomes: list[WellOutcome], locations: dict, w
                      "name, LAS file name or LAS WELL item) and were not used")
     summaries = [o.summary for o in outcomes if o.ok]
     tables = write_field_tables(summaries, [f for o in outcomes if o.ok for f in o.files
-                                            if f.suffix == ".parquet"], work, project)
+                                            if f.suffix == ".parquet"], work, project,
+                                csv=csv)
     handover = write_handover(project, summaries, work, notes)
     report, summary = _write_summary(project, outcomes, section_file, notes, work, inputs,
                                      tables, cross_files, handover)
