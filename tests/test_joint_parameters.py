@@ -378,7 +378,7 @@ def test_joint_draws_give_the_same_files_with_one_or_two_workers(tmp_path):
     run_project(project, tmp_path / "one", plot=False, workers=1)
     run_project(project, tmp_path / "two", plot=False, workers=2)
     for name in ("VANTREL-1", "VANTREL-2"):
-        for suffix in (".las", ".csv", "_summary.json"):
+        for suffix in (".las", ".parquet", "_summary.json"):
             a = (tmp_path / "one" / f"{name}{suffix}").read_bytes()
             b = (tmp_path / "two" / f"{name}{suffix}").read_bytes()
             assert a == b, name + suffix
