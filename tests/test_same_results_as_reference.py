@@ -24,7 +24,7 @@ import pytest
 ROOT = Path(__file__).resolve().parents[1]
 # The last commit whose results are the expected ones (see the module docstring).
 pytestmark = pytest.mark.slow   # run by .ci/run's second step (README: tests)
-REFERENCE_COMMIT = "7e968baf55108634c1e2f995ba6d9509dea47794"
+REFERENCE_COMMIT = "aa7d776598fc7f71aaacc08e84ff73b0e0fc8784"
 COMPARED_SUFFIXES = (".las", ".csv", ".json")
 # Files that carry the run's own provenance (tool version, input paths and checksums): not results.
 NOT_COMPARED = {"run_summary.json"}
@@ -53,7 +53,7 @@ CORE_FILES = [DEMO / n for n in ("core_plugs.csv", "core_pc_steps.csv", "core_pl
                                  "core_plug_V12.csv")]
 # The commands whose result files are compared: the run, the core fit, the two contact jobs.
 COMMANDS = {
-    "run": ["run", PROJECT, "--no-plots"],
+    "run": ["run", PROJECT, "--no-plots", "--csv"],
     "fit": ["fit", *CORE_FILES, "--reservoir", "Upper Sand=26 mN/m,300 kg/m3",
             "--reservoir", "Lower Sand=50 mN/m,859.5 kg/m3"],
     "fwl": ["fwl", PROJECT, "--zone", "Lower Sand", "--resamples", "40"],
