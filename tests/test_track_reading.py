@@ -59,7 +59,7 @@ def test_depth_ticks_every_10_m_labels_every_50_m(units, minor, major):
     """Ticks every 10 m / 50 ft, labels every 50 m / 100 ft (common practice); each number
     sits at the depth it names: on the main scale (TVDSS) its own plot depth, on the MD
     scale the plot depth where the well's MD is that number (make_result: TVDSS = MD - 25,
-    a vertical well; the display unit is ft in field units, 1 ft = 0.3048 m, NIST SP 811)."""
+    a vertical well; the display unit is ft in field units, 1 ft = 0.3048 m: nist2008)."""
     fig = drawn(plots.track_plot(make_result(datum=25.0), units=units))
     ax = fig.axes[0]
     lo, hi = sorted(ax.get_ylim())
