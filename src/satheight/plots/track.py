@@ -290,7 +290,7 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
         ax.yaxis.set_major_locator(NullLocator())   # depth scales: see _depth_scales
         if i == 0:
             _minor_ticks(ax, y_top, y_base, minor, major)
-        else:   # no depth scale: the hidden axis builds no tick objects when drawn
+        else:   # no depth scale: a hidden axis skips its tick update and layout when drawn
             ax.yaxis.set_visible(False)
         ax.grid(True, axis="x", which="major", color=GRID_COLOUR, lw=0.6, zorder=0.5)
         _depth_grid(ax, y_top, y_base, minor, major)
