@@ -16,6 +16,7 @@ from matplotlib import cbook
 from matplotlib.figure import Figure
 
 from satheight import plots
+from satheight.plots.depth_scale import LABELS_GID, OTHER_TITLE_GID
 from satheight.plots.depths import zone_intervals
 from satheight.workflows.figures import save_figure
 from satheight.errors import DepthError, InputFileError, UnitError
@@ -293,9 +294,8 @@ def test_both_depth_axes(tmp_path, depth_axis):
     lo, hi = ax.get_ylim()
     assert lo == pytest.approx(depth.max()) and hi == pytest.approx(depth.min())  # depth down
     assert ax.get_ylabel() == ("MD [m]" if depth_axis == "md" else "TVDSS [m]")
-    other = [c for c in ax.child_axes]
-    assert len(other) == 1
-    assert other[0].get_ylabel() == ("TVDSS [m]" if depth_axis == "md" else "MD [m]")
+    other = [t.get_text() for t in fig.texts if t.get_gid() == OTHER_TITLE_GID]
+    assert other == ["TVDSS [m]" if depth_axis == "md" else "MD [m]"]
 
 
 def test_field_units_in_feet():
@@ -310,13 +310,19 @@ def test_field_units_in_feet():
 
 
 def test_secondary_axis_maps_md_to_tvdss():
+    """MD main scale, datum 40 m, vertical well: TVDSS = MD - 40 (make_result, worked by
+    hand), so the TVDSS number t sits at plot MD t + 40, every 50 m of TVDSS."""
     res = make_result(datum=40.0)
     fig = plots.track_plot(res, depth_axis="md")
     fig.canvas.draw()
-    main_ax = fig.axes[0]
-    sec = main_ax.child_axes[0]
-    lo, hi = main_ax.get_ylim()
-    np.testing.assert_allclose(sec.get_ylim(), (lo - 40.0, hi - 40.0))
+    lo, hi = sorted(fig.axes[0].get_ylim())
+    labels = np.array([(t.get_position()[1], float(t.get_text().replace("\N{MINUS SIGN}", "-")))
+                       for t in fig.texts if t.get_gid() == LABELS_GID["other"]])
+    assert len(labels) >= 3
+    np.testing.assert_allclose(labels[:, 0], labels[:, 1] + 40.0)
+    np.testing.assert_allclose(np.mod(labels[:, 1], 50.0), 0.0, atol=1e-9)
+    assert np.all((labels[:, 0] >= lo) & (labels[:, 0] <= hi))
+    assert labels[:, 0].min() - 50.0 < lo and labels[:, 0].max() + 50.0 > hi   # none left out
 
 
 def test_bad_arguments():

@@ -11,6 +11,7 @@ import pytest
 from matplotlib import cbook
 
 from satheight import plots
+from satheight.plots.depth_scale import LABELS_GID, OTHER_TITLE_GID, TICKS_GID
 from satheight.plots.track import MINOR_TICKS_GID, DepthPoints, depth_ticks
 from test_plots import FOOT_M, all_texts, legend_labels, make_result, zone
 
@@ -34,24 +35,67 @@ def line_labelled(fig, label):
 # ---------------------------------------------------------------------- depth scale
 
 
+def scale_marks(fig, which):
+    """A depth scale as drawn: plot depths of its ticks, and (plot depth, number) of each label.
+
+    Read from the figure's artists (one line collection of ticks, one text per number,
+    see satheight.plots.depth_scale), in the first track's depth coordinates.
+    """
+    ax = fig.axes[0]
+    (coll,) = [c for c in ax.collections if c.get_gid() == TICKS_GID[which]]
+    ticks = np.array([seg[0][1] for seg in coll.get_segments()])
+    labels = [(t.get_position()[1], float(t.get_text().replace("\N{MINUS SIGN}", "-")))
+              for t in fig.texts if t.get_gid() == LABELS_GID[which]]
+    return ticks, np.array(labels).reshape(-1, 2)
+
+
+def other_scale_name(fig):
+    (name,) = [t.get_text() for t in fig.texts if t.get_gid() == OTHER_TITLE_GID]
+    return name
+
+
 @pytest.mark.parametrize("units, minor, major", [("metric", 10.0, 50.0), ("field", 50.0, 100.0)])
 def test_depth_ticks_every_10_m_labels_every_50_m(units, minor, major):
-    """Ticks every 10 m / 50 ft, labels every 50 m / 100 ft (common practice)."""
-    fig = drawn(plots.track_plot(make_result(), units=units))
+    """Ticks every 10 m / 50 ft, labels every 50 m / 100 ft (common practice); each number
+    sits at the depth it names: on the main scale (TVDSS) its own plot depth, on the MD
+    scale the plot depth where the well's MD is that number (make_result: TVDSS = MD - 25,
+    a vertical well; the display unit is ft in field units, 1 ft = 0.3048 m: nist2008)."""
+    fig = drawn(plots.track_plot(make_result(datum=25.0), units=units))
     ax = fig.axes[0]
     lo, hi = sorted(ax.get_ylim())
-    maj = [v for v in ax.yaxis.get_majorticklocs() if lo <= v <= hi]
+    maj, labels = scale_marks(fig, "main")
     (coll,) = [c for c in ax.collections if c.get_gid() == MINOR_TICKS_GID]
     mnr = [seg[0][1] for seg in coll.get_segments()]   # minor ticks: one line collection
-    assert len(maj) >= 3
+    assert len(maj) >= 3 and np.all((maj >= lo) & (maj <= hi))
+    # every multiple of the step inside the window has its tick, none is missing at the ends
+    assert maj.min() - major < lo and maj.max() + major > hi
     np.testing.assert_allclose(np.diff(maj), major)
     np.testing.assert_allclose(np.mod(maj, major), 0.0, atol=1e-9)
     assert set(np.round(np.diff(sorted(set(mnr) | set(maj))), 9)) == {minor}
-    labelled = [t.get_text() for t in ax.yaxis.get_majorticklabels() if t.get_text()]
-    assert len(labelled) >= 3
-    sec = ax.child_axes[0]   # MD scale: its own ticks on its own values
-    smaj = sec.yaxis.get_majorticklocs()
-    np.testing.assert_allclose(np.mod(smaj, major), 0.0, atol=1e-9)
+    np.testing.assert_allclose(labels[:, 0], maj)          # one number per labelled tick
+    np.testing.assert_allclose(labels[:, 1], labels[:, 0])  # ... naming its own depth
+    ticks, md_labels = scale_marks(fig, "other")            # MD scale: its own round values
+    assert len(md_labels) >= 3
+    np.testing.assert_allclose(np.mod(md_labels[:, 1], major), 0.0, atol=1e-9)
+    np.testing.assert_allclose(np.diff(md_labels[:, 1]), major)
+    np.testing.assert_allclose(ticks, md_labels[:, 0])
+    scale = FOOT_M if units == "field" else 1.0
+    np.testing.assert_allclose(md_labels[:, 0], (md_labels[:, 1] * scale - 25.0) / scale)
+
+
+def test_md_scale_on_a_deviated_well():
+    """60 degree hole (TVDSS = 1000 m + (MD - 1500 m) cos 60 = 1000 + (MD - 1500) / 2, worked
+    by hand): the MD number m sits at plot TVDSS 1000 + (m - 1500) / 2, so the MD labels
+    (the same step of 50 m, on MD) are half as far apart on the page as the TVDSS labels."""
+    md = 1500.0 + 0.5 * np.arange(1200)
+    fig = drawn(plots.track_plot(make_result(tvdss=1000.0 + (md - 1500.0) * 0.5, zones=[]),
+                                 interval="all"))
+    _, tv_labels = scale_marks(fig, "main")
+    _, md_labels = scale_marks(fig, "other")
+    assert len(md_labels) >= 3
+    np.testing.assert_allclose(md_labels[:, 0], 1000.0 + (md_labels[:, 1] - 1500.0) / 2.0)
+    np.testing.assert_allclose(np.diff(md_labels[:, 0]), 0.5 * np.diff(tv_labels[:, 0])[0])
+    assert md_labels[:, 1].min() >= md.min() and md_labels[:, 1].max() <= md.max()
 
 
 def test_depth_ticks_grow_when_labels_would_crowd():
@@ -65,7 +109,7 @@ def test_depth_ticks_grow_when_labels_would_crowd():
 def test_main_scale_is_tvdss_with_md_beside_it_labelled_md():
     fig = plots.track_plot(make_result())
     assert fig.axes[0].get_ylabel() == "TVDSS [m]"
-    assert fig.axes[0].child_axes[0].get_ylabel() == "MD [m]"
+    assert other_scale_name(fig) == "MD [m]"
 
 
 # ------------------------------------------------------------------- interval shown

@@ -30,6 +30,7 @@ if TYPE_CHECKING:  # matplotlib is imported where a figure is drawn (~0.3 s at s
 from ..errors import DepthError, SatHeightError, UnitError
 from ..results import WellResult
 from ..units import SHOWN_DECIMALS, UNIT_SYSTEMS, factor
+from .depth_scale import OTHER_TITLE_GID, draw_scale, multiples, title_position
 from .depths import level_crossings, mapping, monotone_pairs
 from .style import DPI, GREY, PAGES
 from .text import safe_text
@@ -239,14 +240,21 @@ def _minor_ticks(ax, top: float, base: float, minor: float, major: float) -> Non
 
 
 def _depth_grid(ax, top: float, base: float, minor: float, major: float) -> None:
-    """Horizontal grid lines at every minor and major depth step, as two line collections."""
+    """Horizontal grid lines at every minor and major depth step, as two line collections.
+
+    Each collection holds one path whose lines are separated by NaN gaps: one path
+    object per line would cost more than drawing them (about 700 lines per track).
+    The path is snapped to whole pixels as each line alone would be (matplotlib
+    snaps a path by itself only up to 1024 vertices), so the pixels are the same.
+    """
     from matplotlib.collections import LineCollection
 
     for step, lw in ((minor, 0.3), (major, 0.7)):
         ys = np.arange(np.ceil(top / step) * step, base + step * 1e-9, step)
-        segs = np.stack([np.column_stack([np.zeros_like(ys), ys]),
-                         np.column_stack([np.ones_like(ys), ys])], axis=1)
-        ax.add_collection(LineCollection(segs, colors=GRID_COLOUR, linewidths=lw, zorder=0.5,
+        xs = np.tile([0.0, 1.0, np.nan], ys.size)
+        path = np.column_stack([xs, np.where(np.isnan(xs), np.nan, np.repeat(ys, 3))])
+        ax.add_collection(LineCollection([path], colors=GRID_COLOUR, linewidths=lw, zorder=0.5,
+                                         snap=True,   # as each line alone would be
                                          transform=ax.get_yaxis_transform()))
 
 
@@ -255,7 +263,7 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
     """The figure with one axes per track sharing the depth scale (depth down)."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
-    from matplotlib.ticker import MultipleLocator, NullLocator
+    from matplotlib.ticker import NullLocator
 
     length_unit = UNIT_SYSTEMS[units]["length"]
     scale = factor(length_unit, "length")  # display unit -> m
@@ -279,12 +287,11 @@ def _frame(result: WellResult, md, tvdss, depth_axis: str, units: str, tracks,
         ax = fig.add_axes((x / fig_w, bottom / fig_h, width * k / fig_w, plot_h / fig_h))
         ax.set_ylim(y_base, y_top)  # depth increases downwards
         ax.yaxis.set_minor_locator(NullLocator())
+        ax.yaxis.set_major_locator(NullLocator())   # depth scales: see _depth_scales
         if i == 0:
-            ax.yaxis.set_major_locator(MultipleLocator(major))
-            ax.tick_params(axis="y", labelsize=8)
             _minor_ticks(ax, y_top, y_base, minor, major)
-        else:
-            ax.yaxis.set_major_locator(NullLocator())
+        else:   # no depth scale: a hidden axis skips its tick update and layout when drawn
+            ax.yaxis.set_visible(False)
         ax.grid(True, axis="x", which="major", color=GRID_COLOUR, lw=0.6, zorder=0.5)
         _depth_grid(ax, y_top, y_base, minor, major)
         axes[key] = ax
@@ -300,14 +307,17 @@ def _depth_scales(f: Frame, units: str) -> None:
 
     Each scale carries its name and unit (``TVDSS [m]``, ``MD [m]``), ticks every 10 m
     and labels every 50 m (50 ft and 100 ft in field units) on its own values, so the
-    two sets of numbers never sit between each other's ticks.
+    two sets of numbers never sit between each other's ticks. The labelled ticks are
+    drawn as a few artists (:mod:`satheight.plots.depth_scale`), not tick objects.
     """
-    from matplotlib.ticker import MultipleLocator, NullLocator
-
     first = next(iter(f.axes.values()))
     primary = "MD" if f.depth_axis == "md" else "TVDSS"
     other = "TVDSS" if f.depth_axis == "md" else "MD"
+    _, major = depth_ticks(units, f.y_base - f.y_top, f.plot_height)
+    values = multiples(f.y_top, f.y_base, major)
+    left = draw_scale(first, "main", values, values, 0.0, "black")
     first.set_ylabel(f"{primary} [{f.length_unit}]", fontsize=9, fontweight="bold")
+    first.yaxis.set_label_coords(title_position(first, left), 0.5)
     md_fin, tv_fin = monotone_pairs(f.md, f.tvdss)
     if not (f.have_tvdss and md_fin.size >= 2):
         return
@@ -315,19 +325,16 @@ def _depth_scales(f: Frame, units: str) -> None:
         fwd_si, inv_si = mapping(md_fin, tv_fin), mapping(tv_fin, md_fin)
     else:
         fwd_si, inv_si = mapping(tv_fin, md_fin), mapping(md_fin, tv_fin)
-    scale = f.scale
+    ends = fwd_si(np.array([f.y_top, f.y_base]) * f.scale) / f.scale
+    values = multiples(ends[0], ends[1], major)
+    at = inv_si(values * f.scale) / f.scale
+    keep = (at >= f.y_top - 1e-9 * major) & (at <= f.y_base + 1e-9 * major)
     width = first.get_position().width * f.fig.get_size_inches()[0]
-    sec = first.secondary_yaxis(
-        -0.85 / width,
-        functions=(lambda v: fwd_si(np.asarray(v) * scale) / scale,
-                   lambda v: inv_si(np.asarray(v) * scale) / scale))
-    sec.yaxis.set_ticks_position("left")  # labels outside, clear of the primary scale
-    sec.yaxis.set_label_position("left")
-    sec.set_ylabel(f"{other} [{f.length_unit}]", fontsize=9, color=GREY)
-    sec.tick_params(axis="y", which="both", labelsize=8, colors=GREY)
-    _, major = depth_ticks(units, f.y_base - f.y_top, f.plot_height)
-    sec.yaxis.set_major_locator(MultipleLocator(major))
-    sec.yaxis.set_minor_locator(NullLocator())  # labels every 50 m; ticks every 10 m on TVDSS
+    x = -0.85 / width                 # [axes fraction]: 0.85 inch left of the main scale
+    left = draw_scale(first, "other", values[keep], at[keep], x, GREY, spine=True)
+    f.fig.text(title_position(first, left), 0.5, f"{other} [{f.length_unit}]", fontsize=9,
+               color=GREY, rotation=90, rotation_mode="anchor", ha="center", va="bottom",
+               transform=first.transAxes, gid=OTHER_TITLE_GID)
 
 
 def _points_depth(f: Frame, pts: DepthPoints) -> np.ndarray:
