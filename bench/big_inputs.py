@@ -28,13 +28,14 @@ from pathlib import Path
 import numpy as np
 
 ROOT = Path(__file__).resolve().parents[1]
+FAILED: list[str] = []        # runs that ended with an error (the script then exits 1)
 
 ZONE = """
 [[zones]]
 name = "S"
 top = "900 m"
-base = "100000 m"
-fwl = "20000 m"
+base = "7000 m"
+fwl = "{fwl}"
 hydrocarbon = "oil"
 water_density = "1.05 g/cm3"
 hydrocarbon_density = "0.8 g/cm3"
@@ -48,28 +49,28 @@ b = 1.5
 
 
 def write_las(path: Path, name: str, n: int, n_curves: int, seed: int = 0) -> None:
-    """An invented vertical well: depth from 1000 m at 0.1 m, n_curves curves in all."""
+    """An invented vertical well: depth from 1000 m at 0.01 m, n_curves curves in all."""
     rng = np.random.default_rng(seed)
-    depth = 1000.0 + 0.1 * np.arange(n)
+    depth = 1000.0 + 0.01 * np.arange(n)
     cols = [depth, rng.uniform(0.05, 0.3, n), 10 ** rng.uniform(-1, 3, n), 10 ** rng.uniform(0, 2, n)]
     names = ["DEPT.M : depth", "PHIE.V/V : porosity", "PERM.MD : permeability",
              "RT.OHMM : resistivity"]
     for i in range(n_curves - 4):
         cols.append(rng.normal(50.0, 10.0, n))
         names.append(f"C{i:02d}.UNIT : invented curve {i}")
-    fmt = ["%.1f", "%.4f", "%.3f", "%.3f"] + ["%.3f"] * (n_curves - 4)
+    fmt = ["%.2f", "%.4f", "%.3f", "%.3f"] + ["%.3f"] * (n_curves - 4)
     head = ("~Version\nVERS. 2.0 :\nWRAP. NO :\n~Well\n"
-            f"STRT.M {depth[0]:.1f} :\nSTOP.M {depth[-1]:.1f} :\nSTEP.M 0.1 :\nNULL. -999.25 :\n"
+            f"STRT.M {depth[0]:.2f} :\nSTOP.M {depth[-1]:.2f} :\nSTEP.M 0.01 :\nNULL. -999.25 :\n"
             f"WELL. {name} :\nEKB.M 25 :\n~Curve\n" + "\n".join(names) + "\n~A\n")
     with open(path, "w") as f:
         f.write(head)
         np.savetxt(f, np.column_stack(cols), fmt=fmt)
 
 
-def write_project(folder: Path, las_names: list[str]) -> Path:
+def write_project(folder: Path, las_names: list[str], fwl: str) -> Path:
     wells = "".join(f'[[wells]]\nlas = "{n}"\n' for n in las_names)
     p = folder / "p.toml"
-    p.write_text('[project]\nunits = "metric"\n[log_sw]\nrw = "0.05 ohm.m"\n' + wells + ZONE)
+    p.write_text('[project]\nunits = "metric"\n[log_sw]\nrw = "0.05 ohm.m"\n' + wells + ZONE.format(fwl=fwl))
     return p
 
 
@@ -77,14 +78,18 @@ def run(project: Path, out: Path, plots: bool) -> tuple[int, float, float]:
     """Exit code, wall time [s] and peak RSS [MiB] of one command-line run."""
     args = [sys.executable, str(ROOT / "cli.py"), "run", str(project), "--out", str(out),
             "--overwrite"] + ([] if plots else ["--no-plots"])
-    t0 = time.perf_counter()
-    proc = subprocess.Popen(args, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
-    _, status, usage = os.wait4(proc.pid, 0)
-    wall = time.perf_counter() - t0
-    proc.returncode = os.waitstatus_to_exitcode(status)
-    err = proc.stderr.read().decode()
-    if proc.returncode not in (0, 3):
+    # stderr to a file, not a pipe: a run's warnings can fill a pipe while we wait for it
+    with tempfile.TemporaryFile() as log:
+        t0 = time.perf_counter()
+        proc = subprocess.Popen(args, stdout=subprocess.DEVNULL, stderr=log)
+        _, status, usage = os.wait4(proc.pid, 0)
+        wall = time.perf_counter() - t0
+        proc.returncode = os.waitstatus_to_exitcode(status)
+        log.seek(0)
+        err = log.read().decode(errors="replace")[-4000:]
+    if proc.returncode != 0:        # 3: a well failed, 2: bad input; either way a failed case
         print(err, file=sys.stderr)
+        FAILED.append(" ".join(args[2:4]))
     return proc.returncode, wall, usage.ru_maxrss / 1024.0
 
 
@@ -103,7 +108,7 @@ def case_big_las(tmp: Path, n: int, n_curves: int) -> None:
     size = las.stat().st_size / 2**20
     print(f"big_las: {n} samples x {n_curves} curves, {size:.0f} MiB file "
           f"(written in {time.perf_counter() - t0:.1f} s)")
-    project = write_project(tmp, ["big.las"])
+    project = write_project(tmp, ["big.las"], "5000 m")
     for plots in (False, True):
         code, wall, rss = run(project, tmp / "out", plots)
         print(f"  run {'with' if plots else 'without'} plots: exit {code}, {wall:.1f} s, "
@@ -115,7 +120,7 @@ def case_many_wells(tmp: Path, n_wells: int, n: int) -> None:
     for w in range(n_wells):
         write_las(tmp / f"w{w:04d}.las", f"W{w:04d}", n, 6, seed=w)
         names.append(f"w{w:04d}.las")
-    project = write_project(tmp, names)
+    project = write_project(tmp, names, "1010 m")
     code, wall, rss = run(project, tmp / "out", plots=False)
     print(f"many_wells: {n_wells} wells x {n} samples x 6 curves, no plots: exit {code}, "
           f"{wall:.1f} s, peak RSS {rss:.0f} MiB")
@@ -140,6 +145,8 @@ def main() -> None:
                 case_many_wells(sub, a.wells, a.well_samples)
             else:
                 raise SystemExit(f"unknown case {c!r}")
+    if FAILED:
+        raise SystemExit(f"{len(FAILED)} run(s) failed: " + "; ".join(FAILED))
 
 
 if __name__ == "__main__":
