@@ -70,7 +70,8 @@ def make_result(n=1200, top_md=1500.0, step=0.5, datum=25.0, gr=True, rt=True, s
     phi[100:110] = np.nan
     flag[100:110] |= FLAG_BAD_POROSITY
     sw_l = np.clip(np.where(np.isfinite(sw), sw, 1.0) + rng.normal(0, 0.04, n), 0, 1)
-    rt_arr = 0.05 / (np.where(np.isfinite(phi), phi, 0.2) ** 2 * sw_l ** 2)
+    with np.errstate(divide="ignore"):     # Sw clipped to 0 gives an infinite Rt, as intended
+        rt_arr = 0.05 / (np.where(np.isfinite(phi), phi, 0.2) ** 2 * sw_l ** 2)
     gr_arr = np.clip(40 + 300 * (0.2 - phi) + rng.normal(0, 5, n), 10, 200)
     if all_nan:
         nan = np.full(n, np.nan)
