@@ -236,7 +236,7 @@ class ValueReader:
 
 
 def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None,
-                         system: str = "metric") -> None:
+                         system: str = "metric", well_file=None) -> None:
     """Refuse a zone's FWL far outside a well's logged TVDSS or above its surface.
 
     Called by the run with each well's TVDSS, as the check needs the wells; the zone's
@@ -254,6 +254,9 @@ def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None,
         TVDSS of the well's depth reference [m] (minus its elevation).
     system : str
         The project's unit system: the message shows depths in its length unit.
+    well_file : path, optional
+        The well's log file, named in the hint (its depths, or their unit, may be what is
+        wrong rather than the FWL).
     """
     z = np.asarray(tvdss, dtype=float)
     z = z[np.isfinite(z)]
@@ -262,6 +265,8 @@ def check_fwl_near_wells(path, zone, tvdss, surface_tvdss: float | None = None,
     why = fwl_outside_logs(zone.fwl, float(z.min()), float(z.max()), surface_tvdss,
                            UNIT_SYSTEMS[system]["length"])
     if why is not None:
+        logs = "" if well_file is None else f", and the depths and depth unit of {well_file}"
         raise ProjectFileError(why, where=f"{path}, key zones[{zone.name}].fwl",
-                               hint="check the FWL and its unit (TVDSS, positive down); if it "
-                                    f'is deliberate, add "fwl" to {ALLOW_KEY} = [...] of the zone')
+                               hint=f"check the FWL and its unit (TVDSS, positive down){logs}; "
+                                    f'if it is deliberate, add "fwl" to {ALLOW_KEY} = [...] '
+                                    "of the zone")

@@ -233,7 +233,7 @@ def compute_well(project: Project, spec: WellSpec,
     zones = zones_for_well(project, spec, well.md, tvdss, md_to_tvdss, need_fwl)
     for zn in zones:  # a FWL far outside this well's logs, or above its surface, is refused
         if not math.isnan(zn.fwl):
-            check_fwl_near_wells(project.path, zn, tvdss, -elev, project.unit_system)
+            check_fwl_near_wells(project.path, zn, tvdss, -elev, project.unit_system, spec.las)
     if not zones:
         msgs.append("no zone of the project lies in this well")
     shm = compute_shm(tvdss, phi, k, zones)
