@@ -13,12 +13,14 @@ fitted once per run from every point of the file, as ``satheight pressures`` doe
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
 from ..errors import SatHeightError
 from ..io.pressures import resolve_tvdss
 from ..plots import DepthPoints
-from ..pressures import DEFAULT_QUALITIES, PressurePoints, analyse_pressures
+from ..pressures import DEFAULT_QUALITIES, analyse_pressures
 from ..project.types import Project
 from ..results import WellResult
 from .well import depth_maps
@@ -44,8 +46,7 @@ def pressure_levels(project: Project, notes: list[str]) -> tuple[tuple, frozense
     zone = pts.zone.copy()
     if len(project.zones) == 1:     # as satheight pressures: the project's only zone
         zone[zone == ""] = project.zones[0].name
-    pts = PressurePoints(pts.source, pts.well, pts.tvdss, pts.md, pts.pressure, pts.fluid,
-                    pts.quality, zone, pts.line, list(pts.notes))
+    pts = replace(pts, zone=zone, notes=list(pts.notes))
     try:
         if np.isnan(pts.tvdss).any():
             pts = resolve_tvdss(pts, depth_maps(project, set(pts.well), notes))
