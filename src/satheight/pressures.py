@@ -27,7 +27,7 @@ import numpy as np
 from .constants import STANDARD_GRAVITY
 from .errors import SatHeightError
 from .plausible import fluid_line_problems
-from .units import from_si
+from .units import in_unit
 
 __all__ = ["PressurePoints", "LineFit", "Level", "ZonePressures", "fit_gradient", "intersect", "analyse_pressures",
            "compare_levels", "DEFAULT_QUALITIES"]
@@ -405,7 +405,7 @@ def _free_levels(res: ZonePressures, density_unit: str = "kg/m3") -> None:
     level that does not exist.
     """
     def rho(v):
-        return f"{float(from_si(v, density_unit, 'density')):.6g} {density_unit}"
+        return in_unit(v, density_unit, "density")
 
     w, o, g = (res.lines.get(f) for f in ("water", "oil", "gas"))
     for dense, light, kind in ((w, o or g, "FWL"), (o, g, "free-oil level")):

@@ -17,7 +17,7 @@ import numpy as np
 from .distributions import Distribution, JointNormal
 from .engine import ZoneModel
 from .errors import SatHeightError
-from .units import from_si
+from .units import in_unit
 
 __all__ = ["ZONE_INPUTS", "LOG_ERRORS", "LogError", "ZoneUncertainty", "check_zone_uncertainty",
            "deterministic_value"]
@@ -80,8 +80,7 @@ def check_zone_uncertainty(zone: ZoneModel, spec: ZoneUncertainty, where: str = 
         kind = _INPUT_KIND.get(name)
         if kind is None:
             return f"{v:.6g}"
-        unit = (units or si)[kind]
-        return f"{float(from_si(v, unit, kind)):.6g} {unit}"
+        return in_unit(v, (units or si)[kind], kind)
 
     where = where or f"zone {zone.name!r}"
     if zone.three_phase or zone.rock_functions:

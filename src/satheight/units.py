@@ -107,6 +107,12 @@ def shown(value_si: float, kind: str, system: str = "metric") -> str:
     return f"{value:.{SHOWN_DECIMALS.get(unit.lower(), 3)}f} {unit}"
 
 
+def in_unit(value_si: float, unit: str, kind: str) -> str:
+    """An SI value as text in ``unit`` (a unit of ``kind``), to 6 significant digits: the
+    form messages use for a value the user gave or a limit it is held to."""
+    return f"{float(from_si(value_si, unit, kind)):.6g} {unit}"
+
+
 _NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?"
 _QUANTITY = re.compile(rf"^\s*({_NUMBER})\s*(.*?)\s*$")
 

@@ -236,7 +236,7 @@ def _check_plausible_md(md: np.ndarray, index: np.ndarray, mnemonic: str, depth_
         bad = np.flatnonzero(~np.isfinite(md) | (np.abs(md) > MAX_MD))
     if bad.size:
         row = int(bad[0]) + 1
-        limit = f"{float(units.from_si(MAX_MD, depth_unit, 'length')):.6g} {depth_unit}"
+        limit = units.in_unit(MAX_MD, depth_unit, "length")
         raise DepthError(f"depth {float(index[bad[0]]):.6g} {depth_unit} of {mnemonic!r} at data row "
                          f"{row} is not a plausible measured depth (beyond {limit}"
                          f"{' or not finite once converted' if not np.isfinite(md[bad[0]]) else ''})",

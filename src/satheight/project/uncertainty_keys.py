@@ -56,7 +56,7 @@ from ..errors import ModelError, ProjectFileError, SatHeightError, UnitError
 from ..io.model_file import load_models
 from ..models import get_family
 from ..uncertainty import LOG_ERRORS, LogError, MonteCarloSettings, ZoneUncertainty
-from ..units import UNIT_SYSTEMS, from_si, parse_quantity
+from ..units import UNIT_SYSTEMS, in_unit, parse_quantity
 
 #: The zone key this module reads (added to the project reader's allowed zone keys).
 UNCERTAINTY_ZONE_KEY = "uncertainty"
@@ -115,8 +115,7 @@ class _Keys:
         """An SI value (or a spread of values) in the project's unit of ``kind``."""
         if kind is None:
             return f"{value_si:.6g}"
-        unit = self.units[kind]
-        return f"{float(from_si(value_si, unit, kind)):.6g} {unit}".rstrip()
+        return in_unit(value_si, self.units[kind], kind).rstrip()
 
     def value(self, raw: Any, key: str, kind: str | None) -> float:
         if kind is None:

@@ -17,7 +17,7 @@ import numpy as np
 
 from ..errors import ProjectFileError, UnitError
 from ..plausible import RANGES, fwl_outside_logs, outside_message
-from ..units import UNIT_SYSTEMS, from_si, parse_quantity, split_quantity
+from ..units import UNIT_SYSTEMS, from_si, in_unit, parse_quantity, split_quantity
 
 #: Key of every table that holds physical values: names of its values allowed outside
 #: their plausible range (:data:`satheight.plausible.RANGES`).
@@ -158,8 +158,7 @@ class ValueReader:
 
     def unit_text(self, value_si: float, kind: str) -> str:
         """An SI value shown in the project's unit of ``kind`` (6 significant digits)."""
-        unit = self.units[kind]
-        return f"{float(from_si(value_si, unit, kind)):.6g} {unit}"
+        return in_unit(value_si, self.units[kind], kind)
 
     def existing_file(self, value: Any, key: str, what: str) -> Path:
         """A file path relative to the project file that must exist."""
